@@ -1,0 +1,526 @@
+package circuit
+
+import (
+	"fmt"
+	"strings"
+
+	"github.com/alecthomas/participle/v2/lexer"
+
+	"nodal/diag"
+	"nodal/grammar"
+	"nodal/units"
+)
+
+// Result is a built design with what elaboration found.
+type Result struct {
+	Design *Design
+	Diags  diag.List
+	// Incomplete is set when a statement could not be placed in the design
+	// at all (unknown kind, wrong pins): connectivity is then not fully
+	// known and rules that reason about whole islands stay quiet.
+	Incomplete bool
+	// Invalid is set when a part has a value the solver cannot use.
+	Invalid bool
+}
+
+// Build elaborates a parsed file into a design.
+func Build(file *diag.File, ast *grammar.File) *Result {
+	b := &builder{file: file, r: &Result{Design: NewDesign(file.Name())}}
+	b.run(ast)
+	return b.r
+}
+
+type builder struct {
+	file       *diag.File
+	r          *Result
+	designPos  diag.Pos
+	partIndex  map[string]PartID
+	firstPart  diag.Pos
+	groundStmt diag.Pos
+}
+
+func (b *builder) pos(p lexer.Position) diag.Pos { return b.file.Pos(clamp(p.Offset, b.file.Size())) }
+
+func clamp(o, n int) int {
+	if o < 0 {
+		return 0
+	}
+	if o > n {
+		return n
+	}
+	return o
+}
+
+func (b *builder) report(rule string, sev diag.Severity, pos, end diag.Pos, format string, args ...any) {
+	b.r.Diags.Add(diag.Diagnostic{Pos: pos, End: end, Rule: rule, Severity: sev, Message: fmt.Sprintf(format, args...)})
+}
+
+func (b *builder) run(ast *grammar.File) {
+	d := b.r.Design
+	b.partIndex = make(map[string]PartID)
+	for _, e := range ast.Errors {
+		end := e.End
+		if end <= e.Offset {
+			end = e.Offset
+		}
+		b.report("syntax", diag.Error, b.file.Pos(clamp(e.Offset, b.file.Size())), b.file.Pos(clamp(end, b.file.Size())), "%s", e.Msg)
+		b.r.Incomplete = true
+	}
+	for _, st := range ast.Stmts {
+		pos, end := b.pos(st.Pos), b.pos(st.EndPos)
+		switch {
+		case st.Design != nil:
+			if b.designPos.IsValid() {
+				b.report("duplicate-name", diag.Error, pos, end, "second design header; the file already has one (line %d)", b.file.Position(b.designPos).Line)
+				continue
+			}
+			b.designPos = pos
+			d.Name = st.Design.Name.Text
+			if st.Design.Title != nil {
+				d.Title = unquote(st.Design.Title.Text)
+			}
+		case st.Ground != nil:
+			n := st.Ground.Net
+			name := netName(n.Text)
+			if d.Ground != NoNet {
+				if d.Nets[d.Ground].Name == name {
+					b.report("extra-ground", diag.Warning, pos, end, "ground %s is already declared (line %d)", name, b.file.Position(b.groundStmt).Line)
+				} else {
+					b.report("extra-ground", diag.Error, pos, end, "second ground %s: the design already takes %s (line %d) as its 0 V reference; join the two with a wire if they are the same net", name, d.Nets[d.Ground].Name, b.file.Position(b.groundStmt).Line)
+				}
+				continue
+			}
+			d.Ground = d.Net(name, b.pos(n.Pos), b.nameEnd(n))
+			d.GroundPos = pos
+			b.groundStmt = pos
+		case st.Port != nil:
+			for _, n := range st.Port.Nets {
+				id := d.Net(netName(n.Text), b.pos(n.Pos), b.nameEnd(n))
+				d.Nets[id].Port = true
+			}
+		case st.Include != nil, st.Block != nil, st.Close != nil:
+			b.report("syntax", diag.Error, pos, end, "blocks and includes are not supported by this version of nodal")
+			b.r.Incomplete = true
+		case st.Part != nil:
+			b.part(st.Part, pos, end)
+		}
+	}
+	if d.Ground == NoNet && len(d.Parts) > 0 || d.Ground == NoNet && b.firstPart.IsValid() {
+		p := b.firstPart
+		b.report("no-ground", diag.Error, p, p, "the design has parts but no ground net; add a line such as \"ground gnd\" naming its 0 V reference")
+	}
+}
+
+func (b *builder) nameEnd(n *grammar.Name) diag.Pos {
+	return b.file.Pos(clamp(n.Pos.Offset+len(n.Text), b.file.Size()))
+}
+
+func unquote(s string) string {
+	if len(s) >= 2 && s[0] == '"' && s[len(s)-1] == '"' {
+		return s[1 : len(s)-1]
+	}
+	return s
+}
+
+func netName(s string) string { return unquote(s) }
+
+func (b *builder) part(pt *grammar.Part, pos, end diag.Pos) {
+	d := b.r.Design
+	if !b.firstPart.IsValid() {
+		b.firstPart = pos
+	}
+	name := pt.Name.Text
+	word := pt.Kind.Text
+	kind, known := kindOf(word)
+	// Count the nets as used even when the statement cannot be placed, so
+	// that one bad line does not make its neighbours look floating.
+	nets := make([]NetID, len(pt.Pins))
+	for i, pin := range pt.Pins {
+		nets[i] = d.Net(netName(pin.Net.Text), b.pos(pin.Net.Pos), b.nameEnd(pin.Net))
+	}
+	countOnly := func() {
+		for _, n := range nets {
+			d.Nets[n].Pins++
+		}
+		b.r.Incomplete = true
+	}
+	if !known {
+		msg := fmt.Sprintf("unknown part kind %q for %s", word, name)
+		if s := diag.Suggest(word, KindWords); s != "" {
+			msg += fmt.Sprintf("; did you mean %q?", s)
+		} else {
+			msg += "; kinds are " + strings.Join(KindWords, ", ")
+		}
+		b.report("unknown-kind", diag.Error, pos, end, "%s", msg)
+		countOnly()
+		return
+	}
+	if prev, dup := b.partIndex[name]; dup {
+		b.report("duplicate-name", diag.Error, pos, end, "part name %s is already used by the %s on line %d", name, d.Parts[prev].Kind, b.file.Position(d.Parts[prev].Pos).Line)
+		countOnly()
+		return
+	}
+	if len(pt.Params) > 0 {
+		b.report("syntax", diag.Error, b.pos(pt.Params[0].Pos), end, "%s %s: parameters in [ ] are for block instances, not built-in parts", word, name)
+		countOnly()
+		return
+	}
+	p := Part{Kind: kind, Name: name, Pos: pos, End: end, Inst: -1, Ideality: 0}
+
+	// Value first: for a source its unit decides the kind, and so the pins.
+	if !b.value(&p, pt) {
+		b.r.Invalid = true
+	}
+	info := p.Kind.Info()
+	if !b.pins(&p, pt, nets, info) {
+		countOnly()
+		return
+	}
+	if !b.attrs(&p, pt, info) {
+		b.r.Invalid = true
+	}
+	b.partIndex[name] = d.AddPart(p)
+}
+
+// pins binds the statement's nets to the kind's pins, by position or name.
+func (b *builder) pins(p *Part, pt *grammar.Part, nets []NetID, info *KindInfo) bool {
+	word := pt.Kind.Text
+	if len(pt.Pins) != 2 {
+		b.report("pin-count", diag.Error, p.Pos, p.End, "%s %s has %d pin(s); a %s has two: (%s, %s)", word, p.Name, len(pt.Pins), p.Kind, info.Pins[0], info.Pins[1])
+		return false
+	}
+	var set [2]bool
+	for i, pin := range pt.Pins {
+		slot := i
+		if pin.Label != nil {
+			slot = -1
+			for j, pn := range info.Pins {
+				if pn == pin.Label.Text {
+					slot = j
+				}
+			}
+			if slot < 0 {
+				b.report("pin-count", diag.Error, p.Pos, p.End, "%s %s has no pin named %q; its pins are %s and %s", word, p.Name, pin.Label.Text, info.Pins[0], info.Pins[1])
+				return false
+			}
+		} else if i > 0 && pt.Pins[0].Label != nil {
+			b.report("pin-count", diag.Error, p.Pos, p.End, "%s %s mixes named and positional pins; name both (%s=…, %s=…) or neither", word, p.Name, info.Pins[0], info.Pins[1])
+			return false
+		}
+		if set[slot] {
+			b.report("pin-count", diag.Error, p.Pos, p.End, "%s %s binds pin %s twice", word, p.Name, info.Pins[slot])
+			return false
+		}
+		set[slot] = true
+		p.Pins[slot] = nets[i]
+		p.PinPos[slot] = b.pos(pin.Net.Pos)
+	}
+	return true
+}
+
+// quantity reads a value node as a quantity.
+func (b *builder) quantity(v *grammar.Value) (units.Quantity, error) {
+	switch {
+	case v.Code != "":
+		q, ok := units.ParseCode(v.Code)
+		if !ok {
+			return q, &units.Error{Text: v.Code, Msg: fmt.Sprintf("%q is not a resistor code", v.Code)}
+		}
+		return q, nil
+	case v.Word != "":
+		return units.Quantity{}, &units.Error{Text: v.Word, Msg: fmt.Sprintf("%q is a switch state, not a quantity", v.Word)}
+	case v.Expr != nil:
+		return units.Quantity{}, &units.Error{Text: "{…}", Msg: "expressions in braces are not supported by this version of nodal"}
+	}
+	q, err := units.Parse(v.Num, v.Unit)
+	if v.Neg {
+		q.Value = -q.Value
+	}
+	return q, err
+}
+
+func describe(v *grammar.Value) string {
+	s := v.Num
+	if v.Unit != "" {
+		s += " " + v.Unit
+	}
+	if v.Code != "" {
+		s = v.Code
+	}
+	if v.Neg {
+		s = "-" + s
+	}
+	return s
+}
+
+// value reads the main value. It returns false when the part cannot be
+// solved with what was written.
+func (b *builder) value(p *Part, pt *grammar.Part) bool {
+	word := pt.Kind.Text
+	info := p.Kind.Info()
+	v := pt.Value
+	switch p.Kind {
+	case Wire:
+		if v != nil {
+			b.report("bad-value", diag.Error, p.Pos, p.End, "wire %s takes no value; a wire is a zero-ohm link (use a resistor for a resistance)", p.Name)
+			return false
+		}
+		return true
+	case Switch:
+		if v == nil || v.Word == "" {
+			if v == nil {
+				b.report("missing-value", diag.Error, p.Pos, p.End, "switch %s needs its state: open or closed", p.Name)
+			} else {
+				b.report("bad-value", diag.Error, p.Pos, p.End, "switch %s: %s is not a switch state; write open or closed", p.Name, describe(v))
+			}
+			return false
+		}
+		p.Closed = v.Word == "closed"
+		return true
+	case Diode, LED:
+		if v != nil {
+			b.report("bad-value", diag.Error, p.Pos, p.End, "%s %s takes no plain value; give its forward voltage as \"vf 0.7 V at 10 mA\"", word, p.Name)
+			return false
+		}
+		return true
+	}
+	if v == nil {
+		hint := ""
+		switch p.Kind {
+		case VoltageSource:
+			hint = ": a voltage in V (a voltage source) or a current in A (a current source)"
+		case Fuse:
+			hint = ": its rated current in A"
+		default:
+			hint = " in " + info.Value.Symbol()
+		}
+		b.report("missing-value", diag.Error, p.Pos, p.End, "%s %s needs a value%s", word, p.Name, hint)
+		return false
+	}
+	if v.Word != "" {
+		b.report("bad-value", diag.Error, p.Pos, p.End, "%s %s: %s is a switch state, not a %s", word, p.Name, v.Word, info.Value.Noun())
+		return false
+	}
+	q, err := b.quantity(v)
+	if err != nil {
+		rule := "bad-value"
+		if ue, ok := err.(*units.Error); ok && (strings.Contains(ue.Msg, "unit") || strings.Contains(ue.Msg, "prefix")) {
+			rule = "unit-mismatch"
+		}
+		b.report(rule, diag.Error, p.Pos, p.End, "%s %s: %s", word, p.Name, err)
+		return false
+	}
+	if q.Percent {
+		b.report("unit-mismatch", diag.Error, p.Pos, p.End, "%s %s: %s is a percentage; %% belongs to tol", word, p.Name, describe(v))
+		return false
+	}
+	if p.Kind == VoltageSource {
+		switch q.Dim {
+		case units.Voltage:
+		case units.Current:
+			p.Kind = CurrentSource
+		case units.None:
+			b.report("unit-mismatch", diag.Error, p.Pos, p.End, "source %s: %s has no unit; write %s V for a voltage source or %s A for a current source", p.Name, describe(v), describe(v), describe(v))
+			return false
+		default:
+			b.report("unit-mismatch", diag.Error, p.Pos, p.End, "source %s: %s is a %s; a source is given in V (voltage source) or A (current source)", p.Name, describe(v), q.Dim.Noun())
+			return false
+		}
+		p.Value = q.Value
+		return true
+	}
+	if q.Dim != info.Value {
+		if q.Dim == units.None {
+			b.report("unit-mismatch", diag.Error, p.Pos, p.End, "%s %s: %s has no unit; write %s %s", word, p.Name, describe(v), describe(v), info.Value.Symbol())
+		} else {
+			b.report("unit-mismatch", diag.Error, p.Pos, p.End, "%s %s is given as a %s (%s); a %s takes a %s in %s", word, p.Name, q.Dim.Noun(), describe(v), word, info.Value.Noun(), info.Value.Symbol())
+		}
+		return false
+	}
+	p.Value = q.Value
+	if q.Value <= 0 {
+		switch {
+		case p.Kind == Resistor && q.Value == 0:
+			b.report("bad-value", diag.Error, p.Pos, p.End, "resistor %s is 0 Ω; use a wire for a zero-ohm link", p.Name)
+		default:
+			b.report("bad-value", diag.Error, p.Pos, p.End, "%s %s: %s %s must be positive", word, p.Name, info.Value.Noun(), units.Format(q.Value, q.Dim))
+		}
+		return false
+	}
+	return true
+}
+
+var attrKinds = map[string]string{
+	"tol":      "resistor, capacitor, inductor, source",
+	"dcr":      "inductor, fuse",
+	"vf":       "diode, led",
+	"ideality": "diode, led",
+	"series":   "diode, led",
+	"rated":    "every kind",
+}
+
+// attrs reads the attributes. It returns false when one is unusable.
+func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
+	word := pt.Kind.Text
+	ok := true
+	seen := map[string]bool{}
+	bad := func(rule, format string, args ...any) {
+		b.report(rule, diag.Error, p.Pos, p.End, "%s %s: %s", word, p.Name, fmt.Sprintf(format, args...))
+		ok = false
+	}
+	for _, a := range pt.Attrs {
+		key := a.Key.Text
+		kinds, knownAttr := attrKinds[key]
+		if !knownAttr {
+			msg := fmt.Sprintf("unknown attribute %q; attributes are tol, rated, vf … at, ideality, series, dcr", key)
+			bad("bad-attribute", "%s", msg)
+			continue
+		}
+		if key != "rated" && !contains(info.Attrs, key) {
+			bad("bad-attribute", "a %s takes no %s (%s is for: %s)", p.Kind, key, key, kinds)
+			continue
+		}
+		if seen[key] {
+			bad("bad-attribute", "%s is given twice", key)
+			continue
+		}
+		seen[key] = true
+		if a.At != nil && key != "vf" {
+			bad("bad-attribute", "only vf takes \"at\" (vf 2.0 V at 20 mA)")
+			continue
+		}
+		if len(a.Values) == 0 {
+			bad("missing-value", "%s needs a value", key)
+			continue
+		}
+		if key != "rated" && len(a.Values) > 1 {
+			bad("bad-attribute", "%s takes one value", key)
+			continue
+		}
+		qs := make([]units.Quantity, len(a.Values))
+		failed := false
+		for i, v := range a.Values {
+			q, err := b.quantity(v)
+			if err != nil {
+				rule := "bad-value"
+				if ue, isU := err.(*units.Error); isU && (strings.Contains(ue.Msg, "unit") || strings.Contains(ue.Msg, "prefix")) {
+					rule = "unit-mismatch"
+				}
+				bad(rule, "%s %s", key, err)
+				failed = true
+				break
+			}
+			qs[i] = q
+		}
+		if failed {
+			continue
+		}
+		q := qs[0]
+		switch key {
+		case "tol":
+			if !q.Percent {
+				bad("unit-mismatch", "tol %s must be a percentage, e.g. tol 5%%", describe(a.Values[0]))
+			} else if q.Value < 0 || q.Value > 1 {
+				bad("bad-value", "tol %s is outside 0 %% … 100 %%", units.FormatPercent(q.Value))
+			} else {
+				p.Tol = q.Value
+			}
+		case "dcr", "series":
+			if q.Dim != units.Resistance || q.Percent {
+				bad("unit-mismatch", "%s %s must be a resistance in Ω", key, describe(a.Values[0]))
+			} else if q.Value < 0 {
+				bad("bad-value", "%s %s must not be negative", key, units.Format(q.Value, q.Dim))
+			} else if key == "dcr" {
+				p.DCR = q.Value
+			} else {
+				p.Series = q.Value
+			}
+		case "ideality":
+			if q.Dim != units.None || q.Percent {
+				bad("unit-mismatch", "ideality is a plain number (1 to 2 for most junctions), not %s", describe(a.Values[0]))
+			} else if q.Value <= 0 {
+				bad("bad-value", "ideality %g must be positive", q.Value)
+			} else {
+				p.Ideality = q.Value
+			}
+		case "vf":
+			if q.Dim != units.Voltage {
+				bad("unit-mismatch", "vf %s must be a voltage in V", describe(a.Values[0]))
+				continue
+			}
+			if a.At == nil {
+				bad("missing-value", "vf needs the current it is measured at: vf %s at 10 mA", describe(a.Values[0]))
+				continue
+			}
+			at, err := b.quantity(a.At)
+			if err != nil {
+				bad("unit-mismatch", "vf … at %s", err)
+				continue
+			}
+			if at.Dim != units.Current {
+				bad("unit-mismatch", "vf %s at %s: the operating point must be a current in A", describe(a.Values[0]), describe(a.At))
+				continue
+			}
+			if q.Value <= 0 || at.Value <= 0 {
+				bad("bad-value", "vf %s at %s: both must be positive", units.Format(q.Value, units.Voltage), units.Format(at.Value, units.Current))
+				continue
+			}
+			p.VF, p.VFAt = q.Value, at.Value
+		case "rated":
+			for i, r := range qs {
+				if r.Percent || !containsDim(info.Ratings, r.Dim) {
+					bad("unit-mismatch", "rated %s: a %s is rated in %s", describe(a.Values[i]), p.Kind, dimList(info.Ratings))
+					continue
+				}
+				if r.Value <= 0 {
+					bad("bad-value", "rated %s must be positive", units.Format(r.Value, r.Dim))
+					continue
+				}
+				var slot *float64
+				switch r.Dim {
+				case units.Power:
+					slot = &p.RatedPower
+				case units.Voltage:
+					slot = &p.RatedVoltage
+				case units.Current:
+					slot = &p.RatedCurrent
+				}
+				if *slot != 0 {
+					bad("bad-attribute", "rated gives two %s ratings", r.Dim.Noun())
+					continue
+				}
+				*slot = r.Value
+			}
+		}
+	}
+	if (p.Kind == Diode || p.Kind == LED) && p.VF == 0 && !seen["vf"] {
+		bad("missing-value", "needs its forward voltage: vf 0.7 V at 10 mA")
+	}
+	return ok
+}
+
+func contains(list []string, s string) bool {
+	for _, x := range list {
+		if x == s {
+			return true
+		}
+	}
+	return false
+}
+
+func containsDim(list []units.Dim, d units.Dim) bool {
+	for _, x := range list {
+		if x == d {
+			return true
+		}
+	}
+	return false
+}
+
+func dimList(list []units.Dim) string {
+	s := make([]string, len(list))
+	for i, d := range list {
+		s[i] = d.Symbol() + " (" + d.Noun() + ")"
+	}
+	return strings.Join(s, " or ")
+}

@@ -1,0 +1,137 @@
+// Package circuit is the circuit model: parts, pins and nets, with units
+// resolved and every name bound, built from the syntax tree.
+//
+// # Model
+//
+// A Design keeps its parts and nets in flat slices indexed by PartID and
+// NetID, so that the topology and solve stages work on integers and the
+// model costs a fixed number of bytes per part. Net names are interned once,
+// when the design is built.
+//
+// # Building
+//
+// Build turns a parsed file into a Design and the diagnostics of
+// elaboration: unknown kinds, wrong pins, missing or ill-formed values,
+// units that do not fit, duplicate names. A statement that cannot be
+// elaborated is left out of the design (and said so); the rest is kept, so
+// that one slip does not hide the findings elsewhere in the file.
+//
+// # Values
+//
+// All values are held in SI base units: Ω, F, H, V, A, W. A rating of zero
+// means "no rating given".
+package circuit
+
+import "nodal/diag"
+
+// NetID indexes Design.Nets.
+type NetID int32
+
+// PartID indexes Design.Parts.
+type PartID int32
+
+// NoNet marks a missing net.
+const NoNet NetID = -1
+
+// Net is a set of pins joined together.
+type Net struct {
+	Name string
+	Pos  diag.Pos // first use
+	End  diag.Pos
+	Port bool
+	Pins int32 // how many pins touch the net
+}
+
+// Part is one built-in part. Every built-in kind has two pins; hierarchy is
+// flattened before a Design is made.
+type Part struct {
+	Kind Kind
+	Name string
+	Pins [2]NetID
+
+	// Value is the part's main value in SI units: Ω, F, H, V or A; for a
+	// fuse its rated current.
+	Value  float64
+	Closed bool // switches
+
+	Tol float64 // fraction; 0 when not given
+
+	// Ratings; zero when not given.
+	RatedPower   float64 // W
+	RatedVoltage float64 // V
+	RatedCurrent float64 // A
+
+	// Diodes and LEDs.
+	VF       float64 // forward voltage (V) ...
+	VFAt     float64 // ... at this current (A)
+	Ideality float64 // 0 = the kind's default
+	Series   float64 // Ω
+
+	DCR float64 // inductors and fuses: resistance at DC (Ω)
+
+	Pos    diag.Pos // start of the statement
+	End    diag.Pos // end of the statement
+	PinPos [2]diag.Pos
+	// Inst is the instance this part was expanded from (an index into
+	// Design.Instances), or -1 for a part written at the top level.
+	Inst int32
+}
+
+// Instance is one use of a block, for naming paths and related locations.
+type Instance struct {
+	Path   string   // "CH2" or "BOARD.CH2"
+	Pos    diag.Pos // the instance statement
+	End    diag.Pos
+	Parent int32 // enclosing instance, -1 at the top
+}
+
+// Design is one checked file (with its includes flattened in).
+type Design struct {
+	File      string
+	Name      string
+	Title     string
+	Nets      []Net
+	Parts     []Part
+	Ground    NetID // NoNet when the file names no ground
+	GroundPos diag.Pos
+	Instances []Instance
+
+	netIndex map[string]NetID
+}
+
+// NewDesign returns an empty design for the named file.
+func NewDesign(file string) *Design {
+	return &Design{File: file, Ground: NoNet, netIndex: make(map[string]NetID)}
+}
+
+// Net returns the id of the named net, adding it if new; pos is recorded as
+// its first use.
+func (d *Design) Net(name string, pos, end diag.Pos) NetID {
+	if id, ok := d.netIndex[name]; ok {
+		return id
+	}
+	id := NetID(len(d.Nets))
+	d.Nets = append(d.Nets, Net{Name: name, Pos: pos, End: end})
+	d.netIndex[name] = id
+	return id
+}
+
+// LookupNet returns the id of the named net, or NoNet.
+func (d *Design) LookupNet(name string) NetID {
+	if id, ok := d.netIndex[name]; ok {
+		return id
+	}
+	return NoNet
+}
+
+// AddPart appends p, counts its pins on their nets, and returns its id.
+func (d *Design) AddPart(p Part) PartID {
+	for _, n := range p.Pins {
+		d.Nets[n].Pins++
+	}
+	d.Parts = append(d.Parts, p)
+	return PartID(len(d.Parts) - 1)
+}
+
+// HasParts reports whether the design has any part.
+func (d *Design) HasParts() bool { return len(d.Parts) > 0 }

@@ -1,0 +1,55 @@
+// Command nodal checks circuit descriptions written in the nodal language:
+// wiring that breaks Kirchhoff's laws, parts left doing nothing, values in
+// the wrong units. Run "nodal --help" for the commands.
+package main
+
+import (
+	"fmt"
+	"io"
+	"os"
+)
+
+const version = "0.1.0"
+
+const usage = `nodal checks circuits written as plain text (.nodal files).
+
+Usage:
+  nodal check [flags] [PATH ...]   check files and folders (default: .)
+  nodal rules [RULE]               list the rules, or explain one
+  nodal version                    print the version
+  nodal help [COMMAND]             show help
+
+Run "nodal check --help" for the check flags. nodal is a design aid, not a
+sign-off: it does not replace review by a qualified person.
+`
+
+func main() {
+	os.Exit(run(os.Args[1:], os.Stdin, os.Stdout, os.Stderr))
+}
+
+// run is main without the process: it returns the exit status.
+// 0: no findings at error level; 1: findings at error level; 2: usage or
+// I/O trouble.
+func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
+	if len(args) == 0 {
+		fmt.Fprint(stderr, usage)
+		return 2
+	}
+	switch args[0] {
+	case "check":
+		return cmdCheck(args[1:], stdin, stdout, stderr)
+	case "rules":
+		return cmdRules(args[1:], stdout, stderr)
+	case "version", "--version":
+		fmt.Fprintln(stdout, "nodal", version)
+		return 0
+	case "help", "-h", "-help", "--help":
+		if len(args) > 1 {
+			return run([]string{args[1], "--help"}, stdin, stdout, stderr)
+		}
+		fmt.Fprint(stdout, usage)
+		return 0
+	}
+	fmt.Fprintf(stderr, "nodal: unknown command %q\n\n%s", args[0], usage)
+	return 2
+}

@@ -1,0 +1,155 @@
+package diag
+
+import (
+	"fmt"
+	"sort"
+	"strings"
+)
+
+// Severity orders findings: Note < Warning < Error. Off disables a rule.
+type Severity int8
+
+const (
+	Off Severity = iota
+	Note
+	Warning
+	Error
+)
+
+var severityNames = [...]string{Off: "off", Note: "note", Warning: "warning", Error: "error"}
+
+// String returns the lower-case name used in output and configuration.
+func (s Severity) String() string {
+	if int(s) < len(severityNames) && s >= 0 {
+		return severityNames[s]
+	}
+	return fmt.Sprintf("severity(%d)", int(s))
+}
+
+// ParseSeverity reads "off", "note", "warning" or "error".
+func ParseSeverity(s string) (Severity, bool) {
+	for i, n := range severityNames {
+		if n == s {
+			return Severity(i), true
+		}
+	}
+	return Off, false
+}
+
+// Related is another place a finding names: a part around a loop, the
+// instance line of a block.
+type Related struct {
+	Pos     Pos
+	End     Pos
+	Message string
+}
+
+// Diagnostic is one finding.
+type Diagnostic struct {
+	Pos      Pos
+	End      Pos // NoPos when only a point is known
+	Rule     string
+	Severity Severity
+	Message  string
+	Related  []Related
+}
+
+// List is a set of diagnostics that sorts and de-duplicates.
+type List []Diagnostic
+
+// Add appends a diagnostic.
+func (l *List) Add(d Diagnostic) { *l = append(*l, d) }
+
+// Sort orders the list by file (in the order the file set resolves names),
+// line, column, then rule and message, so that output is deterministic.
+func (l List) Sort(fset *FileSet) {
+	keys := make([]Position, len(l))
+	for i := range l {
+		keys[i] = fset.Position(l[i].Pos)
+	}
+	idx := make([]int, len(l))
+	for i := range idx {
+		idx[i] = i
+	}
+	sort.SliceStable(idx, func(a, b int) bool {
+		pa, pb := keys[idx[a]], keys[idx[b]]
+		if pa.Filename != pb.Filename {
+			return pa.Filename < pb.Filename
+		}
+		if pa.Line != pb.Line {
+			return pa.Line < pb.Line
+		}
+		if pa.Column != pb.Column {
+			return pa.Column < pb.Column
+		}
+		da, db := &l[idx[a]], &l[idx[b]]
+		if da.Rule != db.Rule {
+			return da.Rule < db.Rule
+		}
+		return da.Message < db.Message
+	})
+	out := make(List, len(l))
+	for i, j := range idx {
+		out[i] = l[j]
+	}
+	copy(l, out)
+}
+
+// Dedup removes exact repeats (same position, rule and message) from a
+// sorted list and returns the shortened list.
+func (l List) Dedup() List {
+	if len(l) < 2 {
+		return l
+	}
+	out := l[:1]
+	for _, d := range l[1:] {
+		last := &out[len(out)-1]
+		if d.Pos == last.Pos && d.Rule == last.Rule && d.Message == last.Message {
+			continue
+		}
+		out = append(out, d)
+	}
+	return out
+}
+
+// Count returns how many diagnostics have each severity.
+func (l List) Count() (errors, warnings, notes int) {
+	for _, d := range l {
+		switch d.Severity {
+		case Error:
+			errors++
+		case Warning:
+			warnings++
+		case Note:
+			notes++
+		}
+	}
+	return
+}
+
+// Max returns the highest severity in the list (Off when empty).
+func (l List) Max() Severity {
+	m := Off
+	for _, d := range l {
+		if d.Severity > m {
+			m = d.Severity
+		}
+	}
+	return m
+}
+
+// Format returns the GNU form "file:line:col: severity: message [rule]".
+func Format(fset *FileSet, d Diagnostic) string {
+	var b strings.Builder
+	b.WriteString(fset.Position(d.Pos).String())
+	b.WriteString(": ")
+	b.WriteString(d.Severity.String())
+	b.WriteString(": ")
+	b.WriteString(d.Message)
+	if d.Rule != "" {
+		b.WriteString(" [")
+		b.WriteString(d.Rule)
+		b.WriteString("]")
+	}
+	return b.String()
+}

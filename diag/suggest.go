@@ -1,0 +1,56 @@
+package diag
+
+// Distance returns the Levenshtein edit distance between a and b, counted
+// in bytes, or max+1 as soon as it must exceed max (so that comparing one
+// name against a million stays cheap).
+func Distance(a, b string, max int) int {
+	if d := len(a) - len(b); d > max || -d > max {
+		return max + 1
+	}
+	prev := make([]int, len(b)+1)
+	cur := make([]int, len(b)+1)
+	for j := range prev {
+		prev[j] = j
+	}
+	for i := 1; i <= len(a); i++ {
+		cur[0] = i
+		best := cur[0]
+		for j := 1; j <= len(b); j++ {
+			cost := 1
+			if a[i-1] == b[j-1] {
+				cost = 0
+			}
+			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
+			best = min(best, cur[j])
+		}
+		if best > max {
+			return max + 1
+		}
+		prev, cur = cur, prev
+	}
+	return prev[len(b)]
+}
+
+// Suggest returns the candidate closest to name within a small edit
+// distance (1 for short names, 2 from five bytes on), or "" when none is
+// close. Ties go to the candidate listed first. name itself is never
+// suggested.
+func Suggest(name string, candidates []string) string {
+	max := 1
+	if len(name) >= 5 {
+		max = 2
+	}
+	if len(name) < 2 {
+		return ""
+	}
+	best, bestD := "", max+1
+	for _, c := range candidates {
+		if c == name {
+			continue
+		}
+		if d := Distance(name, c, max); d < bestD {
+			best, bestD = c, d
+		}
+	}
+	return best
+}

@@ -1,0 +1,165 @@
+package grammar
+
+import "github.com/alecthomas/participle/v2/lexer"
+
+// The syntax tree. Every node records Pos and EndPos; their Offset fields
+// are byte offsets into the file, which is all later stages use.
+//
+// One Statement is one line. Statements never span lines: a block's header
+// ends with "{" on its line and the block closes with "}" on a line of its
+// own.
+
+// Statement is one line of a design.
+type Statement struct {
+	Pos    lexer.Position
+	EndPos lexer.Position
+
+	Design  *Design  `parser:"  \"design\" @@"`
+	Ground  *Ground  `parser:"| \"ground\" @@"`
+	Port    *Port    `parser:"| \"port\" @@"`
+	Include *Include `parser:"| \"include\" @@"`
+	Block   *Block   `parser:"| \"block\" @@"`
+	Close   *Close   `parser:"| @@"`
+	Part    *Part    `parser:"| @@"`
+}
+
+// Design is the optional header: design NAME ["title"].
+type Design struct {
+	Name  *Name   `parser:"@@"`
+	Title *String `parser:"@@?"`
+}
+
+// Ground names the 0 V reference net.
+type Ground struct {
+	Net *Name `parser:"@@"`
+}
+
+// Port lists nets that leave the file and may have a single pin.
+type Port struct {
+	Nets []*Name `parser:"@@ ( \",\" @@ )*"`
+}
+
+// Include brings the blocks of another file.
+type Include struct {
+	Path *String `parser:"@@"`
+}
+
+// Block opens a block definition: block NAME (PIN, ...) [PARAM = DEFAULT, ...] {
+type Block struct {
+	Name   *Name     `parser:"@@"`
+	Pins   []*Name   `parser:"\"(\" ( @@ ( \",\" @@ )* )? \")\""`
+	Params []*Assign `parser:"( \"[\" ( @@ ( \",\" @@ )* )? \"]\" )?"`
+	Open   string    `parser:"@\"{\""`
+}
+
+// Close ends a block definition.
+type Close struct {
+	Pos   lexer.Position
+	Brace string `parser:"@\"}\""`
+}
+
+// Part is one part or block instance: KIND NAME (PINS) [PARAMS] VALUE ATTRS.
+type Part struct {
+	Pos    lexer.Position
+	EndPos lexer.Position
+
+	Kind   *Name     `parser:"@@"`
+	Name   *Name     `parser:"@@"`
+	Pins   []*Pin    `parser:"\"(\" ( @@ ( \",\" @@ )* )? \")\""`
+	Params []*Assign `parser:"( \"[\" ( @@ ( \",\" @@ )* )? \"]\" )?"`
+	Value  *Value    `parser:"@@?"`
+	Attrs  []*Attr   `parser:"@@*"`
+}
+
+// Name is a word with its position: a part, net, kind or parameter name.
+// A double-quoted net name keeps its quotes in Text and sets Quoted.
+type Name struct {
+	Pos    lexer.Position
+	EndPos lexer.Position
+	Text   string `parser:"@(Ident | Unit | Code | AttrWord | String)"`
+}
+
+// String is a double-quoted string with its position.
+type String struct {
+	Pos    lexer.Position
+	EndPos lexer.Position
+	Text   string `parser:"@String"`
+}
+
+// Pin binds a net to a pin, by position or by the pin's name (anode=a).
+type Pin struct {
+	Pos    lexer.Position
+	EndPos lexer.Position
+	Label  *Name `parser:"( @@ \"=\" )?"`
+	Net    *Name `parser:"@@"`
+}
+
+// Assign is a parameter binding (NAME = VALUE) or, in a block header, a
+// parameter with an optional default.
+type Assign struct {
+	Pos    lexer.Position
+	EndPos lexer.Position
+	Name   *Name  `parser:"@@"`
+	Value  *Value `parser:"( \"=\" @@ )?"`
+}
+
+// Value is a quantity (12 V, 4.7kΩ, 4k7, R47), a switch state, or an
+// expression in braces.
+type Value struct {
+	Pos    lexer.Position
+	EndPos lexer.Position
+	Neg    bool   `parser:"( @\"-\"?"`
+	Num    string `parser:"  @Number"`
+	Unit   string `parser:"  @Unit? )"`
+	Code   string `parser:"| @Code"`
+	Word   string `parser:"| @(\"open\" | \"closed\")"`
+	Expr   *Expr  `parser:"| \"{\" @@ \"}\""`
+}
+
+// Attr is an attribute: a word, values separated by commas, and for vf an
+// operating point after "at".
+type Attr struct {
+	Pos    lexer.Position
+	EndPos lexer.Position
+	Key    *Name    `parser:"@@"`
+	Values []*Value `parser:"( @@ ( \",\" @@ )* )?"`
+	At     *Value   `parser:"( \"at\" @@ )?"`
+}
+
+// Expr is a sum of terms.
+type Expr struct {
+	Pos    lexer.Position
+	EndPos lexer.Position
+	First  *Term     `parser:"@@"`
+	Rest   []*OpTerm `parser:"@@*"`
+}
+
+// OpTerm is "+ term" or "- term".
+type OpTerm struct {
+	Op   string `parser:"@(\"+\" | \"-\")"`
+	Term *Term  `parser:"@@"`
+}
+
+// Term is a product of factors.
+type Term struct {
+	First *Factor     `parser:"@@"`
+	Rest  []*OpFactor `parser:"@@*"`
+}
+
+// OpFactor is "* factor" or "/ factor".
+type OpFactor struct {
+	Op     string  `parser:"@(\"*\" | \"/\")"`
+	Factor *Factor `parser:"@@"`
+}
+
+// Factor is a quantity, a parameter name, a negation or a parenthesised
+// expression.
+type Factor struct {
+	Pos    lexer.Position
+	EndPos lexer.Position
+	Neg    *Factor `parser:"  \"-\" @@"`
+	Num    string  `parser:"| ( @Number"`
+	Unit   string  `parser:"    @Unit? )"`
+	Param  *Name   `parser:"| @@"`
+	Sub    *Expr   `parser:"| \"(\" @@ \")\""`
+}

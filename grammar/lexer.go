@@ -1,0 +1,252 @@
+package grammar
+
+import (
+	"io"
+	"unicode"
+	"unicode/utf8"
+
+	"github.com/alecthomas/participle/v2/lexer"
+
+	"nodal/units"
+)
+
+// Token types. The lexer is written by hand rather than generated from
+// regular expressions: it is the hot loop on files of millions of lines,
+// and a hand-written scanner also makes the byte-counted columns explicit.
+const (
+	TokEOF lexer.TokenType = lexer.EOF - iota
+	TokNewline
+	TokComment
+	TokIdent    // a name: [A-Za-z_][A-Za-z0-9_]*
+	TokKeyword  // a statement keyword: design ground port include block param
+	TokAttrWord // an attribute word: tol rated vf at ideality series dcr open closed
+	TokUnit     // a unit with optional prefix standing alone: Ω kΩ mA V %
+	TokCode     // an IEC 60062 resistor code starting with R: R47
+	TokNumber   // a number with any letters glued to it: 12, 4.7k, 4k7, 100nF
+	TokString   // a double-quoted string, quotes included
+	TokPunct    // ( ) , = [ ] { } + - * /
+	TokInvalid  // bytes that start no token: the parser rejects them with a position
+)
+
+var symbols = map[string]lexer.TokenType{
+	"EOF": TokEOF, "Newline": TokNewline, "Comment": TokComment, "Ident": TokIdent,
+	"Keyword": TokKeyword, "AttrWord": TokAttrWord, "Unit": TokUnit, "Code": TokCode,
+	"Number": TokNumber, "String": TokString, "Punct": TokPunct, "Invalid": TokInvalid,
+}
+
+// Keywords that begin statements. "block", "include" and "param" belong to
+// the hierarchy; they are reserved so no design can use them as names.
+var keywords = map[string]bool{
+	"design": true, "ground": true, "port": true, "include": true, "block": true, "param": true,
+}
+
+// Attribute words, and the two switch states.
+var attrWords = map[string]bool{
+	"tol": true, "rated": true, "vf": true, "at": true, "ideality": true,
+	"series": true, "dcr": true, "open": true, "closed": true,
+}
+
+// MaxLineTokens bounds the tokens of one line; a longer line is a syntax
+// error rather than a reason to allocate without limit.
+const MaxLineTokens = 4096
+
+// MaxTokenBytes bounds one token; a longer one is rejected as invalid.
+const MaxTokenBytes = 4096
+
+// definition is the participle lexer.Definition of the language.
+type definition struct{}
+
+// Lexer is the language's lexer definition, for participle.
+var Lexer lexer.Definition = definition{}
+
+func (definition) Symbols() map[string]lexer.TokenType { return symbols }
+
+func (definition) Lex(filename string, r io.Reader) (lexer.Lexer, error) {
+	src, err := io.ReadAll(r)
+	if err != nil {
+		return nil, err
+	}
+	var toks []lexer.Token
+	line := 1
+	for off := 0; off < len(src); {
+		end := off
+		for end < len(src) && src[end] != '\n' {
+			end++
+		}
+		toks = appendLine(toks, src, off, end, line, nil)
+		if end < len(src) {
+			toks = append(toks, lexer.Token{Type: TokNewline, Value: "\n", Pos: lexer.Position{Filename: filename, Offset: end, Line: line, Column: end - off + 1}})
+		}
+		off = end + 1
+		line++
+	}
+	toks = append(toks, lexer.Token{Type: TokEOF, Pos: lexer.Position{Filename: filename, Offset: len(src), Line: line}})
+	return &sliceLexer{toks: toks}, nil
+}
+
+// sliceLexer hands out tokens that were already scanned.
+type sliceLexer struct {
+	toks []lexer.Token
+	i    int
+}
+
+func (l *sliceLexer) Next() (lexer.Token, error) {
+	if l.i >= len(l.toks) {
+		return lexer.Token{Type: TokEOF}, nil
+	}
+	t := l.toks[l.i]
+	l.i++
+	return t, nil
+}
+
+func isWordStart(r rune) bool { return r == '_' || unicode.IsLetter(r) }
+func isWordPart(r rune) bool  { return r == '_' || unicode.IsLetter(r) || unicode.IsDigit(r) }
+
+// appendLine scans src[off:end] (one line, without its newline) and appends
+// its tokens. Columns count bytes from 1. Comments are kept as tokens so
+// that suppression comments can be read; the parser elides them. When more
+// than MaxLineTokens tokens are found, the rest of the line becomes one
+// TokInvalid token.
+func appendLine(toks []lexer.Token, src []byte, off, end, line int, comments *[]lexer.Token) []lexer.Token {
+	start := len(toks)
+	i := off
+	for i < end {
+		c := src[i]
+		if c == ' ' || c == '\t' || c == '\r' || c == '\f' || c == '\v' {
+			i++
+			continue
+		}
+		pos := lexer.Position{Offset: i, Line: line, Column: i - off + 1}
+		if len(toks)-start >= MaxLineTokens {
+			toks = append(toks, lexer.Token{Type: TokInvalid, Value: "…", Pos: pos})
+			return toks
+		}
+		j := i + 1
+		typ := TokInvalid
+		switch {
+		case c == '#':
+			t := lexer.Token{Type: TokComment, Value: string(src[i:end]), Pos: pos}
+			if comments != nil {
+				*comments = append(*comments, t)
+			} else {
+				toks = append(toks, t)
+			}
+			return toks
+		case c == '"':
+			for j < end && src[j] != '"' {
+				j++
+			}
+			if j < end {
+				j++
+				typ = TokString
+			} else {
+				typ = TokInvalid // unterminated: reported at its opening quote
+			}
+		case c >= '0' && c <= '9' || c == '.' && i+1 < end && src[i+1] >= '0' && src[i+1] <= '9':
+			j = scanNumber(src, i, end)
+			typ = TokNumber
+		case c < utf8.RuneSelf && isPunct(c):
+			typ = TokPunct
+		default:
+			r, size := utf8.DecodeRune(src[i:end])
+			if r == utf8.RuneError && size <= 1 {
+				// invalid UTF-8: one token for the run of bad bytes
+				for j < end {
+					r2, s2 := utf8.DecodeRune(src[j:end])
+					if r2 != utf8.RuneError || s2 > 1 {
+						break
+					}
+					j++
+				}
+				break
+			}
+			j = i + size
+			if r == '%' {
+				typ = TokUnit
+				break
+			}
+			if !isWordStart(r) {
+				break
+			}
+			for j < end {
+				r2, s2 := utf8.DecodeRune(src[j:end])
+				if !isWordPart(r2) {
+					break
+				}
+				j += s2
+			}
+			typ = classifyWord(string(src[i:j]))
+		}
+		if j-i > MaxTokenBytes {
+			// a token this long is junk; keep a short prefix for the message
+			toks = append(toks, lexer.Token{Type: TokInvalid, Value: string(src[i:i+32]) + "…", Pos: pos})
+			i = j
+			continue
+		}
+		toks = append(toks, lexer.Token{Type: typ, Value: string(src[i:j]), Pos: pos})
+		i = j
+	}
+	return toks
+}
+
+func isPunct(c byte) bool {
+	switch c {
+	case '(', ')', ',', '=', '[', ']', '{', '}', '+', '-', '*', '/':
+		return true
+	}
+	return false
+}
+
+// scanNumber returns the end of a number starting at i: digits, a decimal
+// point, an exponent, and any letters, digits or % glued to it (4.7kΩ, 4k7).
+func scanNumber(src []byte, i, end int) int {
+	j := i
+	for j < end && (src[j] >= '0' && src[j] <= '9' || src[j] == '.') {
+		j++
+	}
+	if j < end && (src[j] == 'e' || src[j] == 'E') {
+		k := j + 1
+		if k < end && (src[k] == '+' || src[k] == '-') {
+			k++
+		}
+		if k < end && src[k] >= '0' && src[k] <= '9' {
+			for k < end && src[k] >= '0' && src[k] <= '9' {
+				k++
+			}
+			j = k
+		}
+	}
+	for j < end {
+		if src[j] == '%' {
+			j++
+			continue
+		}
+		r, s := utf8.DecodeRune(src[j:end])
+		if !isWordPart(r) || r == utf8.RuneError {
+			break
+		}
+		j += s
+	}
+	return j
+}
+
+func classifyWord(w string) lexer.TokenType {
+	switch {
+	case keywords[w]:
+		return TokKeyword
+	case attrWords[w]:
+		return TokAttrWord
+	case units.IsUnit(w):
+		return TokUnit
+	}
+	if _, ok := units.ParseCode(w); ok {
+		return TokCode
+	}
+	for i := 0; i < len(w); i++ {
+		c := w[i]
+		if !(c == '_' || c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z' || c >= '0' && c <= '9') {
+			return TokInvalid // a word with letters outside the name alphabet
+		}
+	}
+	return TokIdent
+}

@@ -1,0 +1,66 @@
+package rules
+
+// elaborate.go: the rules whose findings are made while the syntax tree is
+// turned into the circuit model. The builder records them with their rule
+// id; each analyzer here hands on the ones that are its own, so that every
+// rule, whatever stage finds it, is one Analyzer that configuration and
+// `nodal rules` know.
+
+import (
+	"nodal/diag"
+)
+
+func fromBuild(name string, sev diag.Severity, doc string) *Analyzer {
+	a := &Analyzer{Name: name, Doc: doc, Severity: sev}
+	a.Run = func(p *Pass) (any, error) {
+		for _, d := range p.Build.Diags {
+			if d.Rule == name {
+				p.Report(d)
+			}
+		}
+		return nil, nil
+	}
+	return a
+}
+
+var (
+	Syntax = fromBuild("syntax", diag.Error, `a line that does not parse
+The parser reads one statement per line and reports what it expected where
+the line went wrong. The other lines of the file are still checked.`)
+
+	UnknownKind = fromBuild("unknown-kind", diag.Error, `a part kind the language does not know
+Kinds are resistor, capacitor, inductor, source, diode, led, fuse, switch and
+wire. A near miss gets a "did you mean".`)
+
+	PinCount = fromBuild("pin-count", diag.Error, `wrong number or names of pins
+Every built-in part has two pins, given in order or by name (anode=…,
+cathode=…).`)
+
+	MissingValue = fromBuild("missing-value", diag.Error, `a part or attribute without its value
+Resistors, capacitors, inductors, sources and fuses need a value; diodes and
+LEDs need "vf V at A"; switches need open or closed.`)
+
+	UnitMismatch = fromBuild("unit-mismatch", diag.Error, `a value in the wrong unit, or with none
+A capacitor in Ω, a tolerance without %, a plain number where a unit is
+needed: the unit decides what a value means, so it must be written and
+must fit.`)
+
+	BadValue = fromBuild("bad-value", diag.Error, `a value that cannot be right
+Zero or negative resistance (use a wire for a zero-ohm link), non-positive
+capacitance or inductance, a tolerance over 100 %, a number too large to
+represent.`)
+
+	BadAttribute = fromBuild("bad-attribute", diag.Error, `an attribute the kind does not take
+Each kind takes only some attributes: tol, rated, vf … at, ideality, series,
+dcr. The message names the kinds that do take it.`)
+
+	DuplicateName = fromBuild("duplicate-name", diag.Error, `two parts with one name
+Part names identify parts in every message and report, so each must be used
+once.`)
+
+	ExtraGround = fromBuild("extra-ground", diag.Error, `more than one ground statement
+A design has exactly one 0 V reference net.`)
+
+	NoGround = fromBuild("no-ground", diag.Error, `a design with parts but no ground
+Without a 0 V reference no net voltage is defined. Add "ground NAME".`)
+)

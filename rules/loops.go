@@ -1,0 +1,70 @@
+package rules
+
+import (
+	"fmt"
+	"strings"
+
+	"nodal/circuit"
+	"nodal/diag"
+	"nodal/topology"
+	"nodal/units"
+)
+
+// SourceLoop reports loops made of voltage sources and ideal shorts alone.
+var SourceLoop = &Analyzer{
+	Name:     "source-loop",
+	Severity: diag.Error,
+	Requires: []*Analyzer{Topology},
+	Doc: `a loop of voltage sources and ideal shorts
+Voltage sources, wires, closed switches, and inductors and fuses without dcr
+all fix the voltage across themselves at DC. Around a loop made only of them
+Kirchhoff's voltage law decides everything: if their voltages do not sum to
+zero it cannot hold (error); if they do, the current circulating in the loop
+is undefined (warning). Add a resistance (dcr, a resistor) or remove one of
+the sources.`,
+	Run: func(p *Pass) (any, error) {
+		t := topo(p)
+		d := p.Design
+		for i := range t.Loops {
+			l := &t.Loops[i]
+			closing := &d.Parts[l.Steps[0].Part]
+			diagn := diag.Diagnostic{Pos: closing.Pos, End: closing.End}
+			path := loopPath(d, l)
+			if l.Balanced() {
+				diagn.Severity = diag.Warning
+				diagn.Message = "voltage sources and shorts form a loop whose voltages sum to zero, so the current circulating in it is undefined: " + path
+			} else {
+				diagn.Severity = diag.Error
+				diagn.Message = fmt.Sprintf("voltage sources and shorts form a loop whose voltages sum to %s, not zero, so Kirchhoff's voltage law cannot hold: %s", units.Format(l.Sum, units.Voltage), path)
+			}
+			for _, s := range l.Steps[1:] {
+				q := &d.Parts[s.Part]
+				diagn.Related = append(diagn.Related, diag.Related{Pos: q.Pos, End: q.End, Message: q.Name + " is in the loop"})
+			}
+			p.Report(diagn)
+		}
+		if t.LoopsLeft > 0 {
+			first := &d.Parts[t.Loops[0].Steps[0].Part]
+			p.Report(diag.Diagnostic{Pos: first.Pos, End: first.End, Severity: diag.Error,
+				Message: fmt.Sprintf("%d more loops of voltage sources and shorts were found and not listed", t.LoopsLeft)})
+		}
+		return nil, nil
+	},
+}
+
+// loopPath writes "VIN (12 V) → L1 → W1 → back to vin".
+func loopPath(d *circuit.Design, l *topology.Loop) string {
+	var b strings.Builder
+	for i, s := range l.Steps {
+		if i > 0 {
+			b.WriteString(" → ")
+		}
+		q := &d.Parts[s.Part]
+		b.WriteString(q.Name)
+		if q.Kind == circuit.VoltageSource {
+			b.WriteString(" (" + units.Format(q.Value, units.Voltage) + ")")
+		}
+	}
+	b.WriteString(" → back to " + netName(d, l.Steps[0].From))
+	return b.String()
+}

@@ -1,0 +1,31 @@
+package rules
+
+import (
+	"nodal/circuit"
+	"nodal/diag"
+	"nodal/units"
+)
+
+// ShortedPart reports parts whose two pins are on one net.
+var ShortedPart = &Analyzer{
+	Name:     "shorted-part",
+	Severity: diag.Warning,
+	Requires: []*Analyzer{Topology},
+	Doc: `a part with both pins on the same net
+A part shorted across itself does nothing (warning). A voltage source
+shorted across itself is an error: no current can make its voltage hold.`,
+	Run: func(p *Pass) (any, error) {
+		d := p.Design
+		for _, id := range topo(p).Shorted {
+			q := &d.Parts[id]
+			net := netName(d, q.Pins[0])
+			if q.Kind == circuit.VoltageSource {
+				p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Severity: diag.Error,
+					Message: "voltage source " + q.Name + " (" + units.Format(q.Value, units.Voltage) + ") has both pins on net " + net + ": it is shorted across itself"})
+				continue
+			}
+			p.Reportf(q.Pos, q.End, "%s %s has both pins on net %s, so it does nothing", q.Kind, q.Name, net)
+		}
+		return nil, nil
+	},
+}
