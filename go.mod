@@ -3,6 +3,7 @@ module nodal
 go 1.26
 
 require (
+	github.com/BurntSushi/toml v1.6.0
 	github.com/alecthomas/participle/v2 v2.1.4
 	github.com/fatih/color v1.19.0
 	github.com/mattn/go-isatty v0.0.20

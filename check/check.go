@@ -22,6 +22,9 @@ type Result struct {
 type Options struct {
 	Rules  []*rules.Analyzer // nil: rules.All
 	Config *rules.Config
+	// NoSuppress ignores allow comments (rules.Suppress) and reports
+	// every finding.
+	NoSuppress bool
 }
 
 // Source checks the source text of one file, named name in messages.
@@ -40,5 +43,8 @@ func Source(name string, src []byte, opt *Options) (*Result, error) {
 	diags, err := rules.Run(fset, b, as, opt.Config)
 	diags.Sort(fset)
 	diags = diags.Dedup()
+	if !opt.NoSuppress {
+		diags = rules.Suppress(fset, []rules.Source{{File: file, Src: src, Comments: ast.Comments}}, diags, opt.Config, nil)
+	}
 	return &Result{Fset: fset, Build: b, Diags: diags, Parsed: ast}, err
 }

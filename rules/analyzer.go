@@ -31,7 +31,8 @@ type Analyzer struct {
 	Doc      string
 	Severity diag.Severity // default; Off for analyzers that only compute
 	Requires []*Analyzer
-	Run      func(*Pass) (any, error)
+	// Run is nil for rules that a later pass reports (see Suppress).
+	Run func(*Pass) (any, error)
 }
 
 // Title returns the first line of the doc.
@@ -99,6 +100,9 @@ func Run(fset *diag.FileSet, b *circuit.Result, analyzers []*Analyzer, cfg *Conf
 			if err := run(r); err != nil {
 				return err
 			}
+		}
+		if a.Run == nil {
+			return nil // reported by a later pass, such as Suppress
 		}
 		override, has := cfg.severity(a)
 		if has && override == diag.Off && a.Severity != diag.Off {

@@ -8,6 +8,7 @@ var All = []*Analyzer{
 	Syntax, UnknownKind, PinCount, MissingValue, UnitMismatch, BadValue,
 	BadAttribute, DuplicateName, ExtraGround, NoGround,
 	FloatingNet, NoDCPath, SourceLoop, CurrentCutset, ShortedPart, CaseClash,
+	AllowReason, UnusedAllow, BadAllow,
 }
 
 // Lookup returns the rule with the given id, or nil.

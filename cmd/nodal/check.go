@@ -7,46 +7,86 @@ import (
 	"io"
 	"io/fs"
 	"os"
+	"path"
 	"path/filepath"
+	"runtime"
 	"sort"
 	"strings"
+	"sync"
 
-	"github.com/fatih/color"
 	"github.com/mattn/go-isatty"
 
 	"nodal/check"
+	"nodal/config"
 	"nodal/diag"
+	"nodal/output"
 )
 
 const checkUsage = `Usage: nodal check [flags] [PATH ...]
 
 Checks each named .nodal file, and every *.nodal file below each named
 folder (default: the current folder). "-" reads a design from standard
-input. Files are checked independently: one broken file does not stop the
-others.
+input. Files are checked independently, on every core, and one broken file
+does not stop the others.
 
-Each finding is one line in the form editors parse:
+Named files that do not end in .nodal are skipped quietly, so the file list
+a pre-commit hook passes can be handed over as it is. A named path that
+does not exist is skipped quietly when git knows it (it is tracked in HEAD
+or the index, so the change deletes it); otherwise it is a typo and an
+error (exit 2).
+
+The text form is one finding per line, the form editors parse:
 
   path:line:col: severity: message [rule-id]
 
-sorted by path, line and column. Columns count bytes from 1. Severities are
-error, warning and note. A summary line goes to standard error.
+sorted by path, line and column. Lines and columns count from 1; columns
+count bytes. Severities are error, warning and note. A summary line goes to
+standard error. --format json, sarif and markdown write a JSON document, a
+SARIF 2.1.0 log and a pull-request summary instead.
 
-Exit status: 0 when no finding is an error, 1 when one is, 2 for usage or
-I/O trouble (such as a path that does not exist).
+Settings come from the nodal.toml in each file's folder or the nearest one
+above it (see "nodal config"). A comment
+  # nodal: allow RULE -- reason
+at the end of a statement's line, or alone on the line above it, suppresses
+that rule's findings on the statement.
+
+Exit status: 0 when no finding reaches the --fail-on severity, 1 when one
+does, 2 for usage, configuration or I/O trouble.
 
 Flags:
 `
 
 type checkFlags struct {
-	noColor bool
+	noColor   bool
+	format    string
+	config    string
+	failOn    string
+	staged    bool
+	stdinName string
+	jobs      int
 }
+
+// unit is one file to check.
+type unit struct {
+	name  string // as messages name it
+	stdin bool
+	cfg   *config.Config
+}
+
+// reader reads a file the way the current mode sees files.
+type reader func(name string) ([]byte, error)
 
 func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	fl := flag.NewFlagSet("check", flag.ContinueOnError)
 	fl.SetOutput(stderr)
 	var cf checkFlags
-	fl.BoolVar(&cf.noColor, "no-color", false, "never colour the output (also when NO_COLOR is set)")
+	fl.BoolVar(&cf.noColor, "no-color", false, "never colour the output (also when NO_COLOR is set; colour is only used on a terminal)")
+	fl.StringVar(&cf.format, "format", "text", "output `form`: text, json, sarif or markdown")
+	fl.StringVar(&cf.config, "config", "", "use this nodal.toml `file` for every checked file instead of searching")
+	fl.StringVar(&cf.failOn, "fail-on", "error", "lowest `severity` that makes the exit status 1: error, warning or note")
+	fl.BoolVar(&cf.staged, "staged", false, "check the content staged in git's index: the named files, or every staged .nodal file")
+	fl.StringVar(&cf.stdinName, "stdin-filename", "", "with \"-\": report, find nodal.toml and resolve includes as if standard input were this `path`")
+	fl.IntVar(&cf.jobs, "jobs", runtime.GOMAXPROCS(0), "how many files to check at once")
 	fl.Usage = func() {
 		fmt.Fprint(stderr, checkUsage)
 		fl.PrintDefaults()
@@ -60,54 +100,194 @@ func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		}
 		return 2
 	}
-	paths := fl.Args()
-	if len(paths) == 0 {
-		paths = []string{"."}
+	usageErr := func(format string, a ...any) int {
+		fmt.Fprintf(stderr, "nodal: "+format+"\n", a...)
+		return 2
 	}
-	files, status := collect(paths, stderr)
-	useColor := !cf.noColor && os.Getenv("NO_COLOR") == "" && isTerminal(stdout)
-	var errs, warns, notes, checked int
-	for _, f := range files {
-		var src []byte
-		var err error
-		if f == "-" {
-			src, err = io.ReadAll(stdin)
-		} else {
-			src, err = os.ReadFile(f)
-		}
+	if !contains(output.Formats, cf.format) {
+		return usageErr("--format %q: want text, json, sarif or markdown", cf.format)
+	}
+	failOn, ok := diag.ParseSeverity(cf.failOn)
+	if !ok || failOn == diag.Off {
+		return usageErr("--fail-on %q: want error, warning or note", cf.failOn)
+	}
+	if cf.jobs < 1 {
+		cf.jobs = 1
+	}
+	paths := fl.Args()
+	if cf.stdinName != "" && len(paths) == 0 {
+		paths = []string{"-"}
+	}
+	if cf.stdinName != "" && !contains(paths, "-") {
+		return usageErr("--stdin-filename needs \"-\" among the paths")
+	}
+	if cf.staged && contains(paths, "-") {
+		return usageErr("--staged reads git's index; it cannot be combined with \"-\"")
+	}
+
+	status := 0
+	cwd, _ := os.Getwd()
+	read := reader(os.ReadFile)
+	var names []string
+	root := ""
+	if cf.staged {
+		r, prefix, err := gitRoot(".")
 		if err != nil {
-			fmt.Fprintf(stderr, "nodal: %v\n", err)
-			status = 2
+			return usageErr("--staged: %v", err)
+		}
+		root = r
+		idx, err := openIndex(root)
+		if err != nil {
+			return usageErr("--staged: %v", err)
+		}
+		defer idx.Close()
+		read = idx.ReadFile
+		names, status = stagedNames(root, prefix, paths, idx, stderr)
+	} else {
+		if len(paths) == 0 {
+			paths = []string{"."}
+		}
+		names, status = collect(paths, stderr)
+	}
+
+	// Each file's configuration: --config, or the nearest nodal.toml.
+	loader := newConfigLoader(read, cf.config)
+	var units []unit
+	for _, n := range names {
+		u := unit{name: n}
+		where := n
+		if n == "-" {
+			u.stdin = true
+			u.name = "<stdin>"
+			where = filepath.Join(".", "stdin")
+			if cf.stdinName != "" {
+				u.name = cf.stdinName
+				where = cf.stdinName
+			}
+		}
+		cfg, err := loader.forFile(where)
+		if err != nil {
+			printConfigError(stderr, err)
+			return 2
+		}
+		if cfg.Skipped(where) {
 			continue
 		}
-		name := f
-		if f == "-" {
-			name = "<stdin>"
+		u.cfg = cfg
+		units = append(units, u)
+	}
+
+	var stdinSrc []byte
+	for _, u := range units {
+		if u.stdin {
+			b, err := io.ReadAll(stdin)
+			if err != nil {
+				return usageErr("reading standard input: %v", err)
+			}
+			stdinSrc = b
+			break
 		}
-		res, err := check.Source(name, src, nil)
-		if err != nil {
-			fmt.Fprintf(stderr, "nodal: %s: internal error: %v\n", name, err)
+	}
+
+	results := make([]fileResult, len(units))
+	var wg sync.WaitGroup
+	next := make(chan int)
+	for w := 0; w < min(cf.jobs, max(len(units), 1)); w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := range next {
+				results[i] = checkOne(units[i], stdinSrc, read, loader)
+			}
+		}()
+	}
+	for i := range units {
+		next <- i
+	}
+	close(next)
+	wg.Wait()
+
+	rep := &output.Report{}
+	sources := map[string][]byte{}
+	for _, r := range results {
+		if r.err != "" {
+			fmt.Fprintln(stderr, r.err)
 			status = 2
 		}
-		checked++
-		for _, d := range res.Diags {
-			writeLine(stdout, res.Fset, d, useColor)
+		if r.checked {
+			rep.Files++
 		}
-		e, w, n := res.Diags.Count()
-		errs, warns, notes = errs+e, warns+w, notes+n
+		rep.Findings = append(rep.Findings, r.findings...)
+		for k, v := range r.sources {
+			sources[k] = v
+		}
 	}
-	fmt.Fprintf(stderr, "%s, %s, %s in %s\n", plural(errs, "error"), plural(warns, "warning"), plural(notes, "note"), plural(checked, "file"))
-	if status == 0 && errs > 0 {
-		status = 1
+	rep.Source = func(name string) []byte { return sources[name] }
+	opt := output.Options{Version: version, Dir: cwd, Root: root}
+	if cf.format == "text" {
+		opt.Color = !cf.noColor && os.Getenv("NO_COLOR") == "" && isTerminal(stdout)
+	}
+	if cf.format == "sarif" {
+		if root != "" {
+			opt.Dir = root // staged names are repository paths
+		} else if r, _, err := gitRoot("."); err == nil {
+			opt.Root = r
+		} else {
+			opt.Root = cwd
+		}
+	}
+	if err := output.Write(stdout, cf.format, rep, opt); err != nil {
+		return usageErr("%v", err)
+	}
+	fmt.Fprintln(stderr, rep.Summary())
+	if status == 0 {
+		for _, f := range rep.Findings {
+			if f.Severity >= failOn {
+				status = 1
+				break
+			}
+		}
 	}
 	return status
 }
 
-func plural(n int, word string) string {
-	if n == 1 {
-		return "1 " + word
+type fileResult struct {
+	checked  bool
+	findings []output.Finding
+	sources  map[string][]byte
+	err      string
+}
+
+func checkOne(u unit, stdinSrc []byte, read reader, loader *configLoader) fileResult {
+	var src []byte
+	var err error
+	if u.stdin {
+		src = stdinSrc
+	} else {
+		src, err = read(u.name)
 	}
-	return fmt.Sprintf("%d %ss", n, word)
+	if err != nil {
+		return fileResult{err: "nodal: " + err.Error()}
+	}
+	opts := &check.Options{Config: loader.rulesConfig(u.cfg)}
+	res, err := check.Source(u.name, src, opts)
+	out := fileResult{checked: true, sources: map[string][]byte{u.name: src}}
+	if err != nil {
+		out.err = fmt.Sprintf("nodal: %s: internal error: %v", u.name, err)
+	}
+	if res != nil {
+		out.findings = output.FromDiags(res.Fset, res.Diags)
+	}
+	return out
+}
+
+func contains(list []string, s string) bool {
+	for _, x := range list {
+		if x == s {
+			return true
+		}
+	}
+	return false
 }
 
 func isTerminal(w io.Writer) bool {
@@ -115,29 +295,14 @@ func isTerminal(w io.Writer) bool {
 	return ok && (isatty.IsTerminal(f.Fd()) || isatty.IsCygwinTerminal(f.Fd()))
 }
 
-func writeLine(w io.Writer, fset *diag.FileSet, d diag.Diagnostic, useColor bool) {
-	line := diag.Format(fset, d)
-	if !useColor {
-		fmt.Fprintln(w, line)
-		return
-	}
-	c := color.New(color.FgCyan)
-	switch d.Severity {
-	case diag.Error:
-		c = color.New(color.FgRed, color.Bold)
-	case diag.Warning:
-		c = color.New(color.FgYellow)
-	}
-	c.EnableColor()
-	pos := fset.Position(d.Pos).String()
-	fmt.Fprintf(w, "%s: %s: %s [%s]\n", pos, c.Sprint(d.Severity), d.Message, d.Rule)
-}
-
 // collect expands folders into their .nodal files, sorted, each once.
+// Named files that are not .nodal files are skipped; named paths that do
+// not exist are skipped when git knows them (deleted by the change being
+// checked) and reported otherwise.
 func collect(paths []string, stderr io.Writer) ([]string, int) {
 	status := 0
 	seen := map[string]bool{}
-	var out []string
+	var out, missing []string
 	add := func(p string) {
 		if !seen[p] {
 			seen[p] = true
@@ -150,13 +315,19 @@ func collect(paths []string, stderr io.Writer) ([]string, int) {
 			continue
 		}
 		info, err := os.Stat(p)
+		if errors.Is(err, fs.ErrNotExist) {
+			missing = append(missing, p)
+			continue
+		}
 		if err != nil {
 			fmt.Fprintf(stderr, "nodal: %v\n", err)
 			status = 2
 			continue
 		}
 		if !info.IsDir() {
-			add(filepath.Clean(p))
+			if strings.HasSuffix(p, ".nodal") {
+				add(filepath.Clean(p))
+			}
 			continue
 		}
 		var found []string
@@ -179,6 +350,56 @@ func collect(paths []string, stderr io.Writer) ([]string, int) {
 		sort.Strings(found)
 		for _, q := range found {
 			add(q)
+		}
+	}
+	if len(missing) > 0 {
+		known := gitKnown(".", missing)
+		for _, p := range missing {
+			if !known[p] {
+				fmt.Fprintf(stderr, "nodal: %s: no such file or folder\n", p)
+				status = 2
+			}
+		}
+	}
+	return out, status
+}
+
+// stagedNames turns the named paths (relative to the current folder) into
+// repository paths of staged .nodal files, or lists every staged one.
+func stagedNames(root, prefix string, paths []string, idx *index, stderr io.Writer) ([]string, int) {
+	if len(paths) == 0 {
+		ps, err := gitStaged(root)
+		if err != nil {
+			fmt.Fprintf(stderr, "nodal: --staged: %v\n", err)
+			return nil, 2
+		}
+		return ps, 0
+	}
+	status := 0
+	var out, missing []string
+	seen := map[string]bool{}
+	for _, p := range paths {
+		if !strings.HasSuffix(p, ".nodal") {
+			continue
+		}
+		rp := path.Clean(prefix + filepath.ToSlash(p))
+		if seen[rp] {
+			continue
+		}
+		seen[rp] = true
+		if _, err := idx.ReadFile(rp); err != nil {
+			missing = append(missing, p)
+			continue
+		}
+		out = append(out, rp)
+	}
+	if len(missing) > 0 {
+		known := gitKnown(".", missing)
+		for _, p := range missing {
+			if !known[p] {
+				fmt.Fprintf(stderr, "nodal: %s: not in git's index\n", p)
+				status = 2
+			}
 		}
 	}
 	return out, status

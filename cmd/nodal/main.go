@@ -16,6 +16,7 @@ const usage = `nodal checks circuits written as plain text (.nodal files).
 Usage:
   nodal check [flags] [PATH ...]   check files and folders (default: .)
   nodal rules [RULE]               list the rules, or explain one
+  nodal config [PATH]              show the settings in effect for a path
   nodal version                    print the version
   nodal help [COMMAND]             show help
 
@@ -38,6 +39,8 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	switch args[0] {
 	case "check":
 		return cmdCheck(args[1:], stdin, stdout, stderr)
+	case "config":
+		return cmdConfig(args[1:], stdout, stderr)
 	case "rules":
 		return cmdRules(args[1:], stdout, stderr)
 	case "version", "--version":

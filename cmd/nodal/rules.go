@@ -5,12 +5,13 @@ import (
 	"io"
 	"text/tabwriter"
 
+	"nodal/docs"
 	"nodal/rules"
 )
 
 func cmdRules(args []string, stdout, stderr io.Writer) int {
 	if len(args) > 0 && (args[0] == "-h" || args[0] == "--help" || args[0] == "-help") {
-		fmt.Fprintln(stdout, "Usage: nodal rules [RULE]\n\nLists every rule with its default severity and a one-line description,\nor with a rule id prints the rule's full description.")
+		fmt.Fprintln(stdout, "Usage: nodal rules [RULE]\n\nLists every rule with its default severity and a one-line description,\nor with a rule id prints the rule's page: what it checks, why it\nmatters, an example, the fix and how to suppress it.")
 		return 0
 	}
 	if len(args) > 0 {
@@ -18,6 +19,11 @@ func cmdRules(args []string, stdout, stderr io.Writer) int {
 		if a == nil {
 			fmt.Fprintf(stderr, "nodal: no rule %q; \"nodal rules\" lists them\n", args[0])
 			return 2
+		}
+		if page, ok := docs.Rule(a.Name); ok {
+			fmt.Fprint(stdout, page)
+			fmt.Fprintf(stdout, "\nDefault severity: %s. Online: %s\n", a.Severity, docs.RuleURL(a.Name))
+			return 0
 		}
 		fmt.Fprintf(stdout, "%s (default %s)\n\n%s\n", a.Name, a.Severity, a.Doc)
 		return 0

@@ -1,0 +1,123 @@
+package main
+
+import (
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"strings"
+	"text/tabwriter"
+
+	"nodal/config"
+	"nodal/rules"
+)
+
+const configUsage = `Usage: nodal config [--config FILE] [PATH]
+
+Prints the configuration in effect for PATH (a .nodal file or a folder;
+default: the current folder) and where each value came from: the line of
+the nodal.toml that set it, or "default".
+
+nodal.toml is looked for in the folder of the checked file, then in each
+folder above it; the first found is used, whole (files are not merged).
+Its keys:
+
+  skip = ["vendor/**", "scratch/*.nodal"]   # globs, relative to nodal.toml
+
+  [rules]                 # severity of a rule: off, note, warning, error
+  floating-net = "off"
+
+  [derating]              # percent of a part's rating the rating rules
+  resistor-power = 60     # accept before warning (all: common practice)
+
+  [limits]                # block expansion
+  depth = 64              # deepest nesting of blocks
+  parts = 10000000        # most parts a design may expand to
+
+An unknown key, a bad value or an unknown rule id is an error naming the
+file, line and key.
+
+Flags:
+`
+
+func cmdConfig(args []string, stdout, stderr io.Writer) int {
+	fl := flag.NewFlagSet("config", flag.ContinueOnError)
+	fl.SetOutput(stderr)
+	forced := fl.String("config", "", "use this nodal.toml `file` instead of searching")
+	fl.Usage = func() { fmt.Fprint(stderr, configUsage); fl.PrintDefaults() }
+	if err := fl.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			fmt.Fprint(stdout, configUsage)
+			fl.SetOutput(stdout)
+			fl.PrintDefaults()
+			return 0
+		}
+		return 2
+	}
+	if fl.NArg() > 1 {
+		fmt.Fprintln(stderr, "nodal: config takes at most one path")
+		return 2
+	}
+	p := "."
+	if fl.NArg() == 1 {
+		p = fl.Arg(0)
+	}
+	where := p
+	if info, err := os.Stat(p); err == nil && info.IsDir() {
+		where = filepath.Join(p, "x.nodal") // a file in that folder
+	} else if err != nil && !errors.Is(err, os.ErrNotExist) {
+		fmt.Fprintf(stderr, "nodal: %v\n", err)
+		return 2
+	}
+	loader := newConfigLoader(os.ReadFile, *forced)
+	c, err := loader.forFile(where)
+	if err != nil {
+		printConfigError(stderr, err)
+		return 2
+	}
+	writeConfig(stdout, p, c)
+	return 0
+}
+
+// writeConfig prints a configuration as TOML with the origin of each value
+// in a comment.
+func writeConfig(w io.Writer, p string, c *config.Config) {
+	from := c.File
+	if from == "" {
+		from = "no nodal.toml found; every value is a default"
+	}
+	fmt.Fprintf(w, "# configuration for %s\n# from %s\n", p, from)
+	tw := tabwriter.NewWriter(w, 0, 4, 2, ' ', 0)
+	origin := func(key string) string {
+		if o, ok := c.Origin[key]; ok {
+			return o
+		}
+		return "default"
+	}
+	if c.Skipped(p) {
+		fmt.Fprintf(w, "# %s is skipped by the skip globs\n", p)
+	}
+	skip := make([]string, len(c.Skip))
+	for i, g := range c.Skip {
+		skip[i] = fmt.Sprintf("%q", g)
+	}
+	fmt.Fprintf(tw, "\nskip = [%s]\t# %s\n", strings.Join(skip, ", "), origin("skip"))
+	fmt.Fprintf(tw, "\n[rules]\n")
+	for _, a := range rules.All {
+		sev := a.Severity
+		if s, ok := c.Severity[a.Name]; ok {
+			sev = s
+		}
+		fmt.Fprintf(tw, "%s = %q\t# %s\n", a.Name, sev.String(), origin("rules."+a.Name))
+	}
+	fmt.Fprintf(tw, "\n[derating]\n")
+	for _, k := range config.DeratingKeys() {
+		fmt.Fprintf(tw, "%s = %g\t# %s\n", k, c.Derating[k]*100, origin("derating."+k))
+	}
+	fmt.Fprintf(tw, "\n[limits]\n")
+	fmt.Fprintf(tw, "depth = %d\t# %s\n", c.Depth, origin("limits.depth"))
+	fmt.Fprintf(tw, "parts = %d\t# %s\n", c.Parts, origin("limits.parts"))
+	tw.Flush()
+}

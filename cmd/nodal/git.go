@@ -1,0 +1,170 @@
+package main
+
+// git.go: what the check command asks of git — the repository root, which
+// missing paths git knows (a hook's deleted files), the staged file list,
+// and the staged content of files, read through one "git cat-file --batch"
+// process however many files are checked.
+
+import (
+	"bufio"
+	"bytes"
+	"errors"
+	"fmt"
+	"io"
+	"io/fs"
+	"os"
+	"os/exec"
+	"path"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"sync"
+)
+
+func gitOutput(dir string, args ...string) ([]byte, error) {
+	cmd := exec.Command("git", args...)
+	cmd.Dir = dir
+	var stderr bytes.Buffer
+	cmd.Stderr = &stderr
+	out, err := cmd.Output()
+	if err != nil {
+		msg := strings.TrimSpace(stderr.String())
+		if msg == "" {
+			msg = err.Error()
+		}
+		return nil, fmt.Errorf("git %s: %s", args[0], msg)
+	}
+	return out, nil
+}
+
+// gitRoot returns the top folder of the work tree holding dir and the path
+// of dir inside it ("" or "sub/dir/").
+func gitRoot(dir string) (root, prefix string, err error) {
+	out, err := gitOutput(dir, "rev-parse", "--show-toplevel", "--show-prefix")
+	if err != nil {
+		return "", "", err
+	}
+	lines := strings.Split(strings.TrimRight(string(out), "\n"), "\n")
+	root = lines[0]
+	if len(lines) > 1 {
+		prefix = lines[1]
+	}
+	return root, prefix, nil
+}
+
+// gitKnown returns the paths among ps that git tracks in HEAD or the
+// index: a path that is missing from the disk but known to git is a
+// deletion, not a typo. Errors (no git, not a repository) mean "none".
+func gitKnown(dir string, ps []string) map[string]bool {
+	args := append([]string{"ls-files", "-z", "--full-name", "--with-tree=HEAD", "--"}, ps...)
+	out, err := gitOutput(dir, args...)
+	if err != nil {
+		// A repository without commits has no HEAD; ask the index alone.
+		args = append([]string{"ls-files", "-z", "--full-name", "--"}, ps...)
+		if out, err = gitOutput(dir, args...); err != nil {
+			return nil
+		}
+	}
+	_, prefix, err := gitRoot(dir)
+	if err != nil {
+		return nil
+	}
+	listed := map[string]bool{}
+	for _, p := range strings.Split(string(out), "\x00") {
+		if p != "" {
+			listed[p] = true
+		}
+	}
+	known := map[string]bool{}
+	for _, p := range ps {
+		if listed[path.Clean(prefix+filepath.ToSlash(p))] {
+			known[p] = true
+		}
+	}
+	return known
+}
+
+// gitStaged lists the repository paths of the staged .nodal files that
+// are added, copied, modified or renamed (deleted ones have nothing to
+// check).
+func gitStaged(root string) ([]string, error) {
+	out, err := gitOutput(root, "diff", "--cached", "--name-only", "-z", "--diff-filter=ACMR", "--", "*.nodal")
+	if err != nil {
+		return nil, err
+	}
+	var ps []string
+	for _, p := range strings.Split(string(out), "\x00") {
+		if strings.HasSuffix(p, ".nodal") {
+			ps = append(ps, p)
+		}
+	}
+	return ps, nil
+}
+
+// index reads files from git's index. Names are repository paths; it is
+// safe for concurrent use.
+type index struct {
+	root string
+	mu   sync.Mutex
+	cmd  *exec.Cmd
+	in   io.WriteCloser
+	out  *bufio.Reader
+}
+
+func openIndex(root string) (*index, error) {
+	cmd := exec.Command("git", "cat-file", "--batch")
+	cmd.Dir = root
+	in, err := cmd.StdinPipe()
+	if err != nil {
+		return nil, err
+	}
+	out, err := cmd.StdoutPipe()
+	if err != nil {
+		return nil, err
+	}
+	if err := cmd.Start(); err != nil {
+		return nil, fmt.Errorf("git cat-file: %w", err)
+	}
+	return &index{root: root, cmd: cmd, in: in, out: bufio.NewReaderSize(out, 1<<16)}, nil
+}
+
+// ReadFile returns the staged content of a repository path, or an error
+// wrapping fs.ErrNotExist when the index has no such file.
+func (x *index) ReadFile(name string) ([]byte, error) {
+	p := path.Clean(filepath.ToSlash(name))
+	if p == ".." || strings.HasPrefix(p, "../") || path.IsAbs(p) || strings.ContainsAny(p, "\n") {
+		return nil, &fs.PathError{Op: "read staged", Path: name, Err: fs.ErrNotExist}
+	}
+	x.mu.Lock()
+	defer x.mu.Unlock()
+	if _, err := fmt.Fprintf(x.in, ":%s\n", p); err != nil {
+		return nil, fmt.Errorf("git cat-file: %w", err)
+	}
+	header, err := x.out.ReadString('\n')
+	if err != nil {
+		return nil, fmt.Errorf("git cat-file: %w", err)
+	}
+	fields := strings.Fields(header)
+	if len(fields) == 2 && fields[1] == "missing" || len(fields) != 3 {
+		return nil, &fs.PathError{Op: "read staged", Path: name, Err: fs.ErrNotExist}
+	}
+	if fields[1] != "blob" {
+		return nil, &fs.PathError{Op: "read staged", Path: name, Err: errors.New("not a file in git's index")}
+	}
+	size, err := strconv.Atoi(fields[2])
+	if err != nil {
+		return nil, fmt.Errorf("git cat-file: bad header %q", header)
+	}
+	buf := make([]byte, size+1) // content and its trailing newline
+	if _, err := io.ReadFull(x.out, buf); err != nil {
+		return nil, fmt.Errorf("git cat-file: %w", err)
+	}
+	return buf[:size], nil
+}
+
+func (x *index) Close() error {
+	x.in.Close()
+	return x.cmd.Wait()
+}
+
+var readDisk = os.ReadFile

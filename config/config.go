@@ -1,0 +1,342 @@
+// Package config reads nodal.toml, the per-project settings of the
+// checker: rule severities, derating limits of the rating rules, paths to
+// skip, and the limits on block expansion.
+//
+// A check of a file uses the nodal.toml in the file's folder or the
+// nearest folder above it, or the file named by --config. Values not set
+// there keep their defaults. Every key is checked: an unknown key, a value
+// of the wrong type or range, or an unknown rule id is an error that names
+// the file, the line and the key. Nothing is silently ignored.
+package config
+
+import (
+	"errors"
+	"fmt"
+	"io/fs"
+	"path"
+	"path/filepath"
+	"sort"
+	"strconv"
+	"strings"
+
+	"github.com/BurntSushi/toml"
+
+	"nodal/diag"
+)
+
+// FileName is the name Find looks for.
+const FileName = "nodal.toml"
+
+// Derating keys and their defaults, in percent of the part's rating. All
+// are common practice, not a standard; a project sets its own.
+var deratingDefaults = []struct {
+	Key     string
+	Percent float64
+}{
+	{"resistor-power", 60},
+	{"capacitor-voltage", 80},
+	{"diode-current", 80},
+	{"led-current", 80},
+	{"inductor-current", 80},
+	{"fuse-current", 75},
+	{"supply-current", 90},
+}
+
+// Limit defaults: how deep blocks may nest and how many parts a design may
+// expand to.
+const (
+	DefaultDepth = 64
+	DefaultParts = 10_000_000
+)
+
+// Config is the configuration in effect for one file.
+type Config struct {
+	// File is the nodal.toml these settings came from; empty when every
+	// value is a default.
+	File string
+	// Severity overrides rule severities; Off silences a rule.
+	Severity map[string]diag.Severity
+	// Derating maps a derating key (see DeratingKeys) to a fraction of
+	// the rating, 0 < f ≤ 1.
+	Derating map[string]float64
+	// Skip holds globs, relative to the folder of File, of paths not to
+	// check. "**" matches any number of folders.
+	Skip []string
+	// Depth and Parts limit block expansion.
+	Depth, Parts int
+	// Origin says where each value came from: "default", or
+	// "FILE:LINE". Keys are the TOML keys ("rules.floating-net",
+	// "derating.resistor-power", "skip", "limits.depth").
+	Origin map[string]string
+}
+
+// DeratingKeys lists the derating keys in a fixed order.
+func DeratingKeys() []string {
+	out := make([]string, len(deratingDefaults))
+	for i, d := range deratingDefaults {
+		out[i] = d.Key
+	}
+	return out
+}
+
+// Default returns the configuration used when there is no nodal.toml.
+func Default() *Config {
+	c := &Config{Severity: map[string]diag.Severity{}, Derating: map[string]float64{},
+		Depth: DefaultDepth, Parts: DefaultParts, Origin: map[string]string{}}
+	for _, d := range deratingDefaults {
+		c.Derating[d.Key] = d.Percent / 100
+		c.Origin["derating."+d.Key] = "default"
+	}
+	c.Origin["limits.depth"] = "default"
+	c.Origin["limits.parts"] = "default"
+	c.Origin["skip"] = "default"
+	return c
+}
+
+// Error is a problem in a configuration file.
+type Error struct {
+	File string
+	Line int    // 0 when unknown
+	Key  string // the dotted key, when known
+	Msg  string
+}
+
+func (e *Error) Error() string {
+	pos := e.File
+	if e.Line > 0 {
+		pos += ":" + strconv.Itoa(e.Line)
+	}
+	if e.Key != "" {
+		return pos + ": " + e.Key + ": " + e.Msg
+	}
+	return pos + ": " + e.Msg
+}
+
+// Errors is every problem found in one file.
+type Errors []*Error
+
+func (es Errors) Error() string {
+	s := make([]string, len(es))
+	for i, e := range es {
+		s[i] = e.Error()
+	}
+	return strings.Join(s, "\n")
+}
+
+// raw is the shape of nodal.toml.
+type raw struct {
+	Rules    map[string]string  `toml:"rules"`
+	Derating map[string]float64 `toml:"derating"`
+	Skip     []string           `toml:"skip"`
+	Limits   struct {
+		Depth *int64 `toml:"depth"`
+		Parts *int64 `toml:"parts"`
+	} `toml:"limits"`
+}
+
+// Parse reads the text of a nodal.toml named name. known reports whether a
+// rule id exists.
+func Parse(name string, src []byte, known func(string) bool, suggest func(string) string) (*Config, error) {
+	c := Default()
+	c.File = name
+	var r raw
+	md, err := toml.NewDecoder(strings.NewReader(string(src))).Decode(&r)
+	if err != nil {
+		var pe toml.ParseError
+		if errors.As(err, &pe) {
+			msg := pe.Message
+			if strings.HasPrefix(msg, "incompatible types") || strings.Contains(msg, "type") {
+				msg = "wrong type of value: " + msg
+			}
+			return nil, &Error{File: name, Line: pe.Position.Line, Key: pe.LastKey, Msg: msg}
+		}
+		return nil, &Error{File: name, Msg: err.Error()}
+	}
+	lines := keyLines(src)
+	at := func(key string) int { return lineOf(lines, key) }
+	origin := func(key string) string { return name + ":" + strconv.Itoa(at(key)) }
+	var errs Errors
+	bad := func(key, format string, args ...any) {
+		errs = append(errs, &Error{File: name, Line: at(key), Key: key, Msg: fmt.Sprintf(format, args...)})
+	}
+	for _, k := range md.Undecoded() {
+		key := k.String()
+		msg := "unknown key"
+		switch {
+		case len(k) == 1:
+			msg += "; the keys are skip and the tables [rules], [derating] and [limits]"
+		case k[0] == "limits":
+			msg += "; [limits] takes depth and parts"
+		}
+		bad(key, "%s", msg)
+	}
+	ids := sortedKeys(r.Rules)
+	for _, id := range ids {
+		key := "rules." + id
+		if !known(id) {
+			msg := "unknown rule id"
+			if s := suggest(id); s != "" {
+				msg += "; did you mean " + s + "?"
+			} else {
+				msg += "; \"nodal rules\" lists them"
+			}
+			bad(key, "%s", msg)
+			continue
+		}
+		s, ok := diag.ParseSeverity(r.Rules[id])
+		if !ok {
+			bad(key, "severity %q is not one of off, note, warning, error", r.Rules[id])
+			continue
+		}
+		c.Severity[id] = s
+		c.Origin[key] = origin(key)
+	}
+	valid := map[string]bool{}
+	for _, k := range DeratingKeys() {
+		valid[k] = true
+	}
+	for _, k := range sortedKeys(r.Derating) {
+		key := "derating." + k
+		v := r.Derating[k]
+		if !valid[k] {
+			msg := "unknown derating key; the keys are " + strings.Join(DeratingKeys(), ", ")
+			bad(key, "%s", msg)
+			continue
+		}
+		if !(v > 0 && v <= 100) {
+			bad(key, "%v is not a percentage of the rating between 0 (exclusive) and 100", v)
+			continue
+		}
+		c.Derating[k] = v / 100
+		c.Origin[key] = origin(key)
+	}
+	if md.IsDefined("skip") {
+		for _, g := range r.Skip {
+			if err := checkGlob(g); err != nil {
+				bad("skip", "glob %q: %v", g, err)
+			}
+		}
+		c.Skip = r.Skip
+		c.Origin["skip"] = origin("skip")
+	}
+	if p := r.Limits.Depth; p != nil {
+		if *p < 1 || *p > 1<<20 {
+			bad("limits.depth", "%d is not a nesting depth between 1 and %d", *p, 1<<20)
+		} else {
+			c.Depth = int(*p)
+			c.Origin["limits.depth"] = origin("limits.depth")
+		}
+	}
+	if p := r.Limits.Parts; p != nil {
+		if *p < 1 || *p > 1<<40 {
+			bad("limits.parts", "%d is not a part count between 1 and %d", *p, int64(1)<<40)
+		} else {
+			c.Parts = int(*p)
+			c.Origin["limits.parts"] = origin("limits.parts")
+		}
+	}
+	if len(errs) > 0 {
+		sort.SliceStable(errs, func(i, j int) bool { return errs[i].Line < errs[j].Line })
+		return nil, errs
+	}
+	return c, nil
+}
+
+func sortedKeys[V any](m map[string]V) []string {
+	ks := make([]string, 0, len(m))
+	for k := range m {
+		ks = append(ks, k)
+	}
+	sort.Strings(ks)
+	return ks
+}
+
+// Find looks for nodal.toml in dir and each folder above it, reading with
+// read (which reports fs.ErrNotExist for a missing file). It returns the
+// path and contents of the first found, or "" when there is none.
+func Find(dir string, read func(string) ([]byte, error)) (string, []byte, error) {
+	for {
+		p := filepath.Join(dir, FileName)
+		b, err := read(p)
+		if err == nil {
+			return p, b, nil
+		}
+		if !errors.Is(err, fs.ErrNotExist) && !errors.Is(err, fs.ErrPermission) {
+			return "", nil, err
+		}
+		up := filepath.Dir(dir)
+		if up == dir {
+			return "", nil, nil
+		}
+		dir = up
+	}
+}
+
+// Skipped reports whether file (a path as the checker names it) matches
+// one of the skip globs, taken relative to the folder of c.File.
+func (c *Config) Skipped(file string) bool {
+	if len(c.Skip) == 0 || c.File == "" {
+		return false
+	}
+	base, err := filepath.Abs(filepath.Dir(c.File))
+	if err != nil {
+		return false
+	}
+	abs, err := filepath.Abs(file)
+	if err != nil {
+		return false
+	}
+	rel, err := filepath.Rel(base, abs)
+	if err != nil || strings.HasPrefix(rel, "..") {
+		return false
+	}
+	rel = filepath.ToSlash(rel)
+	for _, g := range c.Skip {
+		if matchGlob(g, rel) {
+			return true
+		}
+	}
+	return false
+}
+
+func checkGlob(g string) error {
+	if g == "" {
+		return errors.New("empty pattern")
+	}
+	for _, seg := range strings.Split(g, "/") {
+		if seg == "**" {
+			continue
+		}
+		if _, err := path.Match(seg, ""); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// matchGlob matches a slash-separated path against a glob in which "**"
+// stands for any number of folders and other segments follow path.Match.
+func matchGlob(glob, name string) bool {
+	return matchSegs(strings.Split(glob, "/"), strings.Split(name, "/"))
+}
+
+func matchSegs(g, n []string) bool {
+	for len(g) > 0 {
+		if g[0] == "**" {
+			for i := 0; i <= len(n); i++ {
+				if matchSegs(g[1:], n[i:]) {
+					return true
+				}
+			}
+			return false
+		}
+		if len(n) == 0 {
+			return false
+		}
+		if ok, _ := path.Match(g[0], n[0]); !ok {
+			return false
+		}
+		g, n = g[1:], n[1:]
+	}
+	return len(n) == 0
+}

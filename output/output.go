@@ -1,0 +1,160 @@
+// Package output writes the findings of a check in the forms its users
+// read: GNU text lines for terminals and editors, a JSON document for
+// scripts, a SARIF 2.1.0 log for code-scanning and review tools, and a
+// Markdown summary for a pull-request comment.
+//
+// Every writer is deterministic: the same findings give the same bytes.
+// Findings are sorted by file, line, column, rule and message, as the text
+// form always was. Lines and columns start at 1 and columns count bytes,
+// except in SARIF, whose columns count Unicode code points as that format
+// requires (converted when the source text is at hand).
+package output
+
+import (
+	"fmt"
+	"io"
+	"sort"
+
+	"nodal/diag"
+	"nodal/rules"
+)
+
+// Formats lists the names Write accepts.
+var Formats = []string{"text", "json", "sarif", "markdown"}
+
+// Finding is one diagnostic with its positions resolved.
+type Finding struct {
+	File      string
+	Line      int // 0 when only the file is known
+	Column    int
+	EndLine   int // the position just past the last byte
+	EndColumn int
+	Severity  diag.Severity
+	Rule      string
+	Message   string
+	Related   []Related
+}
+
+// Related is another place a finding names.
+type Related struct {
+	File      string
+	Line      int
+	Column    int
+	EndLine   int
+	EndColumn int
+	Message   string
+}
+
+// Report is everything one run of the checker found.
+type Report struct {
+	Files    int // how many files were checked
+	Findings []Finding
+	// Source returns the text of a file named in a finding, or nil. SARIF
+	// uses it to count columns in code points; it may be nil.
+	Source func(file string) []byte
+}
+
+// Options change how a report is written.
+type Options struct {
+	Color   bool              // text only: colour the severity
+	Version string            // the tool's version, for SARIF
+	Rules   []*rules.Analyzer // the rules SARIF describes (nil: rules.All)
+	// Root is the folder artifact paths are made relative to in SARIF
+	// (the repository root); relative file names are taken to be
+	// relative to Dir. Empty: names are used as they are.
+	Root, Dir string
+	// MaxRows caps the Markdown table (0: 50).
+	MaxRows int
+}
+
+// FromDiags resolves a file set's diagnostics into findings.
+func FromDiags(fset *diag.FileSet, l diag.List) []Finding {
+	out := make([]Finding, 0, len(l))
+	for _, d := range l {
+		start := fset.Position(d.Pos)
+		end := fset.Position(d.End)
+		if !end.IsValid() || end.Filename != start.Filename {
+			end = start
+		}
+		f := Finding{File: start.Filename, Line: start.Line, Column: start.Column,
+			EndLine: end.Line, EndColumn: end.Column,
+			Severity: d.Severity, Rule: d.Rule, Message: d.Message}
+		for _, r := range d.Related {
+			p := fset.Position(r.Pos)
+			e := fset.Position(r.End)
+			if !e.IsValid() || e.Filename != p.Filename {
+				e = p
+			}
+			f.Related = append(f.Related, Related{File: p.Filename, Line: p.Line, Column: p.Column,
+				EndLine: e.Line, EndColumn: e.Column, Message: r.Message})
+		}
+		out = append(out, f)
+	}
+	return out
+}
+
+// Sort orders findings as the text form prints them.
+func Sort(fs []Finding) {
+	sort.SliceStable(fs, func(i, j int) bool { return less(&fs[i], &fs[j]) })
+}
+
+func less(a, b *Finding) bool {
+	if a.File != b.File {
+		return a.File < b.File
+	}
+	if a.Line != b.Line {
+		return a.Line < b.Line
+	}
+	if a.Column != b.Column {
+		return a.Column < b.Column
+	}
+	if a.Rule != b.Rule {
+		return a.Rule < b.Rule
+	}
+	return a.Message < b.Message
+}
+
+// Count returns how many findings have each severity.
+func (r *Report) Count() (errors, warnings, notes int) {
+	for _, f := range r.Findings {
+		switch f.Severity {
+		case diag.Error:
+			errors++
+		case diag.Warning:
+			warnings++
+		case diag.Note:
+			notes++
+		}
+	}
+	return
+}
+
+// Write writes the report in the named format.
+func Write(w io.Writer, format string, r *Report, opt Options) error {
+	Sort(r.Findings)
+	switch format {
+	case "text", "":
+		return writeText(w, r, opt)
+	case "json":
+		return writeJSON(w, r)
+	case "sarif":
+		return writeSARIF(w, r, opt)
+	case "markdown":
+		return writeMarkdown(w, r, opt)
+	}
+	return fmt.Errorf("unknown format %q (want text, json, sarif or markdown)", format)
+}
+
+// Plural returns "1 error" or "3 errors".
+func Plural(n int, word string) string {
+	if n == 1 {
+		return "1 " + word
+	}
+	return fmt.Sprintf("%d %ss", n, word)
+}
+
+// Summary returns "E errors, W warnings, N notes in F files".
+func (r *Report) Summary() string {
+	e, w, n := r.Count()
+	return fmt.Sprintf("%s, %s, %s in %s", Plural(e, "error"), Plural(w, "warning"), Plural(n, "note"), Plural(r.Files, "file"))
+}
