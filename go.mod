@@ -7,9 +7,15 @@ require (
 	github.com/alecthomas/participle/v2 v2.1.4
 	github.com/fatih/color v1.19.0
 	github.com/mattn/go-isatty v0.0.20
+	github.com/owenrumney/go-sarif/v3 v3.3.1
+	github.com/santhosh-tekuri/jsonschema/v6 v6.0.3
 )
 
 require (
 	github.com/mattn/go-colorable v0.1.14 // indirect
+	github.com/xeipuuv/gojsonpointer v0.0.0-20180127040702-4e3ac2762d5f // indirect
+	github.com/xeipuuv/gojsonreference v0.0.0-20180127040603-bd5ef7bd5415 // indirect
+	github.com/xeipuuv/gojsonschema v1.2.0 // indirect
 	golang.org/x/sys v0.42.0 // indirect
+	golang.org/x/text v0.14.0 // indirect
 )
