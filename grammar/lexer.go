@@ -62,10 +62,11 @@ var Lexer lexer.Definition = definition{}
 func (definition) Symbols() map[string]lexer.TokenType { return symbols }
 
 func (definition) Lex(filename string, r io.Reader) (lexer.Lexer, error) {
-	src, err := io.ReadAll(r)
+	b, err := io.ReadAll(r)
 	if err != nil {
 		return nil, err
 	}
+	src := string(b)
 	var toks []lexer.Token
 	line := 1
 	for off := 0; off < len(src); {
@@ -103,11 +104,12 @@ func isWordStart(r rune) bool { return r == '_' || unicode.IsLetter(r) }
 func isWordPart(r rune) bool  { return r == '_' || unicode.IsLetter(r) || unicode.IsDigit(r) }
 
 // appendLine scans src[off:end] (one line, without its newline) and appends
-// its tokens. Columns count bytes from 1. Comments are kept as tokens so
+// its tokens. Token values are substrings of src, so scanning allocates
+// nothing but the growth of toks. Columns count bytes from 1. Comments are kept as tokens so
 // that suppression comments can be read; the parser elides them. When more
 // than MaxLineTokens tokens are found, the rest of the line becomes one
 // TokInvalid token.
-func appendLine(toks []lexer.Token, src []byte, off, end, line int, comments *[]lexer.Token) []lexer.Token {
+func appendLine(toks []lexer.Token, src string, off, end, line int, comments *[]lexer.Token) []lexer.Token {
 	start := len(toks)
 	i := off
 	for i < end {
@@ -125,7 +127,7 @@ func appendLine(toks []lexer.Token, src []byte, off, end, line int, comments *[]
 		typ := TokInvalid
 		switch {
 		case c == '#':
-			t := lexer.Token{Type: TokComment, Value: string(src[i:end]), Pos: pos}
+			t := lexer.Token{Type: TokComment, Value: src[i:end], Pos: pos}
 			if comments != nil {
 				*comments = append(*comments, t)
 			} else {
@@ -148,11 +150,11 @@ func appendLine(toks []lexer.Token, src []byte, off, end, line int, comments *[]
 		case c < utf8.RuneSelf && isPunct(c):
 			typ = TokPunct
 		default:
-			r, size := utf8.DecodeRune(src[i:end])
+			r, size := utf8.DecodeRuneInString(src[i:end])
 			if r == utf8.RuneError && size <= 1 {
 				// invalid UTF-8: one token for the run of bad bytes
 				for j < end {
-					r2, s2 := utf8.DecodeRune(src[j:end])
+					r2, s2 := utf8.DecodeRuneInString(src[j:end])
 					if r2 != utf8.RuneError || s2 > 1 {
 						break
 					}
@@ -169,21 +171,28 @@ func appendLine(toks []lexer.Token, src []byte, off, end, line int, comments *[]
 				break
 			}
 			for j < end {
-				r2, s2 := utf8.DecodeRune(src[j:end])
+				if c := src[j]; c < utf8.RuneSelf {
+					if !(c == '_' || c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z' || c >= '0' && c <= '9') {
+						break
+					}
+					j++
+					continue
+				}
+				r2, s2 := utf8.DecodeRuneInString(src[j:end])
 				if !isWordPart(r2) {
 					break
 				}
 				j += s2
 			}
-			typ = classifyWord(string(src[i:j]))
+			typ = classifyWord(src[i:j])
 		}
 		if j-i > MaxTokenBytes {
 			// a token this long is junk; keep a short prefix for the message
-			toks = append(toks, lexer.Token{Type: TokInvalid, Value: string(src[i:i+32]) + "…", Pos: pos})
+			toks = append(toks, lexer.Token{Type: TokInvalid, Value: src[i:i+32] + "…", Pos: pos})
 			i = j
 			continue
 		}
-		toks = append(toks, lexer.Token{Type: typ, Value: string(src[i:j]), Pos: pos})
+		toks = append(toks, lexer.Token{Type: typ, Value: src[i:j], Pos: pos})
 		i = j
 	}
 	return toks
@@ -199,7 +208,7 @@ func isPunct(c byte) bool {
 
 // scanNumber returns the end of a number starting at i: digits, a decimal
 // point, an exponent, and any letters, digits or % glued to it (4.7kΩ, 4k7).
-func scanNumber(src []byte, i, end int) int {
+func scanNumber(src string, i, end int) int {
 	j := i
 	for j < end && (src[j] >= '0' && src[j] <= '9' || src[j] == '.') {
 		j++
@@ -221,7 +230,14 @@ func scanNumber(src []byte, i, end int) int {
 			j++
 			continue
 		}
-		r, s := utf8.DecodeRune(src[j:end])
+		if c := src[j]; c < utf8.RuneSelf {
+			if !(c == '_' || c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z' || c >= '0' && c <= '9') {
+				break
+			}
+			j++
+			continue
+		}
+		r, s := utf8.DecodeRuneInString(src[j:end])
 		if !isWordPart(r) || r == utf8.RuneError {
 			break
 		}
@@ -231,6 +247,24 @@ func scanNumber(src []byte, i, end int) int {
 }
 
 func classifyWord(w string) lexer.TokenType {
+	// Most words are plain ASCII names with a digit or an underscore in
+	// them (n12_7, R3): no keyword, attribute word or unit has either, and
+	// only a word starting with R can be a code. Decide those without the
+	// table lookups.
+	plain, digitOrUnderscore := true, false
+	for i := 0; i < len(w); i++ {
+		c := w[i]
+		switch {
+		case c >= '0' && c <= '9' || c == '_':
+			digitOrUnderscore = true
+		case c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z':
+		default:
+			plain = false
+		}
+	}
+	if plain && digitOrUnderscore && w[0] != 'R' {
+		return TokIdent
+	}
 	switch {
 	case keywords[w]:
 		return TokKeyword

@@ -58,43 +58,122 @@ type SyntaxError struct {
 func (e *SyntaxError) Error() string { return fmt.Sprintf("%d: %s", e.Line, e.Msg) }
 
 // Parse reads a whole file. It never fails: lines that do not parse are
-// recorded in File.Errors and skipped.
+// recorded in File.Errors and skipped. Lines are read in batches by the
+// fast path (fast.go); the tree is the one ParseReference builds.
 func Parse(name string, src []byte) *File {
+	return parse(name, src, true)
+}
+
+// ParseReference reads a file one line per participle call with the
+// grammar alone, without the fast path. It defines what Parse returns.
+func ParseReference(name string, src []byte) *File {
+	return parse(name, src, false)
+}
+
+// lineSpan is one non-empty line of a batch: its tokens in the batch's
+// token slice, ending before the Newline (or EOF) token.
+type lineSpan struct {
+	from, to int // token indices
+	eol      int // index of the token that ends the line
+}
+
+func parse(name string, srcBytes []byte, fast bool) *File {
 	f := &File{Name: name}
-	var toks []lexer.Token
+	src := string(srcBytes) // token values are substrings of this one copy
+	var toks, lineToks []lexer.Token
+	var spans []lineSpan
+	var comments []lexer.Token
+	flush := func() {
+		if len(spans) == 0 {
+			return
+		}
+		parseBatch(f, toks, spans, &lineToks)
+		toks, spans = toks[:0], spans[:0]
+	}
 	line := 1
 	for off := 0; off <= len(src); {
-		end := off
-		for end < len(src) && src[end] != '\n' {
-			end++
+		end := strings.IndexByte(src[off:], '\n')
+		if end < 0 {
+			end = len(src)
+		} else {
+			end += off
 		}
-		var comments []lexer.Token
-		toks = appendLine(toks[:0], src, off, end, line, &comments)
+		comments = comments[:0]
+		from := len(toks)
+		toks = appendLine(toks, src, off, end, line, &comments)
 		for _, c := range comments {
 			f.Comments = append(f.Comments, Comment{Offset: c.Pos.Offset, Line: line, Text: c.Value})
 		}
-		if len(toks) > 0 {
+		if len(toks) > from {
 			eol := lexer.Position{Offset: end, Line: line, Column: end - off + 1}
-			toks = append(toks, lexer.Token{Type: TokEOF, Pos: eol})
-			if st, err := parseLine(toks); err != nil {
-				f.Errors = append(f.Errors, err)
-			} else {
-				// End the statement at its last token, not at a trailing
-				// comment or the end of the line.
-				last := toks[len(toks)-2]
-				st.EndPos = last.Pos
-				st.EndPos.Offset += len(last.Value)
-				st.EndPos.Column += len(last.Value)
-				if st.Part != nil {
-					st.Part.EndPos = st.EndPos
+			if fast {
+				toks = append(toks, lexer.Token{Type: TokNewline, Pos: eol})
+				spans = append(spans, lineSpan{from, len(toks) - 1, len(toks) - 1})
+				if len(spans) == batchLines {
+					flush()
 				}
-				f.Stmts = append(f.Stmts, st)
+			} else {
+				toks = append(toks, lexer.Token{Type: TokEOF, Pos: eol})
+				if st, err := parseLine(toks); err != nil {
+					f.Errors = append(f.Errors, err)
+				} else {
+					f.Stmts = append(f.Stmts, finish(st, toks[len(toks)-2]))
+				}
+				toks = toks[:0]
 			}
 		}
 		off = end + 1
 		line++
 	}
+	flush()
 	return f
+}
+
+// finish ends a statement at its last token, not at a trailing comment or
+// the end of the line.
+func finish(st *Statement, last lexer.Token) *Statement {
+	st.EndPos = last.Pos
+	st.EndPos.Offset += len(last.Value)
+	st.EndPos.Column += len(last.Value)
+	if st.Part != nil {
+		st.Part.EndPos = st.EndPos
+	}
+	return st
+}
+
+// parseBatch parses the lines of one batch with one participle call; when
+// any line fails it parses them again one by one with the grammar, so that
+// the errors are the grammar's.
+func parseBatch(f *File, toks []lexer.Token, spans []lineSpan, lineToks *[]lexer.Token) {
+	eof := toks[len(toks)-1]
+	eof.Type = TokEOF
+	pl, err := lexer.Upgrade(&sliceLexer{toks: append(toks, eof)})
+	if err == nil {
+		var b *fastBatch
+		b, err = batchParser.ParseFromLexer(pl)
+		if err == nil && len(b.Lines) == len(spans) {
+			for i, l := range b.Lines {
+				st := l.Other
+				if l.Part != nil {
+					st = &Statement{Pos: l.Part.Pos, Part: (*Part)(l.Part)}
+				}
+				f.Stmts = append(f.Stmts, finish(st, toks[spans[i].to-1]))
+			}
+			return
+		}
+	}
+	for _, sp := range spans {
+		lt := append((*lineToks)[:0], toks[sp.from:sp.to]...)
+		nl := toks[sp.eol]
+		nl.Type = TokEOF
+		lt = append(lt, nl)
+		*lineToks = lt
+		if st, err := parseLine(lt); err != nil {
+			f.Errors = append(f.Errors, err)
+		} else {
+			f.Stmts = append(f.Stmts, finish(st, lt[len(lt)-2]))
+		}
+	}
 }
 
 func parseLine(toks []lexer.Token) (*Statement, *SyntaxError) {

@@ -1,0 +1,186 @@
+package bench_test
+
+import (
+	"bufio"
+	"bytes"
+	"fmt"
+	"io"
+	"math/rand/v2"
+	"sync"
+	"testing"
+
+	"nodal/check"
+	"nodal/circuit"
+	"nodal/diag"
+	"nodal/grammar"
+	"nodal/internal/gen"
+	"nodal/rules"
+	"nodal/topology"
+)
+
+// Sizes in parts. The mesh of each size is the nearest square mesh.
+var sizes = []int{10_000, 100_000, 1_000_000}
+
+var (
+	mu      sync.Mutex
+	sources = map[string][]byte{}
+)
+
+func source(b *testing.B, kind string, parts int) []byte {
+	b.Helper()
+	mu.Lock()
+	defer mu.Unlock()
+	key := fmt.Sprint(kind, parts)
+	if s, ok := sources[key]; ok {
+		return s
+	}
+	var buf bytes.Buffer
+	var err error
+	switch kind {
+	case "mesh":
+		err = (&gen.Mesh{K: gen.MeshSide(parts), Supplies: 4, Seed: 1}).Write(&buf)
+	case "random":
+		err = (&gen.Random{Parts: parts, Seed: 1}).Write(&buf)
+	}
+	if err != nil {
+		b.Fatal(err)
+	}
+	sources[key] = buf.Bytes()
+	return buf.Bytes()
+}
+
+func each(b *testing.B, f func(b *testing.B, kind string, src []byte)) {
+	for _, kind := range []string{"mesh", "random"} {
+		for _, n := range sizes {
+			b.Run(fmt.Sprintf("%s/parts=%d", kind, n), func(b *testing.B) {
+				f(b, kind, source(b, kind, n))
+			})
+		}
+	}
+}
+
+func perPart(b *testing.B, parts int) {
+	b.ReportMetric(float64(parts)*float64(b.N)/b.Elapsed().Seconds(), "parts/s")
+}
+
+func BenchmarkParse(b *testing.B) {
+	each(b, func(b *testing.B, kind string, src []byte) {
+		b.SetBytes(int64(len(src)))
+		b.ReportAllocs()
+		var f *grammar.File
+		for b.Loop() {
+			f = grammar.Parse("bench.nodal", src)
+		}
+		if len(f.Errors) > 0 {
+			b.Fatal(f.Errors[0])
+		}
+		perPart(b, len(f.Stmts))
+	})
+}
+
+func BenchmarkElaborate(b *testing.B) {
+	each(b, func(b *testing.B, kind string, src []byte) {
+		fset := diag.NewFileSet()
+		file := fset.AddFile("bench.nodal", src)
+		ast := grammar.Parse("bench.nodal", src)
+		b.ReportAllocs()
+		var r *circuit.Result
+		for b.Loop() {
+			r = circuit.Build(file, ast)
+		}
+		if len(r.Diags) > 0 {
+			b.Fatal("findings in a generated design")
+		}
+		perPart(b, len(r.Design.Parts))
+	})
+}
+
+func built(b *testing.B, src []byte) (*diag.FileSet, *circuit.Result) {
+	fset := diag.NewFileSet()
+	file := fset.AddFile("bench.nodal", src)
+	return fset, circuit.Build(file, grammar.Parse("bench.nodal", src))
+}
+
+func BenchmarkTopology(b *testing.B) {
+	each(b, func(b *testing.B, kind string, src []byte) {
+		_, r := built(b, src)
+		b.ReportAllocs()
+		var t *topology.Result
+		for b.Loop() {
+			t = topology.Analyze(r.Design)
+		}
+		if !t.WellPosed() {
+			b.Fatal("generated design not well posed")
+		}
+		perPart(b, len(r.Design.Parts))
+	})
+}
+
+// BenchmarkRules runs every rule, the topology pass they share included.
+func BenchmarkRules(b *testing.B) {
+	each(b, func(b *testing.B, kind string, src []byte) {
+		fset, r := built(b, src)
+		b.ReportAllocs()
+		var l diag.List
+		for b.Loop() {
+			var err error
+			l, err = rules.Run(fset, r, rules.All, nil)
+			if err != nil {
+				b.Fatal(err)
+			}
+		}
+		if len(l) > 0 {
+			b.Fatal("findings in a generated design")
+		}
+		perPart(b, len(r.Design.Parts))
+	})
+}
+
+// BenchmarkOutput sorts, de-duplicates and formats one finding per ten
+// parts, at random places in the file, as the command writes them.
+func BenchmarkOutput(b *testing.B) {
+	each(b, func(b *testing.B, kind string, src []byte) {
+		fset, r := built(b, src)
+		parts := r.Design.Parts
+		rnd := rand.New(rand.NewPCG(1, 2))
+		base := make(diag.List, len(parts)/10)
+		for i := range base {
+			p := &parts[rnd.IntN(len(parts))]
+			base[i] = diag.Diagnostic{Pos: p.Pos, End: p.End, Rule: "floating-net", Severity: diag.Warning, Message: "net " + p.Name + " touches only one pin; connect it"}
+		}
+		l := make(diag.List, len(base))
+		b.ReportAllocs()
+		for b.Loop() {
+			copy(l, base)
+			l.Sort(fset)
+			out := l.Dedup()
+			w := bufio.NewWriter(io.Discard)
+			for _, d := range out {
+				w.WriteString(diag.Format(fset, d))
+				w.WriteByte('\n')
+			}
+			w.Flush()
+		}
+		b.ReportMetric(float64(len(base))*float64(b.N)/b.Elapsed().Seconds(), "findings/s")
+	})
+}
+
+// BenchmarkCheck is the whole pipeline as the command runs it on one file.
+func BenchmarkCheck(b *testing.B) {
+	each(b, func(b *testing.B, kind string, src []byte) {
+		b.SetBytes(int64(len(src)))
+		b.ReportAllocs()
+		var res *check.Result
+		for b.Loop() {
+			var err error
+			res, err = check.Source("bench.nodal", src, nil)
+			if err != nil {
+				b.Fatal(err)
+			}
+		}
+		if len(res.Diags) > 0 {
+			b.Fatal("findings in a generated design")
+		}
+		perPart(b, len(res.Build.Design.Parts))
+	})
+}
