@@ -15,6 +15,7 @@ import (
 	"io/fs"
 	"path"
 	"path/filepath"
+	"regexp"
 	"sort"
 	"strconv"
 	"strings"
@@ -123,6 +124,10 @@ func (es Errors) Error() string {
 	return strings.Join(s, "\n")
 }
 
+// libError is the form of the TOML library's decoding errors that are not
+// a ParseError, such as a number where a string belongs.
+var libError = regexp.MustCompile(`^toml: line (\d+) \(last key "([^"]*)"\): (.*)$`)
+
 // raw is the shape of nodal.toml.
 type raw struct {
 	Rules    map[string]string  `toml:"rules"`
@@ -149,6 +154,10 @@ func Parse(name string, src []byte, known func(string) bool, suggest func(string
 				msg = "wrong type of value: " + msg
 			}
 			return nil, &Error{File: name, Line: pe.Position.Line, Key: pe.LastKey, Msg: msg}
+		}
+		if m := libError.FindStringSubmatch(err.Error()); m != nil {
+			line, _ := strconv.Atoi(m[1])
+			return nil, &Error{File: name, Line: line, Key: m[2], Msg: "wrong type of value: " + m[3]}
 		}
 		return nil, &Error{File: name, Msg: err.Error()}
 	}

@@ -1,0 +1,99 @@
+package config
+
+import (
+	"errors"
+	"strings"
+	"testing"
+
+	"nodal/diag"
+)
+
+func known(id string) bool { return id == "floating-net" || id == "shorted-part" }
+func suggest(id string) string {
+	if strings.HasPrefix(id, "float") {
+		return "floating-net"
+	}
+	return ""
+}
+
+func TestParseValid(t *testing.T) {
+	src := `# project settings
+skip = ["vendor/**", "scratch/*.nodal"]
+
+[rules]
+floating-net = "off"
+"shorted-part" = "error"
+
+[derating]
+resistor-power = 50
+
+[limits]
+depth = 8
+`
+	c, err := Parse("nodal.toml", []byte(src), known, suggest)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if c.Severity["floating-net"] != diag.Off || c.Severity["shorted-part"] != diag.Error {
+		t.Errorf("severities %v", c.Severity)
+	}
+	if c.Derating["resistor-power"] != 0.5 || c.Derating["fuse-current"] != 0.75 {
+		t.Errorf("derating %v", c.Derating)
+	}
+	if c.Depth != 8 || c.Parts != DefaultParts {
+		t.Errorf("limits %d %d", c.Depth, c.Parts)
+	}
+	for key, want := range map[string]string{"rules.floating-net": "nodal.toml:5", "rules.shorted-part": "nodal.toml:6",
+		"derating.resistor-power": "nodal.toml:9", "limits.depth": "nodal.toml:12", "limits.parts": "default", "skip": "nodal.toml:2"} {
+		if c.Origin[key] != want {
+			t.Errorf("origin of %s = %q, want %q", key, c.Origin[key], want)
+		}
+	}
+}
+
+func TestParseErrors(t *testing.T) {
+	for _, c := range []struct{ src, want string }{
+		{"[rules]\nfloatin-net = \"off\"\n", "f.toml:2: rules.floatin-net: unknown rule id; did you mean floating-net?"},
+		{"[rules]\nfloating-net = \"loud\"\n", "f.toml:2: rules.floating-net: severity \"loud\" is not one of off, note, warning, error"},
+		{"[rules]\nfloating-net = 3\n", "f.toml:2: rules.floating-net: wrong type of value"},
+		{"colour = true\n", "f.toml:1: colour: unknown key"},
+		{"[limits]\n\ndepth = 4\nwidth = 2\n", "f.toml:4: limits.width: unknown key"},
+		{"[limits]\ndepth = 0\n", "f.toml:2: limits.depth: 0 is not a nesting depth"},
+		{"[derating]\nfuse-current = 0\n", "f.toml:2: derating.fuse-current: 0 is not a percentage"},
+		{"[derating]\nfuse = 50\n", "f.toml:2: derating.fuse: unknown derating key"},
+		{"skip = [\n  \"a/[\",\n]\n", "f.toml:1: skip: glob \"a/[\""},
+		{"[rules\n", "f.toml:2: "},
+	} {
+		_, err := Parse("f.toml", []byte(c.src), known, suggest)
+		if err == nil {
+			t.Errorf("%q: no error", c.src)
+			continue
+		}
+		var e *Error
+		var es Errors
+		if !errors.As(err, &e) && !errors.As(err, &es) {
+			t.Errorf("%q: error of type %T", c.src, err)
+		}
+		if !strings.HasPrefix(err.Error(), c.want) {
+			t.Errorf("%q:\n got %q\nwant %q…", c.src, err.Error(), c.want)
+		}
+	}
+}
+
+func TestGlobs(t *testing.T) {
+	for _, c := range []struct {
+		glob, name string
+		want       bool
+	}{
+		{"vendor/**", "vendor/a/b.nodal", true},
+		{"vendor/**", "src/vendor/a.nodal", false},
+		{"**/scratch.nodal", "a/b/scratch.nodal", true},
+		{"**/scratch.nodal", "scratch.nodal", true},
+		{"*.nodal", "a/b.nodal", false},
+		{"a/*.nodal", "a/b.nodal", true},
+	} {
+		if got := matchGlob(c.glob, c.name); got != c.want {
+			t.Errorf("matchGlob(%q, %q) = %v", c.glob, c.name, got)
+		}
+	}
+}
