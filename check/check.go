@@ -1,9 +1,12 @@
 // Package check runs the whole pipeline on one design: parse, build the
-// circuit model, run the rules. It is what the command line, the tests and
-// the benchmarks call; it does no I/O beyond what it is handed.
+// circuit model (with the files it includes), run the rules. It is what the
+// command line, the tests and the benchmarks call; all the I/O it does goes
+// through Options.ReadFile.
 package check
 
 import (
+	"os"
+
 	"nodal/circuit"
 	"nodal/diag"
 	"nodal/grammar"
@@ -12,7 +15,7 @@ import (
 
 // Result is one checked design.
 type Result struct {
-	Fset   *diag.FileSet
+	Fset   *diag.FileSet // the checked file first, then each included file
 	Build  *circuit.Result
 	Diags  diag.List // sorted, without duplicates
 	Parsed *grammar.File
@@ -25,9 +28,38 @@ type Options struct {
 	// NoSuppress ignores allow comments (rules.Suppress) and reports
 	// every finding.
 	NoSuppress bool
+	// ReadFile reads the checked file (for File) and every included file,
+	// by a path joined onto the including file's folder. Nil: os.ReadFile.
+	// A caller that checks what git has staged reads from the index here.
+	ReadFile func(path string) ([]byte, error)
+	// MaxDepth bounds the nesting of block instances (0: 64).
+	MaxDepth int
+	// MaxParts bounds the parts and instances a design expands to (0: 10
+	// million).
+	MaxParts int64
+}
+
+func (o *Options) readFile() func(string) ([]byte, error) {
+	if o.ReadFile != nil {
+		return o.ReadFile
+	}
+	return os.ReadFile
+}
+
+// File reads the file at path through opt.ReadFile and checks it.
+func File(path string, opt *Options) (*Result, error) {
+	if opt == nil {
+		opt = &Options{}
+	}
+	src, err := opt.readFile()(path)
+	if err != nil {
+		return nil, err
+	}
+	return Source(path, src, opt)
 }
 
 // Source checks the source text of one file, named name in messages.
+// Includes are resolved against the folder of name.
 func Source(name string, src []byte, opt *Options) (*Result, error) {
 	if opt == nil {
 		opt = &Options{}
@@ -35,7 +67,9 @@ func Source(name string, src []byte, opt *Options) (*Result, error) {
 	fset := diag.NewFileSet()
 	file := fset.AddFile(name, src)
 	ast := grammar.Parse(name, src)
-	b := circuit.Build(file, ast)
+	b := circuit.BuildFile(fset, file, src, ast, &circuit.Options{
+		ReadFile: opt.readFile(), MaxDepth: opt.MaxDepth, MaxParts: opt.MaxParts,
+	})
 	as := opt.Rules
 	if as == nil {
 		as = rules.All

@@ -2,6 +2,7 @@ package circuit
 
 import (
 	"fmt"
+	"path/filepath"
 	"strings"
 
 	"github.com/alecthomas/participle/v2/lexer"
@@ -23,20 +24,71 @@ type Result struct {
 	Invalid bool
 }
 
-// Build elaborates a parsed file into a design.
+// Build elaborates a parsed file into a design, with default limits and no
+// includes (an include is reported as an error).
 func Build(file *diag.File, ast *grammar.File) *Result {
-	b := &builder{file: file, r: &Result{Design: NewDesign(file.Name())}}
+	return BuildFile(nil, file, nil, ast, nil)
+}
+
+// BuildFile elaborates a parsed file into a design: its blocks, the blocks
+// of the files it includes (read through opt.ReadFile and added to fset),
+// and its top-level statements with every block instance expanded. src is
+// the file's text, used to quote expressions in messages; it may be nil.
+func BuildFile(fset *diag.FileSet, file *diag.File, src []byte, ast *grammar.File, opt *Options) *Result {
+	b := &builder{
+		fset: fset, file: file, r: &Result{Design: NewDesign(file.Name())},
+		srcs: map[*diag.File][]byte{file: src}, blocks: map[string]*blockDef{},
+		included: map[string]bool{},
+	}
+	if opt != nil {
+		b.opt = *opt
+	}
+	if b.opt.MaxDepth <= 0 {
+		b.opt.MaxDepth = DefaultMaxDepth
+	}
+	if b.opt.MaxParts <= 0 {
+		b.opt.MaxParts = DefaultMaxParts
+	}
 	b.run(ast)
 	return b.r
 }
 
 type builder struct {
-	file       *diag.File
+	fset       *diag.FileSet
+	opt        Options
+	file       *diag.File // the file of the statement being elaborated
+	srcs       map[*diag.File][]byte
 	r          *Result
 	designPos  diag.Pos
-	partIndex  map[string]PartID
 	firstPart  diag.Pos
 	groundStmt diag.Pos
+	groundName string
+
+	blocks    map[string]*blockDef
+	blockList []*blockDef
+	included  map[string]bool
+	top       *blockDef // the top level, as a block without pins
+
+	sc    *scope // the scope being elaborated
+	count int64  // parts and instances made so far
+
+	// Findings inside blocks are made once per instance; they are merged
+	// into one per statement, rule and rank within the statement.
+	merged   map[mergeKey]int
+	more     map[int]int
+	stmtSeen []ruleCount
+	probing  bool
+}
+
+type mergeKey struct {
+	pos  diag.Pos
+	rule string
+	nth  int
+}
+
+type ruleCount struct {
+	rule string
+	n    int
 }
 
 func (b *builder) pos(p lexer.Position) diag.Pos { return b.file.Pos(clamp(p.Offset, b.file.Size())) }
@@ -52,12 +104,51 @@ func clamp(o, n int) int {
 }
 
 func (b *builder) report(rule string, sev diag.Severity, pos, end diag.Pos, format string, args ...any) {
-	b.r.Diags.Add(diag.Diagnostic{Pos: pos, End: end, Rule: rule, Severity: sev, Message: fmt.Sprintf(format, args...)})
+	d := diag.Diagnostic{Pos: pos, End: end, Rule: rule, Severity: sev, Message: fmt.Sprintf(format, args...)}
+	if sc := b.sc; sc != nil && (sc.inst >= 0 || b.probing) {
+		nth := 0
+		found := false
+		for i := range b.stmtSeen {
+			if b.stmtSeen[i].rule == rule {
+				b.stmtSeen[i].n++
+				nth = b.stmtSeen[i].n
+				found = true
+				break
+			}
+		}
+		if !found {
+			b.stmtSeen = append(b.stmtSeen, ruleCount{rule, 0})
+		}
+		key := mergeKey{pos, rule, nth}
+		if b.merged == nil {
+			b.merged, b.more = map[mergeKey]int{}, map[int]int{}
+		}
+		if i, ok := b.merged[key]; ok {
+			b.more[i]++
+			return
+		}
+		b.merged[key] = len(b.r.Diags)
+		if !b.probing {
+			d.Related = b.r.Design.InstanceRelated(sc.inst)
+		}
+	}
+	b.r.Diags.Add(d)
 }
 
-func (b *builder) run(ast *grammar.File) {
-	d := b.r.Design
-	b.partIndex = make(map[string]PartID)
+// where names a position for a message: "line 4" in the same file,
+// "lib/stages.nodal:4" in another.
+func (b *builder) where(p diag.Pos) string {
+	if b.fset == nil {
+		return fmt.Sprintf("line %d", b.file.Position(p).Line)
+	}
+	pp := b.fset.Position(p)
+	if pp.Filename == b.file.Name() {
+		return fmt.Sprintf("line %d", pp.Line)
+	}
+	return fmt.Sprintf("%s:%d", pp.Filename, pp.Line)
+}
+
+func (b *builder) syntaxErrors(ast *grammar.File) {
 	for _, e := range ast.Errors {
 		end := e.End
 		if end <= e.Offset {
@@ -66,7 +157,39 @@ func (b *builder) run(ast *grammar.File) {
 		b.report("syntax", diag.Error, b.file.Pos(clamp(e.Offset, b.file.Size())), b.file.Pos(clamp(end, b.file.Size())), "%s", e.Msg)
 		b.r.Incomplete = true
 	}
-	for _, st := range ast.Stmts {
+}
+
+func (b *builder) run(ast *grammar.File) {
+	d := b.r.Design
+	b.syntaxErrors(ast)
+	topFile := b.file
+	b.included[filepath.Clean(topFile.Name())] = true
+	top := b.collect(ast, []string{filepath.Clean(topFile.Name())})
+	b.file = topFile
+	for _, st := range top {
+		if st.Ground != nil {
+			b.groundName = netName(st.Ground.Net.Text)
+			break
+		}
+	}
+	b.top = &blockDef{file: topFile, isTop: true}
+	for _, st := range top {
+		if st.Part != nil {
+			b.top.body = append(b.top.body, &bodyStmt{pt: st.Part, pos: b.pos(st.Pos), end: b.pos(st.EndPos)})
+		}
+	}
+	for _, bd := range b.blockList {
+		b.prepare(bd)
+	}
+	b.prepare(b.top)
+	for _, bd := range b.blockList {
+		b.measure(bd, nil)
+	}
+
+	b.file = topFile
+	topScope := &scope{blk: b.top, inst: -1}
+	next := 0
+	for _, st := range top {
 		pos, end := b.pos(st.Pos), b.pos(st.EndPos)
 		switch {
 		case st.Design != nil:
@@ -98,13 +221,17 @@ func (b *builder) run(ast *grammar.File) {
 				id := d.Net(netName(n.Text), b.pos(n.Pos), b.nameEnd(n))
 				d.Nets[id].Port = true
 			}
-		case st.Include != nil, st.Block != nil, st.Close != nil:
-			b.report("syntax", diag.Error, pos, end, "blocks and includes are not supported by this version of nodal")
-			b.r.Incomplete = true
 		case st.Part != nil:
-			b.part(st.Part, pos, end)
+			if !b.firstPart.IsValid() {
+				b.firstPart = pos
+			}
+			b.stmt(topScope, b.top.body[next])
+			next++
 		}
 	}
+	b.probeUnused()
+	b.unusedBlocks()
+	b.finishMerged()
 	if d.Ground == NoNet && len(d.Parts) > 0 || d.Ground == NoNet && b.firstPart.IsValid() {
 		p := b.firstPart
 		b.report("no-ground", diag.Error, p, p, "the design has parts but no ground net; add a line such as \"ground gnd\" naming its 0 V reference")
@@ -124,48 +251,24 @@ func unquote(s string) string {
 
 func netName(s string) string { return unquote(s) }
 
-func (b *builder) part(pt *grammar.Part, pos, end diag.Pos) {
+// part elaborates one built-in part statement in scope sc, its nets already
+// bound.
+func (b *builder) part(sc *scope, st *bodyStmt, nets []NetID) {
 	d := b.r.Design
-	if !b.firstPart.IsValid() {
-		b.firstPart = pos
-	}
+	pt := st.pt
+	pos, end := st.pos, st.end
 	name := pt.Name.Text
+	if sc.prefix != "" {
+		name = sc.prefix + name
+	}
 	word := pt.Kind.Text
-	kind, known := kindOf(word)
-	// Count the nets as used even when the statement cannot be placed, so
-	// that one bad line does not make its neighbours look floating.
-	nets := make([]NetID, len(pt.Pins))
-	for i, pin := range pt.Pins {
-		nets[i] = d.Net(netName(pin.Net.Text), b.pos(pin.Net.Pos), b.nameEnd(pin.Net))
-	}
-	countOnly := func() {
-		for _, n := range nets {
-			d.Nets[n].Pins++
-		}
-		b.r.Incomplete = true
-	}
-	if !known {
-		msg := fmt.Sprintf("unknown part kind %q for %s", word, name)
-		if s := diag.Suggest(word, KindWords); s != "" {
-			msg += fmt.Sprintf("; did you mean %q?", s)
-		} else {
-			msg += "; kinds are " + strings.Join(KindWords, ", ")
-		}
-		b.report("unknown-kind", diag.Error, pos, end, "%s", msg)
-		countOnly()
-		return
-	}
-	if prev, dup := b.partIndex[name]; dup {
-		b.report("duplicate-name", diag.Error, pos, end, "part name %s is already used by the %s on line %d", name, d.Parts[prev].Kind, b.file.Position(d.Parts[prev].Pos).Line)
-		countOnly()
-		return
-	}
+	kind := st.kind
 	if len(pt.Params) > 0 {
 		b.report("syntax", diag.Error, b.pos(pt.Params[0].Pos), end, "%s %s: parameters in [ ] are for block instances, not built-in parts", word, name)
-		countOnly()
+		b.countOnly(nets)
 		return
 	}
-	p := Part{Kind: kind, Name: name, Pos: pos, End: end, Inst: -1, Ideality: 0}
+	p := Part{Kind: kind, Name: name, Pos: pos, End: end, Inst: sc.inst, Ideality: 0}
 
 	// Value first: for a source its unit decides the kind, and so the pins.
 	if !b.value(&p, pt) {
@@ -173,13 +276,24 @@ func (b *builder) part(pt *grammar.Part, pos, end diag.Pos) {
 	}
 	info := p.Kind.Info()
 	if !b.pins(&p, pt, nets, info) {
-		countOnly()
+		b.countOnly(nets)
 		return
 	}
 	if !b.attrs(&p, pt, info) {
 		b.r.Invalid = true
 	}
-	b.partIndex[name] = d.AddPart(p)
+	b.count++
+	d.AddPart(p)
+}
+
+// countOnly counts a statement's nets as used even though the statement
+// cannot be placed, so that one bad line does not make its neighbours look
+// floating.
+func (b *builder) countOnly(nets []NetID) {
+	for _, n := range nets {
+		b.r.Design.Nets[n].Pins++
+	}
+	b.r.Incomplete = true
 }
 
 // pins binds the statement's nets to the kind's pins, by position or name.
@@ -230,7 +344,7 @@ func (b *builder) quantity(v *grammar.Value) (units.Quantity, error) {
 	case v.Word != "":
 		return units.Quantity{}, &units.Error{Text: v.Word, Msg: fmt.Sprintf("%q is a switch state, not a quantity", v.Word)}
 	case v.Expr != nil:
-		return units.Quantity{}, &units.Error{Text: "{…}", Msg: "expressions in braces are not supported by this version of nodal"}
+		return b.eval(v)
 	}
 	q, err := units.Parse(v.Num, v.Unit)
 	if v.Neg {
@@ -239,7 +353,10 @@ func (b *builder) quantity(v *grammar.Value) (units.Quantity, error) {
 	return q, err
 }
 
-func describe(v *grammar.Value) string {
+func (b *builder) describe(v *grammar.Value) string {
+	if v.Expr != nil {
+		return b.exprText(v)
+	}
 	s := v.Num
 	if v.Unit != "" {
 		s += " " + v.Unit
@@ -271,7 +388,7 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 			if v == nil {
 				b.report("missing-value", diag.Error, p.Pos, p.End, "switch %s needs its state: open or closed", p.Name)
 			} else {
-				b.report("bad-value", diag.Error, p.Pos, p.End, "switch %s: %s is not a switch state; write open or closed", p.Name, describe(v))
+				b.report("bad-value", diag.Error, p.Pos, p.End, "switch %s: %s is not a switch state; write open or closed", p.Name, b.describe(v))
 			}
 			return false
 		}
@@ -303,15 +420,15 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 	}
 	q, err := b.quantity(v)
 	if err != nil {
-		rule := "bad-value"
-		if ue, ok := err.(*units.Error); ok && (strings.Contains(ue.Msg, "unit") || strings.Contains(ue.Msg, "prefix")) {
-			rule = "unit-mismatch"
+		rule, silent := errRule(err)
+		if !silent {
+			b.report(rule, diag.Error, p.Pos, p.End, "%s %s: %s", word, p.Name, err)
 		}
-		b.report(rule, diag.Error, p.Pos, p.End, "%s %s: %s", word, p.Name, err)
 		return false
 	}
+	um := b.unitRule(v)
 	if q.Percent {
-		b.report("unit-mismatch", diag.Error, p.Pos, p.End, "%s %s: %s is a percentage; %% belongs to tol", word, p.Name, describe(v))
+		b.report(um, diag.Error, p.Pos, p.End, "%s %s: %s is a percentage; %% belongs to tol", word, p.Name, b.describe(v))
 		return false
 	}
 	if p.Kind == VoltageSource {
@@ -320,10 +437,10 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 		case units.Current:
 			p.Kind = CurrentSource
 		case units.None:
-			b.report("unit-mismatch", diag.Error, p.Pos, p.End, "source %s: %s has no unit; write %s V for a voltage source or %s A for a current source", p.Name, describe(v), describe(v), describe(v))
+			b.report(um, diag.Error, p.Pos, p.End, "source %s: %s has no unit; write %s V for a voltage source or %s A for a current source", p.Name, b.describe(v), b.describe(v), b.describe(v))
 			return false
 		default:
-			b.report("unit-mismatch", diag.Error, p.Pos, p.End, "source %s: %s is a %s; a source is given in V (voltage source) or A (current source)", p.Name, describe(v), q.Dim.Noun())
+			b.report(um, diag.Error, p.Pos, p.End, "source %s: %s is a %s; a source is given in V (voltage source) or A (current source)", p.Name, b.describe(v), q.Dim.Noun())
 			return false
 		}
 		p.Value = q.Value
@@ -331,9 +448,9 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 	}
 	if q.Dim != info.Value {
 		if q.Dim == units.None {
-			b.report("unit-mismatch", diag.Error, p.Pos, p.End, "%s %s: %s has no unit; write %s %s", word, p.Name, describe(v), describe(v), info.Value.Symbol())
+			b.report(um, diag.Error, p.Pos, p.End, "%s %s: %s has no unit; write %s %s", word, p.Name, b.describe(v), b.describe(v), info.Value.Symbol())
 		} else {
-			b.report("unit-mismatch", diag.Error, p.Pos, p.End, "%s %s is given as a %s (%s); a %s takes a %s in %s", word, p.Name, q.Dim.Noun(), describe(v), word, info.Value.Noun(), info.Value.Symbol())
+			b.report(um, diag.Error, p.Pos, p.End, "%s %s is given as a %s (%s); a %s takes a %s in %s", word, p.Name, q.Dim.Noun(), b.describe(v), word, info.Value.Noun(), info.Value.Symbol())
 		}
 		return false
 	}
@@ -402,12 +519,12 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
 		for i, v := range a.Values {
 			q, err := b.quantity(v)
 			if err != nil {
-				rule := "bad-value"
-				if ue, isU := err.(*units.Error); isU && (strings.Contains(ue.Msg, "unit") || strings.Contains(ue.Msg, "prefix")) {
-					rule = "unit-mismatch"
-				}
-				bad(rule, "%s %s", key, err)
 				failed = true
+				if rule, silent := errRule(err); !silent {
+					bad(rule, "%s %s", key, err)
+				} else {
+					ok = false
+				}
 				break
 			}
 			qs[i] = q
@@ -416,10 +533,14 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
 			continue
 		}
 		q := qs[0]
+		um := b.unitRule(a.Values...)
+		if a.At != nil {
+			um = b.unitRule(append(a.Values[:len(a.Values):len(a.Values)], a.At)...)
+		}
 		switch key {
 		case "tol":
 			if !q.Percent {
-				bad("unit-mismatch", "tol %s must be a percentage, e.g. tol 5%%", describe(a.Values[0]))
+				bad(um, "tol %s must be a percentage, e.g. tol 5%%", b.describe(a.Values[0]))
 			} else if q.Value < 0 || q.Value > 1 {
 				bad("bad-value", "tol %s is outside 0 %% … 100 %%", units.FormatPercent(q.Value))
 			} else {
@@ -427,7 +548,7 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
 			}
 		case "dcr", "series":
 			if q.Dim != units.Resistance || q.Percent {
-				bad("unit-mismatch", "%s %s must be a resistance in Ω", key, describe(a.Values[0]))
+				bad(um, "%s %s must be a resistance in Ω", key, b.describe(a.Values[0]))
 			} else if q.Value < 0 {
 				bad("bad-value", "%s %s must not be negative", key, units.Format(q.Value, q.Dim))
 			} else if key == "dcr" {
@@ -437,7 +558,7 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
 			}
 		case "ideality":
 			if q.Dim != units.None || q.Percent {
-				bad("unit-mismatch", "ideality is a plain number (1 to 2 for most junctions), not %s", describe(a.Values[0]))
+				bad(um, "ideality is a plain number (1 to 2 for most junctions), not %s", b.describe(a.Values[0]))
 			} else if q.Value <= 0 {
 				bad("bad-value", "ideality %g must be positive", q.Value)
 			} else {
@@ -445,20 +566,24 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
 			}
 		case "vf":
 			if q.Dim != units.Voltage {
-				bad("unit-mismatch", "vf %s must be a voltage in V", describe(a.Values[0]))
+				bad(um, "vf %s must be a voltage in V", b.describe(a.Values[0]))
 				continue
 			}
 			if a.At == nil {
-				bad("missing-value", "vf needs the current it is measured at: vf %s at 10 mA", describe(a.Values[0]))
+				bad("missing-value", "vf needs the current it is measured at: vf %s at 10 mA", b.describe(a.Values[0]))
 				continue
 			}
 			at, err := b.quantity(a.At)
 			if err != nil {
-				bad("unit-mismatch", "vf … at %s", err)
+				if rule, silent := errRule(err); !silent {
+					bad(rule, "vf … at %s", err)
+				} else {
+					ok = false
+				}
 				continue
 			}
 			if at.Dim != units.Current {
-				bad("unit-mismatch", "vf %s at %s: the operating point must be a current in A", describe(a.Values[0]), describe(a.At))
+				bad(um, "vf %s at %s: the operating point must be a current in A", b.describe(a.Values[0]), b.describe(a.At))
 				continue
 			}
 			if q.Value <= 0 || at.Value <= 0 {
@@ -469,7 +594,7 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
 		case "rated":
 			for i, r := range qs {
 				if r.Percent || !containsDim(info.Ratings, r.Dim) {
-					bad("unit-mismatch", "rated %s: a %s is rated in %s", describe(a.Values[i]), p.Kind, dimList(info.Ratings))
+					bad(um, "rated %s: a %s is rated in %s", b.describe(a.Values[i]), p.Kind, dimList(info.Ratings))
 					continue
 				}
 				if r.Value <= 0 {
@@ -523,4 +648,28 @@ func dimList(list []units.Dim) string {
 		s[i] = d.Symbol() + " (" + d.Noun() + ")"
 	}
 	return strings.Join(s, " or ")
+}
+
+// errRule returns the rule an evaluation error is reported under, and
+// whether it is to be kept quiet (a parameter that already has a finding of
+// its own).
+func errRule(err error) (string, bool) {
+	if ee, ok := err.(*ExprError); ok {
+		return ee.Rule, ee.Rule == ""
+	}
+	if ue, ok := err.(*units.Error); ok && (strings.Contains(ue.Msg, "unit") || strings.Contains(ue.Msg, "prefix")) {
+		return "unit-mismatch", false
+	}
+	return "bad-value", false
+}
+
+// unitRule is the rule for a value in the wrong unit: param-unit when the
+// value was computed by an expression, unit-mismatch when it was written.
+func (b *builder) unitRule(vs ...*grammar.Value) string {
+	for _, v := range vs {
+		if v != nil && v.Expr != nil {
+			return "param-unit"
+		}
+	}
+	return "unit-mismatch"
 }

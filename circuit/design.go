@@ -40,6 +40,10 @@ type Net struct {
 	End  diag.Pos
 	Port bool
 	Pins int32 // how many pins touch the net
+	// Inst is the instance the net is local to (an index into
+	// Design.Instances), or -1 for a net of the top level, a block pin's
+	// net or the ground.
+	Inst int32
 }
 
 // Part is one built-in part. Every built-in kind has two pins; hierarchy is
@@ -80,12 +84,15 @@ type Part struct {
 // Instance is one use of a block, for naming paths and related locations.
 type Instance struct {
 	Path   string   // "CH2" or "BOARD.CH2"
+	Block  string   // the block it instantiates
 	Pos    diag.Pos // the instance statement
 	End    diag.Pos
 	Parent int32 // enclosing instance, -1 at the top
 }
 
-// Design is one checked file (with its includes flattened in).
+// Design is one checked file (with its includes flattened in). Parts and
+// nets inside block instances are named by their instance path: CH2.R,
+// REF.tap, A.B.R.
 type Design struct {
 	File      string
 	Name      string
@@ -111,9 +118,35 @@ func (d *Design) Net(name string, pos, end diag.Pos) NetID {
 		return id
 	}
 	id := NetID(len(d.Nets))
-	d.Nets = append(d.Nets, Net{Name: name, Pos: pos, End: end})
+	d.Nets = append(d.Nets, Net{Name: name, Pos: pos, End: end, Inst: -1})
 	d.netIndex[name] = id
 	return id
+}
+
+// localNet adds a net local to instance inst. Its name is the instance path
+// and the net's name in the block, so it cannot meet a top-level net unless
+// a quoted top-level name spells the same path; then the two stay apart
+// and only the first is found by name.
+func (d *Design) localNet(name string, pos, end diag.Pos, inst int32) NetID {
+	id := NetID(len(d.Nets))
+	d.Nets = append(d.Nets, Net{Name: name, Pos: pos, End: end, Inst: inst})
+	if _, taken := d.netIndex[name]; !taken {
+		d.netIndex[name] = id
+	}
+	return id
+}
+
+// InstanceRelated returns the instance statements that enclose instance
+// inst, innermost first, as related locations: "in CH2 (block led_channel)".
+// It returns nil for -1, the top level.
+func (d *Design) InstanceRelated(inst int32) []diag.Related {
+	var out []diag.Related
+	for inst >= 0 && int(inst) < len(d.Instances) {
+		in := &d.Instances[inst]
+		out = append(out, diag.Related{Pos: in.Pos, End: in.End, Message: "in " + in.Path + " (block " + in.Block + ")"})
+		inst = in.Parent
+	}
+	return out
 }
 
 // LookupNet returns the id of the named net, or NoNet.

@@ -3,6 +3,7 @@ package rules
 import (
 	"strings"
 
+	"nodal/circuit"
 	"nodal/diag"
 )
 
@@ -28,7 +29,7 @@ is rarely meant.`,
 			key := strings.ToLower(n.Name)
 			if f, ok := nets[key]; ok && f.name != n.Name {
 				p.Report(diag.Diagnostic{Pos: n.Pos, End: n.End, Message: "net " + netName(d, i32(i)) + " differs from net " + f.name + " only in letter case; names are case-sensitive, so they are two nets",
-					Related: []diag.Related{{Pos: f.pos, Message: "net " + f.name + " is first used here"}}})
+					Related: append([]diag.Related{{Pos: f.pos, Message: "net " + f.name + " is first used here"}}, relatedForNet(p, i32(i))...)})
 				continue
 			}
 			if _, ok := nets[key]; !ok {
@@ -41,7 +42,7 @@ is rarely meant.`,
 			key := strings.ToLower(q.Name)
 			if f, ok := parts[key]; ok && f.name != q.Name {
 				p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Message: "part " + q.Name + " differs from part " + f.name + " only in letter case",
-					Related: []diag.Related{{Pos: f.pos, Message: f.name + " is here"}}})
+					Related: append([]diag.Related{{Pos: f.pos, Message: f.name + " is here"}}, relatedForPart(p, circuit.PartID(i))...)})
 				continue
 			}
 			if _, ok := parts[key]; !ok {

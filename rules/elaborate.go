@@ -64,3 +64,49 @@ A design has exactly one 0 V reference net.`)
 	NoGround = fromBuild("no-ground", diag.Error, `a design with parts but no ground
 Without a 0 V reference no net voltage is defined. Add "ground NAME".`)
 )
+
+// Hierarchy: blocks, instances, parameters and includes.
+var (
+	UnknownBlock = fromBuild("unknown-block", diag.Error, `an instance of a block that is not defined
+The first word of a statement is a built-in kind or the name of a block
+defined in the file or in a file it includes. A near miss gets a "did you
+mean".`)
+
+	BlockPin = fromBuild("block-pin", diag.Error, `an instance that binds the wrong pins of its block
+An instance gives one net for each pin in the block's header, in order or
+by name (top=vin, tap=vref), never mixing the two. A block's header lists
+each pin once.`)
+
+	UnusedBlock = fromBuild("unused-block", diag.Note, `a block that no instance uses
+Reported in files that define blocks and also have parts of their own; a
+file of blocks alone is a library and its blocks are meant for others.`)
+
+	RecursiveBlock = fromBuild("recursive-block", diag.Error, `a block that instantiates itself
+A block that contains an instance of itself, directly or through other
+blocks, would expand without end; the instance that closes the cycle is
+reported and not expanded.`)
+
+	UnknownParam = fromBuild("unknown-param", diag.Error, `a parameter the block does not have
+An instance can set only the parameters in its block's header, and an
+expression can name only the parameters of the block it is written in.`)
+
+	MissingParam = fromBuild("missing-param", diag.Error, `a block parameter without a value
+A parameter with no default in the block's header must be given at every
+instance: [name = value].`)
+
+	ParamUnit = fromBuild("param-unit", diag.Error, `units that do not fit in a parameter or expression
+A parameter is given in the unit of its default; a sum adds like to like; an
+expression's result must be in the unit of the place it is used. A
+resistance divided by a current is no part's value; a voltage divided by a
+current is a resistance.`)
+
+	ExpansionLimit = fromBuild("expansion-limit", diag.Error, `a design that expands past the limits
+Blocks that nest deeper than the depth limit (default 64), or a design that
+would expand to more parts and instances than the size limit (default 10
+million), are refused at the instance that crosses the limit, before any
+memory is spent on it. Raise the limits with --max-depth and --max-parts.`)
+
+	BadInclude = fromBuild("bad-include", diag.Error, `an include that cannot be followed
+The included file must exist (its path is relative to the including file)
+and must not include, directly or not, the file that includes it.`)
+)

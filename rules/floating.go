@@ -1,6 +1,8 @@
 package rules
 
 import (
+	"strings"
+
 	"nodal/circuit"
 	"nodal/diag"
 )
@@ -16,6 +18,11 @@ or a forgotten connection. Declare nets that leave the file with "port" to
 allow a single pin. A close name elsewhere in the design gets a "did you
 mean".`,
 	Run: func(p *Pass) (any, error) {
+		for _, d := range p.Build.Diags {
+			if d.Rule == "floating-net" { // a block pin nothing inside touches
+				p.Report(d)
+			}
+		}
 		t := topo(p)
 		d := p.Design
 		var names []string
@@ -28,26 +35,97 @@ mean".`,
 			}
 		}
 		owner := pinOwners(d, t.Floating)
-		for k, n := range t.Floating {
+		shared := sharedFloating(d, t.Floating)
+		k := 0
+		for _, n := range t.Floating {
 			net := &d.Nets[n]
+			if g, ok := shared[net.Pos]; ok {
+				if g.nets[0] == n {
+					reportShared(p, g, owner)
+				}
+				continue
+			}
 			msg := "net " + netName(d, n) + " touches only one pin"
 			if o, ok := owner[n]; ok {
 				part := &d.Parts[o.part]
 				msg += " (" + part.Name + " " + part.Kind.Info().Pins[o.pin] + ")"
 			}
 			// Suggestions compare against every net; keep that bounded.
+			s := ""
 			if k < 100 {
-				if s := diag.Suggest(net.Name, names); s != "" {
-					msg += "; did you mean " + s + "?"
-				}
+				s = diag.Suggest(net.Name, names)
 			}
-			if k >= 100 || diag.Suggest(net.Name, names) == "" {
+			k++
+			if s != "" {
+				msg += "; did you mean " + s + "?"
+			} else {
 				msg += "; connect it, or declare it with port if it leaves the file"
 			}
-			p.Reportf(net.Pos, net.End, "%s", msg)
+			p.Report(diag.Diagnostic{Pos: net.Pos, End: net.End, Message: msg, Related: relatedForNet(p, n)})
 		}
 		return nil, nil
 	},
+}
+
+// floatGroup is one net of a block that floats in every instance.
+type floatGroup struct {
+	block string
+	local string // the net's name inside the block
+	nets  []circuit.NetID
+}
+
+// sharedFloating groups floating nets local to instances by the place they
+// are written. When every instance of the block leaves that net floating,
+// the group is reported once, at the block.
+func sharedFloating(d *circuit.Design, floating []circuit.NetID) map[diag.Pos]*floatGroup {
+	groups := map[diag.Pos]*floatGroup{}
+	for _, n := range floating {
+		net := &d.Nets[n]
+		if net.Inst < 0 {
+			continue
+		}
+		g := groups[net.Pos]
+		if g == nil {
+			in := &d.Instances[net.Inst]
+			g = &floatGroup{block: in.Block, local: strings.TrimPrefix(net.Name, in.Path+".")}
+			groups[net.Pos] = g
+		}
+		g.nets = append(g.nets, n)
+	}
+	if len(groups) == 0 {
+		return nil
+	}
+	uses := map[string]int{}
+	for i := range d.Instances {
+		uses[d.Instances[i].Block]++
+	}
+	for pos, g := range groups {
+		if len(g.nets) < 2 || len(g.nets) != uses[g.block] {
+			delete(groups, pos)
+		}
+	}
+	return groups
+}
+
+func reportShared(p *Pass, g *floatGroup, owner map[circuit.NetID]pinRef) {
+	d := p.Design
+	first := &d.Nets[g.nets[0]]
+	msg := "net " + g.local + " of block " + g.block + " touches only one pin in every instance (" + netList(d, g.nets, 4) + ")"
+	if o, ok := owner[g.nets[0]]; ok {
+		part := &d.Parts[o.part]
+		in := &d.Instances[first.Inst]
+		msg += ": " + strings.TrimPrefix(part.Name, in.Path+".") + " " + part.Kind.Info().Pins[o.pin]
+	}
+	msg += "; connect it inside the block, or make it a pin of the block"
+	dg := diag.Diagnostic{Pos: first.Pos, End: first.End, Message: msg}
+	for i, n := range g.nets {
+		if i == 8 {
+			break
+		}
+		in := &d.Instances[d.Nets[n].Inst]
+		dg.Related = append(dg.Related, diag.Related{Pos: in.Pos, End: in.End, Message: "in " + in.Path + " (block " + in.Block + ")"})
+	}
+	p.Report(dg)
 }
 
 type pinRef struct {

@@ -7,6 +7,8 @@ import "sort"
 var All = []*Analyzer{
 	Syntax, UnknownKind, PinCount, MissingValue, UnitMismatch, BadValue,
 	BadAttribute, DuplicateName, ExtraGround, NoGround,
+	UnknownBlock, BlockPin, UnusedBlock, RecursiveBlock, UnknownParam,
+	MissingParam, ParamUnit, ExpansionLimit, BadInclude,
 	FloatingNet, NoDCPath, SourceLoop, CurrentCutset, ShortedPart, CaseClash,
 	AllowReason, UnusedAllow, BadAllow,
 }

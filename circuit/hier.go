@@ -1,0 +1,878 @@
+package circuit
+
+// hier.go: blocks, instances, parameters and includes.
+//
+// Elaboration runs in four steps, each linear in what it walks:
+//
+//  1. collect: split each file into its top-level statements and its block
+//     definitions, following includes (each file is read and parsed once).
+//  2. prepare: resolve every statement of every block once: its kind or
+//     block, its nets (a block pin, the ground, or a net local to the
+//     block), its pin and parameter bindings. Findings about a block's text
+//     are made here, once, whatever the number of instances.
+//  3. measure: the expanded size and depth of each block, bottom-up, with
+//     recursion found on the way. Limits are checked against these numbers
+//     before anything is expanded.
+//  4. expand: top-level statements in order, each instance walking its
+//     block's prepared statements with its pin nets and parameter values.
+//     Per instance this allocates its path, its pin, local-net and
+//     parameter slices, and the parts themselves: nothing is re-parsed and
+//     no name is built more than once.
+
+import (
+	"errors"
+	"fmt"
+	"io/fs"
+	"math"
+	"path/filepath"
+	"strings"
+
+	"nodal/diag"
+	"nodal/grammar"
+	"nodal/units"
+)
+
+// Default limits on expansion.
+const (
+	DefaultMaxDepth = 64
+	DefaultMaxParts = 10_000_000
+)
+
+// Options change elaboration.
+type Options struct {
+	// ReadFile reads an included file. Nil refuses includes.
+	ReadFile func(path string) ([]byte, error)
+	// MaxDepth bounds the nesting of instances; 0 means DefaultMaxDepth.
+	MaxDepth int
+	// MaxParts bounds the parts and instances the design expands to; 0
+	// means DefaultMaxParts.
+	MaxParts int64
+}
+
+// blockDef is a block definition, or (isTop) the top level of the checked
+// file seen as a block without pins or parameters.
+type blockDef struct {
+	name     string
+	file     *diag.File
+	pos, end diag.Pos // the header line
+	nameEnd  diag.Pos
+	header   *grammar.Block
+	isTop    bool
+	lib      bool // defined in an included file
+	closed   bool
+
+	pins     []string
+	pinPos   []diag.Pos
+	pinIndex map[string]int
+	params   []paramDef
+	parIndex map[string]int
+	body     []*bodyStmt
+	locals   []string // nets local to the block, by first use
+
+	state     uint8 // measure: 0 new, 1 on the stack, 2 done
+	recursive bool
+	size      int64 // parts and instances one instance makes, itself included
+	depth     int   // 1 for a block that instantiates no block
+	used      bool  // named by some instance statement
+	expanded  bool
+}
+
+type paramDef struct {
+	name     string
+	def      *grammar.Value // nil when the parameter has no default
+	pos, end diag.Pos
+	dim      units.Dim // the default's unit, when known
+	percent  bool
+	dimKnown bool
+}
+
+// Net references in a prepared statement.
+const (
+	refNamed  = iota // a top-level net, by name
+	refPin           // a pin of the enclosing block
+	refGround        // the design's ground
+	refLocal         // a net local to the block
+)
+
+type netRef struct {
+	kind uint8
+	idx  int32
+	name string
+}
+
+// bodyStmt is one prepared part or instance statement.
+type bodyStmt struct {
+	pt       *grammar.Part
+	pos, end diag.Pos
+	kind     Kind
+	blk      *blockDef // set for an instance
+	ok       bool      // false: the statement cannot be placed
+	nets     []netRef  // one per written pin
+	bind     []int     // instance: for each pin of blk, the index in nets
+	assign   []int     // instance: for each parameter of blk, the index in pt.Params, or -1
+	valueErr bool      // instance: carries a value or attributes it cannot take
+}
+
+// scope is one block instance being expanded (or the top level).
+type scope struct {
+	blk    *blockDef
+	prefix string // "CH2." inside instance CH2; "" at the top
+	pins   []NetID
+	local  []NetID
+	env    []binding
+	inst   int32
+	depth  int
+}
+
+type binding struct {
+	q   units.Quantity
+	set bool
+}
+
+// collect splits a parsed file into its top-level statements and its
+// blocks, and follows its includes. stack holds the files being included,
+// outermost first, to find cycles.
+func (b *builder) collect(ast *grammar.File, stack []string) []*grammar.Statement {
+	var top []*grammar.Statement
+	var open *blockDef
+	lib := len(stack) > 1
+	for _, st := range ast.Stmts {
+		pos, end := b.pos(st.Pos), b.pos(st.EndPos)
+		switch {
+		case st.Block != nil:
+			if open != nil {
+				b.report("syntax", diag.Error, open.pos, open.end, "block %s is not closed before block %s starts (line %d); blocks do not nest: add a line with } after its last statement", open.name, st.Block.Name.Text, b.file.Position(pos).Line)
+				b.r.Incomplete = true
+			}
+			open = b.define(st.Block, pos, end, lib)
+		case st.Close != nil:
+			if open == nil {
+				b.report("syntax", diag.Error, pos, end, "} closes no block")
+				b.r.Incomplete = true
+				continue
+			}
+			open.closed = true
+			open = nil
+		case st.Include != nil:
+			if open != nil {
+				b.report("syntax", diag.Error, pos, end, "include belongs at the top level of a file, not inside block %s", open.name)
+				continue
+			}
+			b.include(st.Include, pos, end, stack)
+		case open != nil && st.Part != nil:
+			open.body = append(open.body, &bodyStmt{pt: st.Part, pos: pos, end: end})
+		case open != nil:
+			what := "ground"
+			switch {
+			case st.Port != nil:
+				what = "port"
+			case st.Design != nil:
+				what = "design"
+			}
+			msg := what + " belongs at the top level, not inside block " + open.name
+			if what == "ground" {
+				msg += "; inside a block the design's ground net is reached by its name"
+			} else if what == "port" {
+				msg += "; a block's pins are its ports"
+			}
+			b.report("syntax", diag.Error, pos, end, "%s", msg)
+		default:
+			top = append(top, st)
+		}
+	}
+	if open != nil {
+		b.report("syntax", diag.Error, open.pos, open.end, "block %s is not closed; add a line with } after its last statement", open.name)
+		b.r.Incomplete = true
+	}
+	return top
+}
+
+// define records a block header.
+func (b *builder) define(h *grammar.Block, pos, end diag.Pos, lib bool) *blockDef {
+	bd := &blockDef{name: h.Name.Text, file: b.file, pos: pos, end: end, nameEnd: b.nameEnd(h.Name), header: h, lib: lib}
+	if _, builtin := kindOf(bd.name); builtin {
+		b.report("duplicate-name", diag.Error, pos, end, "block %s has the name of a built-in kind; choose another name", bd.name)
+		return bd // defined, but never found by name
+	}
+	if prev, dup := b.blocks[bd.name]; dup {
+		b.report("duplicate-name", diag.Error, pos, end, "block %s is already defined at %s", bd.name, b.where(prev.pos))
+		return bd
+	}
+	b.blocks[bd.name] = bd
+	b.blockList = append(b.blockList, bd)
+	return bd
+}
+
+// include reads, parses and collects an included file.
+func (b *builder) include(inc *grammar.Include, pos, end diag.Pos, stack []string) {
+	rel := unquote(inc.Path.Text)
+	if strings.TrimSpace(rel) == "" {
+		b.report("bad-include", diag.Error, pos, end, "include needs a file name")
+		b.r.Incomplete = true
+		return
+	}
+	path := filepath.FromSlash(rel)
+	if !filepath.IsAbs(path) {
+		path = filepath.Join(filepath.Dir(b.file.Name()), path)
+	}
+	path = filepath.Clean(path)
+	for i, s := range stack {
+		if s == path {
+			chain := append(append([]string{}, stack[i:]...), path)
+			b.report("bad-include", diag.Error, pos, end, "include cycle: %s", strings.Join(chain, " → "))
+			b.r.Incomplete = true
+			return
+		}
+	}
+	if b.included[path] {
+		return // already brought in by another include
+	}
+	if b.opt.ReadFile == nil || b.fset == nil {
+		b.report("bad-include", diag.Error, pos, end, "cannot include %s: this check reads no files", rel)
+		b.r.Incomplete = true
+		return
+	}
+	src, err := b.opt.ReadFile(path)
+	if err != nil {
+		msg := fmt.Sprintf("cannot read included file %s: %v", path, unwrapPath(err))
+		if errors.Is(err, fs.ErrNotExist) {
+			msg = fmt.Sprintf("included file %s does not exist (an include path is relative to the file that includes it)", path)
+		}
+		b.report("bad-include", diag.Error, pos, end, "%s", msg)
+		b.r.Incomplete = true
+		return
+	}
+	b.included[path] = true
+	file := b.fset.AddFile(path, src)
+	b.srcs[file] = src
+	ast := grammar.Parse(path, src)
+	saved := b.file
+	b.file = file
+	b.syntaxErrors(ast)
+	b.collect(ast, append(stack, path)) // top-level statements of a library are its own
+	b.file = saved
+}
+
+func unwrapPath(err error) error {
+	var pe *fs.PathError
+	if errors.As(err, &pe) {
+		return pe.Err
+	}
+	return err
+}
+
+// prepare resolves a block's header and statements once.
+func (b *builder) prepare(bd *blockDef) {
+	saved := b.file
+	b.file = bd.file
+	defer func() { b.file = saved }()
+	if h := bd.header; h != nil {
+		bd.pinIndex = make(map[string]int, len(h.Pins))
+		for _, pn := range h.Pins {
+			name := netName(pn.Text)
+			if _, dup := bd.pinIndex[name]; dup {
+				b.report("block-pin", diag.Error, b.pos(pn.Pos), b.nameEnd(pn), "block %s lists pin %s twice", bd.name, name)
+				continue
+			}
+			bd.pinIndex[name] = len(bd.pins)
+			bd.pins = append(bd.pins, name)
+			bd.pinPos = append(bd.pinPos, b.pos(pn.Pos))
+		}
+		bd.parIndex = make(map[string]int, len(h.Params))
+		for _, a := range h.Params {
+			name := a.Name.Text
+			if _, dup := bd.parIndex[name]; dup {
+				b.report("duplicate-name", diag.Error, b.pos(a.Pos), b.pos(a.EndPos), "block %s lists parameter %s twice", bd.name, name)
+				continue
+			}
+			bd.parIndex[name] = len(bd.params)
+			bd.params = append(bd.params, paramDef{name: name, def: a.Value, pos: b.pos(a.Pos), end: b.pos(a.EndPos)})
+		}
+		b.defaultUnits(bd)
+	}
+	localIndex := map[string]int{}
+	names := map[string]*bodyStmt{}
+	pinUsed := make([]bool, len(bd.pins))
+	for _, st := range bd.body {
+		pt := st.pt
+		st.ok = true
+		st.nets = make([]netRef, len(pt.Pins))
+		for i, pin := range pt.Pins {
+			name := netName(pin.Net.Text)
+			r := netRef{kind: refNamed, name: name}
+			if !bd.isTop {
+				if j, isPin := bd.pinIndex[name]; isPin {
+					r = netRef{kind: refPin, idx: int32(j)}
+					pinUsed[j] = true
+				} else if name == b.groundName && name != "" {
+					r = netRef{kind: refGround}
+				} else {
+					j, seen := localIndex[name]
+					if !seen {
+						j = len(bd.locals)
+						localIndex[name] = j
+						bd.locals = append(bd.locals, name)
+					}
+					r = netRef{kind: refLocal, idx: int32(j)}
+				}
+			}
+			st.nets[i] = r
+		}
+		word := pt.Kind.Text
+		if k, builtin := kindOf(word); builtin {
+			st.kind = k
+		} else if c, isBlock := b.blocks[word]; isBlock {
+			st.blk = c
+			c.used = true
+		} else {
+			b.unknownKind(bd, st)
+			st.ok = false
+			continue
+		}
+		if prev, dup := names[pt.Name.Text]; dup {
+			what := prev.pt.Kind.Text
+			if prev.blk == nil {
+				what = prev.kind.String()
+			}
+			b.report("duplicate-name", diag.Error, st.pos, st.end, "part name %s is already used by the %s on line %d", pt.Name.Text, what, b.file.Position(prev.pos).Line)
+			st.ok = false
+			continue
+		}
+		names[pt.Name.Text] = st
+		if st.blk != nil {
+			st.ok = b.bindInstance(bd, st)
+		}
+	}
+	for j, used := range pinUsed {
+		if !used {
+			b.report("floating-net", diag.Warning, bd.pinPos[j], bd.pinPos[j]+diag.Pos(len(bd.pins[j])), "pin %s of block %s is connected to nothing inside the block; connect it, or remove it from the pin list", bd.pins[j], bd.name)
+		}
+	}
+}
+
+// defaultUnits evaluates the parameter defaults once, in order, so that an
+// instance's value can be checked against the default's unit and a bad
+// default is reported once at the block.
+func (b *builder) defaultUnits(bd *blockDef) {
+	env := make([]binding, len(bd.params))
+	sc := &scope{blk: bd, env: env, inst: -1}
+	saved := b.sc
+	b.sc = sc
+	defer func() { b.sc = saved }()
+	for i := range bd.params {
+		pd := &bd.params[i]
+		if pd.def == nil {
+			continue
+		}
+		if pd.def.Word != "" {
+			b.report("param-unit", diag.Error, pd.pos, pd.end, "parameter %s of block %s: %s is a switch state; parameters are quantities", pd.name, bd.name, pd.def.Word)
+			continue
+		}
+		q, err := b.quantity(pd.def)
+		if err != nil {
+			if rule, silent := errRule(err); !silent {
+				b.report(rule, diag.Error, pd.pos, pd.end, "parameter %s of block %s: %s", pd.name, bd.name, err)
+			}
+			continue
+		}
+		pd.dim, pd.percent, pd.dimKnown = q.Dim, q.Percent, true
+		env[i] = binding{q, true}
+	}
+}
+
+// unknownKind reports a statement whose kind is neither built in nor a
+// block.
+func (b *builder) unknownKind(bd *blockDef, st *bodyStmt) {
+	word, name := st.pt.Kind.Text, st.pt.Name.Text
+	blockNames := make([]string, 0, len(b.blockList))
+	for _, c := range b.blockList {
+		blockNames = append(blockNames, c.name)
+	}
+	if s := diag.Suggest(word, blockNames); s != "" {
+		b.report("unknown-block", diag.Error, st.pos, st.end, "unknown block %q for %s; did you mean block %s?", word, name, s)
+		return
+	}
+	if s := diag.Suggest(word, KindWords); s != "" {
+		b.report("unknown-kind", diag.Error, st.pos, st.end, "unknown part kind %q for %s; did you mean %q?", word, name, s)
+		return
+	}
+	if len(blockNames) > 0 || len(st.pt.Params) > 0 {
+		msg := fmt.Sprintf("no block or part kind is named %q (for %s)", word, name)
+		if len(blockNames) > 0 {
+			msg += "; blocks are " + listWords(blockNames, 10)
+		} else {
+			msg += "; no block is defined or included"
+		}
+		b.report("unknown-block", diag.Error, st.pos, st.end, "%s", msg)
+		return
+	}
+	b.report("unknown-kind", diag.Error, st.pos, st.end, "unknown part kind %q for %s; kinds are %s", word, name, strings.Join(KindWords, ", "))
+}
+
+func listWords(ws []string, max int) string {
+	if len(ws) > max {
+		return strings.Join(ws[:max], ", ") + fmt.Sprintf(" and %d more", len(ws)-max)
+	}
+	return strings.Join(ws, ", ")
+}
+
+// bindInstance binds an instance statement's nets to the block's pins and
+// its parameter values to the block's parameters.
+func (b *builder) bindInstance(bd *blockDef, st *bodyStmt) bool {
+	c, pt := st.blk, st.pt
+	inst := pt.Name.Text
+	ok := true
+	pinList := "(" + strings.Join(c.pins, ", ") + ")"
+	if len(pt.Pins) != len(c.pins) {
+		b.report("block-pin", diag.Error, st.pos, st.end, "instance %s binds %d net(s); block %s has %d pin(s): %s", inst, len(pt.Pins), c.name, len(c.pins), pinList)
+		return false
+	}
+	st.bind = make([]int, len(c.pins))
+	for j := range st.bind {
+		st.bind[j] = -1
+	}
+	named := len(pt.Pins) > 0 && pt.Pins[0].Label != nil
+	for i, pin := range pt.Pins {
+		slot := i
+		if (pin.Label != nil) != named {
+			b.report("block-pin", diag.Error, st.pos, st.end, "instance %s mixes named and positional pins; name every pin (%s=…) or none", inst, c.pins[0])
+			return false
+		}
+		if pin.Label != nil {
+			j, found := c.pinIndex[pin.Label.Text]
+			if !found {
+				msg := fmt.Sprintf("block %s has no pin named %q; its pins are %s", c.name, pin.Label.Text, pinList)
+				if s := diag.Suggest(pin.Label.Text, c.pins); s != "" {
+					msg += fmt.Sprintf("; did you mean %s?", s)
+				}
+				b.report("block-pin", diag.Error, st.pos, st.end, "instance %s: %s", inst, msg)
+				return false
+			}
+			slot = j
+		}
+		if st.bind[slot] >= 0 {
+			b.report("block-pin", diag.Error, st.pos, st.end, "instance %s binds pin %s of block %s twice", inst, c.pins[slot], c.name)
+			return false
+		}
+		st.bind[slot] = i
+	}
+	if pt.Value != nil || len(pt.Attrs) > 0 {
+		b.report("unknown-param", diag.Error, st.pos, st.end, "instance %s of block %s takes no value or attributes after its pins; give its parameters in [ ]: %s", inst, c.name, paramList(c))
+		st.valueErr = true
+	}
+	st.assign = make([]int, len(c.params))
+	for j := range st.assign {
+		st.assign[j] = -1
+	}
+	for i, a := range pt.Params {
+		name := a.Name.Text
+		j, found := c.parIndex[name]
+		apos, aend := b.pos(a.Pos), b.pos(a.EndPos)
+		switch {
+		case !found:
+			msg := fmt.Sprintf("block %s has no parameter %s", c.name, name)
+			names := make([]string, len(c.params))
+			for k := range c.params {
+				names[k] = c.params[k].name
+			}
+			if s := diag.Suggest(name, names); s != "" {
+				msg += fmt.Sprintf("; did you mean %s?", s)
+			} else if len(names) > 0 {
+				msg += "; its parameters are " + paramList(c)
+			} else {
+				msg += "; it takes none"
+			}
+			b.report("unknown-param", diag.Error, apos, aend, "instance %s: %s", inst, msg)
+		case st.assign[j] >= 0:
+			b.report("duplicate-name", diag.Error, apos, aend, "instance %s gives parameter %s twice", inst, name)
+		case a.Value == nil:
+			b.report("missing-param", diag.Error, apos, aend, "instance %s: parameter %s needs a value (%s = …)", inst, name, name)
+		default:
+			st.assign[j] = i
+		}
+	}
+	for j := range c.params {
+		if st.assign[j] < 0 && c.params[j].def == nil {
+			b.report("missing-param", diag.Error, st.pos, st.end, "instance %s of block %s needs parameter %s, which has no default: add [%s = …]", inst, c.name, c.params[j].name, c.params[j].name)
+		}
+	}
+	return ok
+}
+
+func paramList(c *blockDef) string {
+	if len(c.params) == 0 {
+		return "none"
+	}
+	s := make([]string, len(c.params))
+	for i, p := range c.params {
+		s[i] = p.name
+	}
+	return listWords(s, 12)
+}
+
+func addSat(a, b int64) int64 {
+	if a > math.MaxInt64-b {
+		return math.MaxInt64
+	}
+	return a + b
+}
+
+// measure computes the expanded size and depth of a block, reporting the
+// instance statement that closes a cycle of blocks.
+func (b *builder) measure(bd *blockDef, stack []*blockDef) {
+	if bd.state != 0 {
+		return
+	}
+	bd.state = 1
+	stack = append(stack, bd)
+	size, depth := int64(1), 0
+	for _, st := range bd.body {
+		if !st.ok {
+			continue
+		}
+		c := st.blk
+		if c == nil {
+			size = addSat(size, 1)
+			continue
+		}
+		if c.state == 1 {
+			var chain []string
+			for i, s := range stack {
+				if s == c {
+					for _, t := range stack[i:] {
+						t.recursive = true
+						chain = append(chain, t.name)
+					}
+					break
+				}
+			}
+			chain = append(chain, c.name)
+			saved := b.file
+			b.file = bd.file
+			what := "instantiates itself"
+			if len(chain) > 2 {
+				what = "instantiates itself through " + strings.Join(chain[1:len(chain)-1], ", ")
+			}
+			b.report("recursive-block", diag.Error, st.pos, st.end, "block %s %s (%s): its expansion would never end", c.name, what, strings.Join(chain, " → "))
+			b.file = saved
+			st.ok = false
+			b.r.Incomplete = true
+			continue
+		}
+		b.measure(c, stack)
+		if c.recursive {
+			st.ok = false
+			b.r.Incomplete = true
+			continue
+		}
+		size = addSat(size, c.size)
+		depth = max(depth, c.depth)
+	}
+	bd.size, bd.depth = size, depth+1
+	bd.state = 2
+}
+
+// stmt elaborates one prepared statement in scope sc.
+func (b *builder) stmt(sc *scope, st *bodyStmt) {
+	b.stmtSeen = b.stmtSeen[:0]
+	b.sc = sc
+	defer func() { b.sc = nil }()
+	nets := make([]NetID, len(st.nets))
+	for i := range st.nets {
+		nets[i] = b.net(sc, st, i)
+	}
+	switch {
+	case !st.ok:
+		b.countOnly(nets)
+	case st.blk != nil:
+		b.instance(sc, st, nets)
+		b.sc = sc
+	default:
+		b.part(sc, st, nets)
+	}
+}
+
+// net returns the net of a statement's i-th written pin in scope sc.
+func (b *builder) net(sc *scope, st *bodyStmt, i int) NetID {
+	d := b.r.Design
+	r := st.nets[i]
+	n := st.pt.Pins[i].Net
+	switch r.kind {
+	case refPin:
+		return sc.pins[r.idx]
+	case refGround:
+		return d.Net(b.groundName, b.pos(n.Pos), b.nameEnd(n))
+	case refLocal:
+		id := sc.local[r.idx]
+		if id == NoNet {
+			id = d.localNet(sc.prefix+sc.blk.locals[r.idx], b.pos(n.Pos), b.nameEnd(n), sc.inst)
+			sc.local[r.idx] = id
+		}
+		return id
+	}
+	return d.Net(r.name, b.pos(n.Pos), b.nameEnd(n))
+}
+
+// instance expands one instance statement.
+func (b *builder) instance(parent *scope, st *bodyStmt, nets []NetID) {
+	d := b.r.Design
+	c := st.blk
+	path := parent.prefix + st.pt.Name.Text
+	if parent.depth+c.depth > b.opt.MaxDepth {
+		b.report("expansion-limit", diag.Error, st.pos, st.end, "instance %s of block %s nests blocks %d deep, over the limit of %d (--max-depth)", path, c.name, parent.depth+c.depth, b.opt.MaxDepth)
+		b.countOnly(nets)
+		return
+	}
+	if addSat(b.count, c.size) > b.opt.MaxParts {
+		b.report("expansion-limit", diag.Error, st.pos, st.end, "instance %s of block %s expands to %s parts and instances; with the %s before it that is over the limit of %s (--max-parts)", path, c.name, count(c.size), count(b.count), count(b.opt.MaxParts))
+		b.countOnly(nets)
+		return
+	}
+	b.count++
+	c.expanded = true
+	sc := &scope{blk: c, prefix: path + ".", inst: int32(len(d.Instances)), depth: parent.depth + 1}
+	d.Instances = append(d.Instances, Instance{Path: path, Block: c.name, Pos: st.pos, End: st.end, Parent: parent.inst})
+	sc.pins = make([]NetID, len(c.pins))
+	for j, i := range st.bind {
+		sc.pins[j] = nets[i]
+	}
+	sc.local = make([]NetID, len(c.locals))
+	for i := range sc.local {
+		sc.local[i] = NoNet
+	}
+	sc.env = b.params(parent, st, c)
+	if st.valueErr {
+		b.r.Invalid = true
+	}
+	saved := b.file
+	b.file = c.file
+	for _, s := range c.body {
+		b.stmt(sc, s)
+	}
+	b.file = saved
+}
+
+// params evaluates an instance's parameters: given values in the scope of
+// the instance statement, defaults in the block's own scope (so a default
+// may use the parameters before it).
+func (b *builder) params(parent *scope, st *bodyStmt, c *blockDef) []binding {
+	env := make([]binding, len(c.params))
+	for j := range c.params {
+		pd := &c.params[j]
+		if i := st.assign[j]; i >= 0 {
+			a := st.pt.Params[i]
+			b.sc = parent
+			q, ok := b.paramValue(a.Value, b.pos(a.Pos), b.pos(a.EndPos), st.pt.Name.Text, pd)
+			if ok && pd.dimKnown && (q.Dim != pd.dim || q.Percent != pd.percent) {
+				b.report("param-unit", diag.Error, b.pos(a.Pos), b.pos(a.EndPos), "instance %s: parameter %s of block %s is a %s (default %s), but is given %s, a %s", parent.prefix+st.pt.Name.Text, pd.name, c.name, nounOf(pd.dim, pd.percent), b.describe(pd.def), b.describe(a.Value), nounOf(q.Dim, q.Percent))
+				ok = false
+			}
+			env[j] = binding{q, ok}
+			continue
+		}
+		if pd.def == nil {
+			continue // missing-param has said it
+		}
+		saved := b.file
+		b.file = c.file
+		b.sc = &scope{blk: c, env: env, inst: -1}
+		q, err := b.quantity(pd.def)
+		b.file = saved
+		// a bad default was reported once, at the block
+		env[j] = binding{q, err == nil}
+	}
+	b.sc = parent
+	return env
+}
+
+// paramValue evaluates a parameter value given at an instance.
+func (b *builder) paramValue(v *grammar.Value, pos, end diag.Pos, inst string, pd *paramDef) (units.Quantity, bool) {
+	if v.Word != "" {
+		b.report("param-unit", diag.Error, pos, end, "instance %s: parameter %s: %s is a switch state; parameters are quantities", inst, pd.name, v.Word)
+		return units.Quantity{}, false
+	}
+	q, err := b.quantity(v)
+	if err != nil {
+		if rule, silent := errRule(err); !silent {
+			b.report(rule, diag.Error, pos, end, "instance %s: parameter %s: %s", inst, pd.name, err)
+		}
+		return q, false
+	}
+	return q, true
+}
+
+func nounOf(d units.Dim, percent bool) string {
+	if percent {
+		return "percentage"
+	}
+	return d.Noun()
+}
+
+// count writes a number of parts: 1200, 1.5 million, 10 billion.
+func count(n int64) string {
+	switch {
+	case n == math.MaxInt64:
+		return "more than 9 × 10¹⁸"
+	case n >= 1e9 && n%1e9 == 0:
+		return fmt.Sprintf("%d billion", n/1e9)
+	case n >= 1e9:
+		return fmt.Sprintf("%.1f billion", float64(n)/1e9)
+	case n >= 1e6 && n%1e6 == 0:
+		return fmt.Sprintf("%d million", n/1e6)
+	case n >= 1e6:
+		return fmt.Sprintf("%.1f million", float64(n)/1e6)
+	}
+	return fmt.Sprint(n)
+}
+
+// eval evaluates an expression value in the current scope.
+func (b *builder) eval(v *grammar.Value) (units.Quantity, error) {
+	sc := b.sc
+	look := func(name string) (units.Quantity, bool) { return units.Quantity{}, false }
+	if sc != nil && sc.blk != nil && sc.blk.parIndex != nil {
+		look = func(name string) (units.Quantity, bool) {
+			j, ok := sc.blk.parIndex[name]
+			if !ok {
+				return units.Quantity{}, false
+			}
+			if j >= len(sc.env) || !sc.env[j].set {
+				panic(unboundParam{})
+			}
+			return sc.env[j].q, true
+		}
+	}
+	q, err := evalGuarded(v.Expr, look)
+	if err == nil {
+		return q, nil
+	}
+	ee, ok := err.(*ExprError)
+	if !ok {
+		return q, err
+	}
+	if ee.Rule == "unknown-param" {
+		if sc == nil || sc.blk == nil || sc.blk.isTop {
+			ee.Msg += "; only a block's statements can use parameters"
+		} else {
+			names := make([]string, len(sc.blk.params))
+			for i := range sc.blk.params {
+				names[i] = sc.blk.params[i].name
+			}
+			if s := diag.Suggest(ee.Name, names); s != "" {
+				ee.Msg += fmt.Sprintf(" in block %s; did you mean %s?", sc.blk.name, s)
+			} else {
+				ee.Msg += fmt.Sprintf(" in block %s; its parameters are %s", sc.blk.name, paramList(sc.blk))
+			}
+		}
+	}
+	if ee.Rule != "" {
+		ee.Msg = b.exprText(v) + ": " + ee.Msg
+	}
+	return q, ee
+}
+
+// unboundParam stops an evaluation that uses a parameter whose own value
+// was already reported as wrong.
+type unboundParam struct{}
+
+func evalGuarded(e *grammar.Expr, look Lookup) (q units.Quantity, err error) {
+	defer func() {
+		if r := recover(); r != nil {
+			if _, ok := r.(unboundParam); !ok {
+				panic(r)
+			}
+			err = &ExprError{}
+		}
+	}()
+	return Eval(e, look)
+}
+
+// exprText quotes an expression value as written: "{(12 V - vf) / i}".
+func (b *builder) exprText(v *grammar.Value) string {
+	src := b.srcs[b.file]
+	o := v.Pos.Offset
+	if src == nil || o < 0 || o >= len(src) {
+		return "{…}"
+	}
+	end := o
+	for end < len(src) && src[end] != '}' && src[end] != '\n' {
+		end++
+	}
+	if end < len(src) && src[end] == '}' {
+		end++
+	}
+	return string(src[o:end])
+}
+
+// probeUnused elaborates, into a scratch design, each block no instance
+// expanded, with its parameter defaults, so that a library checked on its
+// own still has its values and pins checked. Parameters without a default
+// stay unbound and what depends on them is not checked.
+func (b *builder) probeUnused() {
+	real := b.r.Design
+	incomplete, invalid := b.r.Incomplete, b.r.Invalid
+	for _, c := range b.blockList {
+		if c.expanded || c.recursive || c.size > b.opt.MaxParts || c.depth > b.opt.MaxDepth {
+			continue
+		}
+		scratch := NewDesign(real.File)
+		b.r.Design = scratch
+		b.probing = true
+		saved := b.count
+		b.count = 0
+		sc := &scope{blk: c, inst: -1, depth: 1}
+		sc.pins = make([]NetID, len(c.pins))
+		for j, name := range c.pins {
+			sc.pins[j] = scratch.Net(name, c.pinPos[j], c.pinPos[j])
+		}
+		sc.local = make([]NetID, len(c.locals))
+		for i := range sc.local {
+			sc.local[i] = NoNet
+		}
+		sc.env = make([]binding, len(c.params))
+		b.file = c.file
+		b.sc = &scope{blk: c, env: sc.env, inst: -1}
+		for j := range c.params {
+			if pd := &c.params[j]; pd.def != nil {
+				q, err := b.quantity(pd.def)
+				sc.env[j] = binding{q, err == nil}
+			}
+		}
+		for _, s := range c.body {
+			b.stmt(sc, s)
+		}
+		b.count = saved
+		b.probing = false
+		c.expanded = true // blocks it instantiates were expanded with it
+	}
+	b.r.Design = real
+	b.r.Incomplete, b.r.Invalid = incomplete, invalid
+	b.file = b.top.file
+}
+
+// unusedBlocks notes blocks of the checked file that no statement uses,
+// when the file also has parts (a file of blocks alone is a library).
+func (b *builder) unusedBlocks() {
+	if len(b.top.body) == 0 {
+		return
+	}
+	for _, c := range b.blockList {
+		if !c.lib && !c.used {
+			b.report("unused-block", diag.Note, c.pos, c.nameEnd, "block %s is defined but no instance uses it", c.name)
+		}
+	}
+}
+
+// finishMerged tells, on each finding made in several instances, how many.
+func (b *builder) finishMerged() {
+	for i, n := range b.more {
+		d := &b.r.Diags[i]
+		what := "instance"
+		if n > 1 {
+			what = "instances"
+		}
+		d.Message += fmt.Sprintf(" (and in %d more %s)", n, what)
+	}
+}
+
+
+
