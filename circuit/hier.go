@@ -873,6 +873,3 @@ func (b *builder) finishMerged() {
 		d.Message += fmt.Sprintf(" (and in %d more %s)", n, what)
 	}
 }
-
-
-
