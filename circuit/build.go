@@ -179,6 +179,9 @@ func (b *builder) run(ast *grammar.File) {
 		}
 	}
 	for _, bd := range b.blockList {
+		b.prepareHeader(bd)
+	}
+	for _, bd := range b.blockList {
 		b.prepare(bd)
 	}
 	b.prepare(b.top)

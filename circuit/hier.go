@@ -261,8 +261,8 @@ func unwrapPath(err error) error {
 	return err
 }
 
-// prepare resolves a block's header and statements once.
-func (b *builder) prepare(bd *blockDef) {
+// prepareHeader resolves a block's pins and parameters.
+func (b *builder) prepareHeader(bd *blockDef) {
 	saved := b.file
 	b.file = bd.file
 	defer func() { b.file = saved }()
@@ -290,6 +290,14 @@ func (b *builder) prepare(bd *blockDef) {
 		}
 		b.defaultUnits(bd)
 	}
+}
+
+// prepare resolves a block's statements once; every block's header is
+// already prepared.
+func (b *builder) prepare(bd *blockDef) {
+	saved := b.file
+	b.file = bd.file
+	defer func() { b.file = saved }()
 	localIndex := map[string]int{}
 	names := map[string]*bodyStmt{}
 	pinUsed := make([]bool, len(bd.pins))
@@ -803,15 +811,16 @@ func (b *builder) exprText(v *grammar.Value) string {
 	return string(src[o:end])
 }
 
-// probeUnused elaborates, into a scratch design, each block no instance
-// expanded, with its parameter defaults, so that a library checked on its
+// probeUnused elaborates, into a scratch design, each block that no
+// statement instantiates (expanding with it the blocks it uses), with its
+// parameter defaults, so that a library checked on its
 // own still has its values and pins checked. Parameters without a default
 // stay unbound and what depends on them is not checked.
 func (b *builder) probeUnused() {
 	real := b.r.Design
 	incomplete, invalid := b.r.Incomplete, b.r.Invalid
 	for _, c := range b.blockList {
-		if c.expanded || c.recursive || c.size > b.opt.MaxParts || c.depth > b.opt.MaxDepth {
+		if c.used || c.expanded || c.recursive || c.size > b.opt.MaxParts || c.depth > b.opt.MaxDepth {
 			continue
 		}
 		scratch := NewDesign(real.File)
