@@ -10,7 +10,6 @@ import (
 	"strings"
 	"testing"
 
-	"nodal/circuit"
 	"nodal/diag"
 )
 
@@ -228,7 +227,7 @@ func TestIncludeErrors(t *testing.T) {
 	})
 	t.Run("syntax error in included file carries its name", func(t *testing.T) {
 		r := checkMem(t, map[string]string{
-			"top.nodal": "include \"lib/a.nodal\"\n",
+			"top.nodal":   "include \"lib/a.nodal\"\n",
 			"lib/a.nodal": "block x (p, n) {\n  resistor R (p, n) 1 kΩ\n  resistor ( \n}\n",
 		}, "top.nodal", nil)
 		d := wantOne(t, r, "syntax")
@@ -476,4 +475,3 @@ func TestBlockSyntaxErrors(t *testing.T) {
 	}
 }
 
-var _ = circuit.DefaultMaxParts
