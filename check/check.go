@@ -78,7 +78,11 @@ func Source(name string, src []byte, opt *Options) (*Result, error) {
 	diags.Sort(fset)
 	diags = diags.Dedup()
 	if !opt.NoSuppress {
-		diags = rules.Suppress(fset, []rules.Source{{File: file, Src: src, Comments: ast.Comments}}, diags, opt.Config, nil)
+		srcs := []rules.Source{{File: file, Src: src, Comments: ast.Comments}}
+		for _, f := range b.Included {
+			srcs = append(srcs, rules.Source{File: f.File, Src: f.Src, Comments: f.Comments})
+		}
+		diags = rules.Suppress(fset, srcs, diags, opt.Config, nil)
 	}
 	return &Result{Fset: fset, Build: b, Diags: diags, Parsed: ast}, err
 }

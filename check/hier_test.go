@@ -474,4 +474,3 @@ func TestBlockSyntaxErrors(t *testing.T) {
 		}
 	}
 }
-

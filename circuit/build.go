@@ -22,6 +22,17 @@ type Result struct {
 	Incomplete bool
 	// Invalid is set when a part has a value the solver cannot use.
 	Invalid bool
+	// Included lists the files brought in by include, in the order they
+	// were first read, each once.
+	Included []SourceFile
+}
+
+// SourceFile is an included file with its text and comments (for allow
+// comments and for quoting source lines).
+type SourceFile struct {
+	File     *diag.File
+	Src      []byte
+	Comments []grammar.Comment
 }
 
 // Build elaborates a parsed file into a design, with default limits and no
@@ -69,8 +80,9 @@ type builder struct {
 	included  map[string]bool
 	top       *blockDef // the top level, as a block without pins
 
-	sc    *scope // the scope being elaborated
-	count int64  // parts and instances made so far
+	sc      *scope // the scope being elaborated
+	count   int64  // parts and instances made so far
+	refused bool   // an instance was refused for the size limit
 
 	// Findings inside blocks are made once per instance; they are merged
 	// into one per statement, rule and rank within the statement.

@@ -246,6 +246,7 @@ func (b *builder) include(inc *grammar.Include, pos, end diag.Pos, stack []strin
 	file := b.fset.AddFile(path, src)
 	b.srcs[file] = src
 	ast := grammar.Parse(path, src)
+	b.r.Included = append(b.r.Included, SourceFile{File: file, Src: src, Comments: ast.Comments})
 	saved := b.file
 	b.file = file
 	b.syntaxErrors(ast)
@@ -631,7 +632,12 @@ func (b *builder) instance(parent *scope, st *bodyStmt, nets []NetID) {
 		b.countOnly(nets)
 		return
 	}
+	if b.refused {
+		b.countOnly(nets) // the first instance over the size limit has been reported
+		return
+	}
 	if addSat(b.count, c.size) > b.opt.MaxParts {
+		b.refused = true
 		b.report("expansion-limit", diag.Error, st.pos, st.end, "instance %s of block %s expands to %s parts and instances; with the %s before it that is over the limit of %s (--max-parts)", path, c.name, count(c.size), count(b.count), count(b.opt.MaxParts))
 		b.countOnly(nets)
 		return

@@ -17,6 +17,7 @@ import (
 	"github.com/mattn/go-isatty"
 
 	"nodal/check"
+	"nodal/circuit"
 	"nodal/config"
 	"nodal/diag"
 	"nodal/output"
@@ -64,6 +65,13 @@ type checkFlags struct {
 	staged    bool
 	stdinName string
 	jobs      int
+	limits    limits
+}
+
+// limits bound the expansion of block instances.
+type limits struct {
+	maxDepth int
+	maxParts int64
 }
 
 // unit is one file to check.
@@ -87,6 +95,8 @@ func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	fl.BoolVar(&cf.staged, "staged", false, "check the content staged in git's index: the named files, or every staged .nodal file")
 	fl.StringVar(&cf.stdinName, "stdin-filename", "", "with \"-\": report, find nodal.toml and resolve includes as if standard input were this `path`")
 	fl.IntVar(&cf.jobs, "jobs", runtime.GOMAXPROCS(0), "how many files to check at once")
+	fl.IntVar(&cf.limits.maxDepth, "max-depth", circuit.DefaultMaxDepth, "refuse designs whose block instances nest deeper than this")
+	fl.Int64Var(&cf.limits.maxParts, "max-parts", circuit.DefaultMaxParts, "refuse designs that expand to more parts and instances than this")
 	fl.Usage = func() {
 		fmt.Fprint(stderr, checkUsage)
 		fl.PrintDefaults()
@@ -117,6 +127,9 @@ func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	paths := fl.Args()
 	if cf.stdinName != "" && len(paths) == 0 {
 		paths = []string{"-"}
+	}
+	if cf.limits.maxDepth < 1 || cf.limits.maxParts < 1 {
+		return usageErr("--max-depth and --max-parts must be at least 1")
 	}
 	if cf.stdinName != "" && !contains(paths, "-") {
 		return usageErr("--stdin-filename needs \"-\" among the paths")
@@ -197,7 +210,7 @@ func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		go func() {
 			defer wg.Done()
 			for i := range next {
-				results[i] = checkOne(units[i], stdinSrc, read, loader)
+				results[i] = checkOne(units[i], stdinSrc, read, loader, cf.limits)
 			}
 		}()
 	}
@@ -258,7 +271,7 @@ type fileResult struct {
 	err      string
 }
 
-func checkOne(u unit, stdinSrc []byte, read reader, loader *configLoader) fileResult {
+func checkOne(u unit, stdinSrc []byte, read reader, loader *configLoader, lim limits) fileResult {
 	var src []byte
 	var err error
 	if u.stdin {
@@ -269,9 +282,16 @@ func checkOne(u unit, stdinSrc []byte, read reader, loader *configLoader) fileRe
 	if err != nil {
 		return fileResult{err: "nodal: " + err.Error()}
 	}
-	opts := &check.Options{Config: loader.rulesConfig(u.cfg)}
+	// Includes are read the same way as the file: from disk, or from git's
+	// index with --staged.
+	opts := &check.Options{Config: loader.rulesConfig(u.cfg), ReadFile: read, MaxDepth: lim.maxDepth, MaxParts: lim.maxParts}
 	res, err := check.Source(u.name, src, opts)
 	out := fileResult{checked: true, sources: map[string][]byte{u.name: src}}
+	if res != nil {
+		for _, f := range res.Build.Included {
+			out.sources[f.File.Name()] = f.Src
+		}
+	}
 	if err != nil {
 		out.err = fmt.Sprintf("nodal: %s: internal error: %v", u.name, err)
 	}
