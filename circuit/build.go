@@ -200,6 +200,7 @@ func (b *builder) run(ast *grammar.File) {
 	for _, bd := range b.blockList {
 		b.measure(bd, nil)
 	}
+	b.reserve()
 
 	b.file = topFile
 	topScope := &scope{blk: b.top, inst: -1}
@@ -465,7 +466,7 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 		if q.Dim == units.None {
 			b.report(um, diag.Error, p.Pos, p.End, "%s %s: %s has no unit; write %s %s", word, p.Name, b.describe(v), b.describe(v), info.Value.Symbol())
 		} else {
-			b.report(um, diag.Error, p.Pos, p.End, "%s %s is given as a %s (%s); a %s takes a %s in %s", word, p.Name, q.Dim.Noun(), b.describe(v), word, info.Value.Noun(), info.Value.Symbol())
+			b.report(um, diag.Error, p.Pos, p.End, "%s %s is given as a %s (%s); a %s takes a %s in %s", word, p.Name, q.Dim.Noun(), b.describeQ(v, q), word, info.Value.Noun(), info.Value.Symbol())
 		}
 		return false
 	}
@@ -687,4 +688,12 @@ func (b *builder) unitRule(vs ...*grammar.Value) string {
 		}
 	}
 	return "unit-mismatch"
+}
+
+// describeQ is describe, with the computed value of an expression.
+func (b *builder) describeQ(v *grammar.Value, q units.Quantity) string {
+	if v.Expr != nil {
+		return b.exprText(v) + " = " + q.String()
+	}
+	return b.describe(v)
 }

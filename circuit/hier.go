@@ -72,6 +72,7 @@ type blockDef struct {
 	state     uint8 // measure: 0 new, 1 on the stack, 2 done
 	recursive bool
 	size      int64 // parts and instances one instance makes, itself included
+	parts     int64 // built-in parts one instance makes
 	depth     int   // 1 for a block that instantiates no block
 	used      bool  // named by some instance statement
 	expanded  bool
@@ -534,7 +535,7 @@ func (b *builder) measure(bd *blockDef, stack []*blockDef) {
 	}
 	bd.state = 1
 	stack = append(stack, bd)
-	size, depth := int64(1), 0
+	size, parts, depth := int64(1), int64(0), 0
 	for _, st := range bd.body {
 		if !st.ok {
 			continue
@@ -542,6 +543,7 @@ func (b *builder) measure(bd *blockDef, stack []*blockDef) {
 		c := st.blk
 		if c == nil {
 			size = addSat(size, 1)
+			parts = addSat(parts, 1)
 			continue
 		}
 		if c.state == 1 {
@@ -575,9 +577,10 @@ func (b *builder) measure(bd *blockDef, stack []*blockDef) {
 			continue
 		}
 		size = addSat(size, c.size)
+		parts = addSat(parts, c.parts)
 		depth = max(depth, c.depth)
 	}
-	bd.size, bd.depth = size, depth+1
+	bd.size, bd.parts, bd.depth = size, parts, depth+1
 	bd.state = 2
 }
 
@@ -886,5 +889,16 @@ func (b *builder) finishMerged() {
 			what = "instances"
 		}
 		d.Message += fmt.Sprintf(" (and in %d more %s)", n, what)
+	}
+}
+
+// reserve sizes the design's part slice for the expanded top level, when it
+// is within the limits, so that appending never copies it.
+func (b *builder) reserve() {
+	if b.top.isTop {
+		b.measure(b.top, nil)
+	}
+	if n := b.top.parts; n > 0 && b.top.size <= b.opt.MaxParts {
+		b.r.Design.Parts = make([]Part, 0, n)
 	}
 }

@@ -1,0 +1,67 @@
+package check
+
+import (
+	"flag"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"nodal/diag"
+)
+
+var update = flag.Bool("update", false, "rewrite the golden files under testdata/rules")
+
+// TestRuleGoldens checks each testdata/rules/<rule-id>/fires.nodal and
+// near_miss.nodal against the .golden file beside it: the first must fire
+// its rule, the second must not. The size limit is lowered to 10 000 parts
+// so that the expansion-limit pair stays small.
+func TestRuleGoldens(t *testing.T) {
+	t.Chdir("..") // name files as a user at the top of the repository would
+	files, _ := filepath.Glob("testdata/rules/*/*.nodal")
+	n := 0
+	for _, f := range files {
+		base := strings.TrimSuffix(filepath.Base(f), ".nodal")
+		if base != "fires" && base != "near_miss" {
+			continue
+		}
+		golden := strings.TrimSuffix(f, ".nodal") + ".golden"
+		rule := filepath.Base(filepath.Dir(f))
+		n++
+		t.Run(rule+"/"+base, func(t *testing.T) {
+			r, err := File(f, &Options{MaxParts: 10000})
+			if err != nil {
+				t.Fatal(err)
+			}
+			var b strings.Builder
+			for _, d := range r.Diags {
+				b.WriteString(diag.Format(r.Fset, d))
+				b.WriteByte('\n')
+			}
+			got := b.String()
+			fired := strings.Contains(got, "["+rule+"]")
+			if base == "fires" && !fired {
+				t.Errorf("%s does not fire %s:\n%s", f, rule, got)
+			}
+			if base == "near_miss" && fired {
+				t.Errorf("%s fires %s:\n%s", f, rule, got)
+			}
+			if *update {
+				if err := os.WriteFile(golden, []byte(got), 0o644); err != nil {
+					t.Fatal(err)
+				}
+				return
+			}
+			want, err := os.ReadFile(golden)
+			if err != nil {
+				t.Fatalf("%v (run go test ./check -update to create it)", err)
+			}
+			if got != string(want) {
+				t.Errorf("%s differs from %s:\ngot:\n%s\nwant:\n%s", f, golden, got, want)
+			}
+		})
+	}
+	if n == 0 {
+		t.Fatal("no golden pairs under testdata/rules")
+	}
+}

@@ -1,0 +1,48 @@
+package check
+
+import (
+	"fmt"
+	"strings"
+	"testing"
+)
+
+// hierDesign is a design of n instances of a four-part channel block inside
+// rows of ten, for measuring that elaboration is linear in expanded size.
+func hierDesign(rows int) []byte {
+	var b strings.Builder
+	b.WriteString(`block ch (s, k) [i = 10 mA] {
+  resistor R (s, a) {(12 V - 2 V) / i} rated 250 mW
+  led      D (a, m) vf 2.0 V at 20 mA
+  resistor S (m, k) 10 Ω
+  capacitor C (a, k) 100 nF
+}
+block row (s, k) [i = 10 mA] {
+`)
+	for i := 0; i < 10; i++ {
+		fmt.Fprintf(&b, "  ch C%d (s, k) [i = {i + %d mA}]\n", i, i)
+	}
+	b.WriteString("}\nground gnd\nsource V (vin, gnd) 12 V\n")
+	for r := 0; r < rows; r++ {
+		fmt.Fprintf(&b, "row R%d (vin, gnd)\n", r)
+	}
+	return []byte(b.String())
+}
+
+// BenchmarkCheckHier checks designs of 4 000 to 400 000 expanded parts; the
+// ns/part figure should stay flat as the size grows.
+func BenchmarkCheckHier(b *testing.B) {
+	for _, rows := range []int{100, 1000, 10000} {
+		src := hierDesign(rows)
+		parts := rows * 40
+		b.Run(fmt.Sprintf("parts=%d", parts), func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				r, err := Source("hier.nodal", src, nil)
+				if err != nil || len(r.Build.Design.Parts) != parts+1 {
+					b.Fatalf("%v: %d parts", err, len(r.Build.Design.Parts))
+				}
+			}
+			b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/float64(parts), "ns/part")
+		})
+	}
+}
