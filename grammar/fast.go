@@ -4,37 +4,47 @@ package grammar
 // language; this file only speeds up reading the commonest statement, a
 // plain part line, through participle's Parseable interface:
 //
-//   - lines are parsed in batches of up to batchLines statements per
-//     participle call, each line's tokens followed by a Newline token, so
-//     the per-call set-up of participle is shared;
-//   - within a batch, a part line is first offered to fastPart.Parse, a
-//     hand-written reader of the subset of Part that has no parameters and
-//     no braces. It builds exactly the tree the grammar builds (the same
-//     nodes, values and positions: see TestFastPathMatchesGrammar) and
-//     gives up with participle.NextMatch on anything else, whereupon the
-//     grammar's own Statement production reads the line;
-//   - a batch in which any line fails is parsed again line by line by the
-//     grammar alone, so that syntax errors and their messages are always
-//     the grammar's.
+//   - lines are lexed in batches of up to batchLines, each line's tokens
+//     followed by a Newline token, and upgraded to one PeekingLexer, so
+//     that neither the token slice nor participle's set-up is paid per
+//     line;
+//   - one participle call reads as many consecutive part lines as it can,
+//     through the Parseable fastRun, each line by readPart, a hand-written
+//     reader of the subset of Part
+//     that has no parameters and no braces. It builds exactly the tree the
+//     grammar builds (the same nodes, values and positions: see
+//     TestFastPathMatchesGrammar) and gives up with participle.NextMatch on
+//     anything else;
+//   - the line it stopped at is read by the grammar alone, on its own, as
+//     ParseReference reads every line, so that other statements, syntax
+//     errors and their messages are always the grammar's; then the fast
+//     path goes on with the next line.
 
 import (
 	"github.com/alecthomas/participle/v2"
 	"github.com/alecthomas/participle/v2/lexer"
 )
 
-// batchLines is how many statements one participle call reads.
-const batchLines = 128
+// batchLines is how many lines are lexed and handed to participle at once.
+const batchLines = 1024
 
-// fastLine is one line of a batch: a part by the fast path, or any
-// statement by the grammar.
-type fastLine struct {
-	Part  *fastPart  `parser:"  @@"`
-	Other *Statement `parser:"| @@"`
+// fastRun is a run of consecutive plain part lines, each read by hand
+// with the Newline that ends it. Reading a run per Parseable call rather
+// than a line keeps participle's per-node bookkeeping out of the loop.
+type fastRun struct {
+	sts  []*Statement
+	slab []partNodes // nodes for the next lines, allocated a chunk at a time
 }
 
-// fastBatch is a run of lines, each ended by a Newline token.
+// maxSlab bounds the chunk in which fastRun allocates nodes. Chunks grow
+// from 4 so that a short run wastes little.
+const maxSlab = 128
+
+// fastBatch is what one participle call of the fast path reads. It is
+// parsed with participle.AllowTrailing, so it stops before the first line
+// the fast path does not take.
 type fastBatch struct {
-	Lines []*fastLine `parser:"( @@ Newline )*"`
+	Run *fastRun `parser:"@@?"`
 }
 
 var batchParser = participle.MustBuild[fastBatch](
@@ -43,17 +53,24 @@ var batchParser = participle.MustBuild[fastBatch](
 	participle.UseLookahead(3),
 )
 
-// fastPart is a Part read by hand. It has Part's layout, so a *fastPart is
-// a *Part.
-type fastPart Part
-
 // partNodes holds the nodes of a typical part line in one allocation.
 type partNodes struct {
+	st         Statement
+	part       Part
 	kind, name Name
 	pinNames   [2]Name
 	pins       [2]Pin
 	pinPtrs    [2]*Pin
 	value      Value
+}
+
+// attrNodes holds the nodes of an attribute with one value in one
+// allocation.
+type attrNodes struct {
+	attr   Attr
+	key    Name
+	value  Value
+	values [1]*Value
 }
 
 func isNameTok(t *lexer.Token) bool {
@@ -80,15 +97,39 @@ func startsValue(t *lexer.Token) bool {
 	return false
 }
 
-// Parse implements participle.Parseable.
-func (p *fastPart) Parse(lex *lexer.PeekingLexer) error {
-	cp := lex.MakeCheckpoint()
-	if !p.parse(lex) {
-		lex.LoadCheckpoint(cp)
-		*p = fastPart{}
-		return participle.NextMatch
+// Parse implements participle.Parseable: it reads part lines, each with
+// its Newline, up to the first line that is not one, and returns
+// participle.NextMatch if there is none.
+func (r *fastRun) Parse(lex *lexer.PeekingLexer) error {
+	for {
+		if len(r.slab) == 0 {
+			r.slab = make([]partNodes, min(max(4, 2*len(r.sts)), maxSlab))
+		}
+		if st := readPartLine(lex, &r.slab[0]); st != nil {
+			r.slab = r.slab[1:]
+			r.sts = append(r.sts, st)
+			continue
+		}
+		if len(r.sts) == 0 {
+			return participle.NextMatch
+		}
+		return nil
 	}
-	return nil
+}
+
+// readPartLine reads one part line and its Newline, or consumes nothing
+// and returns nil.
+func readPartLine(lex *lexer.PeekingLexer, nodes *partNodes) *Statement {
+	cp := lex.MakeCheckpoint()
+	if !readPart(lex, &nodes.part, nodes) || lex.Peek().Type != TokNewline {
+		lex.LoadCheckpoint(cp)
+		*nodes = partNodes{}
+		return nil
+	}
+	lex.Next()
+	nodes.st.Pos = nodes.part.Pos
+	nodes.st.Part = &nodes.part
+	return &nodes.st
 }
 
 func readName(lex *lexer.PeekingLexer, n *Name) bool {
@@ -133,8 +174,9 @@ func readValue(lex *lexer.PeekingLexer, v *Value) bool {
 	return true
 }
 
-func (p *fastPart) parse(lex *lexer.PeekingLexer) bool {
-	nodes := &partNodes{}
+// readPart reads a Part as the grammar does, for the subset without
+// parameters or expressions, and reports whether it could.
+func readPart(lex *lexer.PeekingLexer, p *Part, nodes *partNodes) bool {
 	p.Pos = lex.Peek().Pos
 	if !readName(lex, &nodes.kind) || !readName(lex, &nodes.name) {
 		return false
@@ -198,15 +240,25 @@ func (p *fastPart) parse(lex *lexer.PeekingLexer) bool {
 		if !isNameTok(t) {
 			return false // parameters, braces, stray punctuation: the grammar's
 		}
-		a := &Attr{Pos: t.Pos, Key: &Name{}}
+		an := &attrNodes{}
+		a := &an.attr
+		a.Pos, a.Key = t.Pos, &an.key
 		readName(lex, a.Key)
 		if startsValue(lex.Peek()) {
 			for {
 				v := &Value{}
+				if a.Values == nil {
+					v = &an.value
+				}
 				if !readValue(lex, v) {
 					return false
 				}
-				a.Values = append(a.Values, v)
+				if a.Values == nil {
+					an.values[0] = v
+					a.Values = an.values[:1:1]
+				} else {
+					a.Values = append(a.Values, v)
+				}
 				if !isPunctTok(lex.Peek(), ",") {
 					break
 				}
@@ -234,4 +286,47 @@ func (p *fastPart) parse(lex *lexer.PeekingLexer) bool {
 	}
 	p.EndPos = lex.RawPeek().Pos
 	return true
+}
+
+// tokenBuffer lends one PeekingLexer to every batch of a file. Upgrade
+// copies the tokens it is given into a slice of its own; instead of
+// upgrading (and so allocating) per batch, the batches are lexed straight
+// into that slice, reached through PeekingLexer.Range, and the lexer is
+// rewound to its start. A batch with more tokens than the slice holds gets
+// a new, larger one.
+type tokenBuffer struct {
+	pl    *lexer.PeekingLexer
+	buf   []lexer.Token // the PeekingLexer's own tokens
+	start lexer.Checkpoint
+}
+
+// tokens returns an empty slice to lex a batch into, backed by the
+// lexer's own tokens while it fits.
+func (tb *tokenBuffer) tokens() []lexer.Token { return tb.buf[:0:len(tb.buf)] }
+
+// lexer returns a PeekingLexer positioned at the first of toks, which ends
+// with an EOF token.
+func (tb *tokenBuffer) lexer(toks []lexer.Token) (*lexer.PeekingLexer, error) {
+	if tb.pl != nil && len(toks) > 0 && len(toks) <= len(tb.buf) && &toks[0] == &tb.buf[0] {
+		tb.pl.LoadCheckpoint(tb.start)
+		return tb.pl, nil
+	}
+	// Upgrade copies up to the first EOF: fill the room after the batch
+	// with placeholder tokens so that the copy has room to spare, then
+	// end the batch in the copy.
+	n := max(2*len(toks), 1<<14)
+	room := make([]lexer.Token, n)
+	copy(room, toks[:len(toks)-1])
+	for i := len(toks) - 1; i < n-1; i++ {
+		room[i].Type = TokInvalid
+	}
+	room[n-1] = toks[len(toks)-1]
+	pl, err := lexer.Upgrade(&sliceLexer{toks: room})
+	if err != nil {
+		return nil, err
+	}
+	tb.pl, tb.start = pl, pl.MakeCheckpoint()
+	tb.buf = pl.Range(0, lexer.RawCursor(n))
+	tb.buf[len(toks)-1] = toks[len(toks)-1]
+	return pl, nil
 }

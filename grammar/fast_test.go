@@ -97,12 +97,12 @@ func TestFastPathIsTaken(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if len(b.Lines) != 3 {
-		t.Fatalf("%d lines", len(b.Lines))
+	if b.Run == nil || len(b.Run.sts) != 3 {
+		t.Fatalf("the fast path read %+v, not the three part lines", b.Run)
 	}
-	for i, l := range b.Lines {
-		if l.Part == nil {
-			t.Errorf("line %d went to the grammar, not the fast path", i+1)
+	for i, st := range b.Run.sts {
+		if st.Part == nil {
+			t.Errorf("line %d is not a part", i+1)
 		}
 	}
 }

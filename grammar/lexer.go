@@ -67,6 +67,7 @@ func (definition) Lex(filename string, r io.Reader) (lexer.Lexer, error) {
 		return nil, err
 	}
 	src := string(b)
+	var words wordCache
 	var toks []lexer.Token
 	line := 1
 	for off := 0; off < len(src); {
@@ -74,7 +75,7 @@ func (definition) Lex(filename string, r io.Reader) (lexer.Lexer, error) {
 		for end < len(src) && src[end] != '\n' {
 			end++
 		}
-		toks = appendLine(toks, src, off, end, line, nil)
+		toks = appendLine(toks, src, off, end, line, nil, &words)
 		if end < len(src) {
 			toks = append(toks, lexer.Token{Type: TokNewline, Value: "\n", Pos: lexer.Position{Filename: filename, Offset: end, Line: line, Column: end - off + 1}})
 		}
@@ -109,7 +110,7 @@ func isWordPart(r rune) bool  { return r == '_' || unicode.IsLetter(r) || unicod
 // that suppression comments can be read; the parser elides them. When more
 // than MaxLineTokens tokens are found, the rest of the line becomes one
 // TokInvalid token.
-func appendLine(toks []lexer.Token, src string, off, end, line int, comments *[]lexer.Token) []lexer.Token {
+func appendLine(toks []lexer.Token, src string, off, end, line int, comments *[]lexer.Token, words *wordCache) []lexer.Token {
 	start := len(toks)
 	i := off
 	for i < end {
@@ -184,7 +185,7 @@ func appendLine(toks []lexer.Token, src string, off, end, line int, comments *[]
 				}
 				j += s2
 			}
-			typ = classifyWord(src[i:j])
+			typ = words.classify(src[i:j])
 		}
 		if j-i > MaxTokenBytes {
 			// a token this long is junk; keep a short prefix for the message
@@ -246,6 +247,38 @@ func scanNumber(src string, i, end int) int {
 	return j
 }
 
+// wordCache remembers how the short words of one file were classified:
+// the few that are neither plain names nor long (gnd, mΩ, kΩ, tol) recur on
+// most lines and would otherwise go through the keyword and unit tables
+// every time. Its size is bounded.
+type wordCache struct {
+	m map[string]lexer.TokenType
+}
+
+const maxCachedWords = 1024
+
+func (c *wordCache) classify(w string) lexer.TokenType {
+	if c == nil || len(w) > maxUnitBytes {
+		return classifyWord(w)
+	}
+	if t, ok := c.m[w]; ok {
+		return t
+	}
+	t := classifyWord(w)
+	if c.m == nil {
+		c.m = make(map[string]lexer.TokenType)
+	}
+	if len(c.m) < maxCachedWords {
+		c.m[w] = t
+	}
+	return t
+}
+
+// maxUnitBytes bounds the length of a unit word: a prefix of at most two
+// bytes (µ) and a symbol of at most three (ohm, the ohm sign U+2126).
+// Longer words (resistor, capacitor) skip the unit tables.
+const maxUnitBytes = 5
+
 func classifyWord(w string) lexer.TokenType {
 	// Most words are plain ASCII names with a digit or an underscore in
 	// them (n12_7, R3): no keyword, attribute word or unit has either, and
@@ -270,7 +303,7 @@ func classifyWord(w string) lexer.TokenType {
 		return TokKeyword
 	case attrWords[w]:
 		return TokAttrWord
-	case units.IsUnit(w):
+	case len(w) <= maxUnitBytes && units.IsUnit(w):
 		return TokUnit
 	}
 	if _, ok := units.ParseCode(w); ok {

@@ -83,12 +83,14 @@ func parse(name string, srcBytes []byte, fast bool) *File {
 	var toks, lineToks []lexer.Token
 	var spans []lineSpan
 	var comments []lexer.Token
+	var tb tokenBuffer
+	var words wordCache
 	flush := func() {
 		if len(spans) == 0 {
 			return
 		}
-		parseBatch(f, toks, spans, &lineToks)
-		toks, spans = toks[:0], spans[:0]
+		parseBatch(f, &tb, toks, spans, &lineToks)
+		toks, spans = tb.tokens(), spans[:0]
 	}
 	line := 1
 	for off := 0; off <= len(src); {
@@ -100,7 +102,7 @@ func parse(name string, srcBytes []byte, fast bool) *File {
 		}
 		comments = comments[:0]
 		from := len(toks)
-		toks = appendLine(toks, src, off, end, line, &comments)
+		toks = appendLine(toks, src, off, end, line, &comments, &words)
 		for _, c := range comments {
 			f.Comments = append(f.Comments, Comment{Offset: c.Pos.Offset, Line: line, Text: c.Value})
 		}
@@ -141,38 +143,48 @@ func finish(st *Statement, last lexer.Token) *Statement {
 	return st
 }
 
-// parseBatch parses the lines of one batch with one participle call; when
-// any line fails it parses them again one by one with the grammar, so that
-// the errors are the grammar's.
-func parseBatch(f *File, toks []lexer.Token, spans []lineSpan, lineToks *[]lexer.Token) {
+// parseBatch parses the lines of one batch: runs of part lines by the
+// fast path, every other line by the grammar on its own.
+func parseBatch(f *File, tb *tokenBuffer, toks []lexer.Token, spans []lineSpan, lineToks *[]lexer.Token) {
 	eof := toks[len(toks)-1]
 	eof.Type = TokEOF
-	pl, err := lexer.Upgrade(&sliceLexer{toks: append(toks, eof)})
-	if err == nil {
+	toks = append(toks, eof)
+	pl, err := tb.lexer(toks)
+	k := 0
+	for err == nil && k < len(spans) {
 		var b *fastBatch
-		b, err = batchParser.ParseFromLexer(pl)
-		if err == nil && len(b.Lines) == len(spans) {
-			for i, l := range b.Lines {
-				st := l.Other
-				if l.Part != nil {
-					st = &Statement{Pos: l.Part.Pos, Part: (*Part)(l.Part)}
-				}
-				f.Stmts = append(f.Stmts, finish(st, toks[spans[i].to-1]))
+		b, err = batchParser.ParseFromLexer(pl, participle.AllowTrailing(true))
+		if err != nil {
+			break
+		}
+		if b.Run != nil {
+			for _, st := range b.Run.sts {
+				f.Stmts = append(f.Stmts, finish(st, toks[spans[k].to-1]))
+				k++
 			}
-			return
+		}
+		if k < len(spans) {
+			parseAlone(f, toks, spans[k], lineToks)
+			pl.FastForward(lexer.RawCursor(spans[k].eol))
+			k++
 		}
 	}
-	for _, sp := range spans {
-		lt := append((*lineToks)[:0], toks[sp.from:sp.to]...)
-		nl := toks[sp.eol]
-		nl.Type = TokEOF
-		lt = append(lt, nl)
-		*lineToks = lt
-		if st, err := parseLine(lt); err != nil {
-			f.Errors = append(f.Errors, err)
-		} else {
-			f.Stmts = append(f.Stmts, finish(st, lt[len(lt)-2]))
-		}
+	for ; k < len(spans); k++ {
+		parseAlone(f, toks, spans[k], lineToks)
+	}
+}
+
+// parseAlone parses one line with the grammar, as ParseReference does.
+func parseAlone(f *File, toks []lexer.Token, sp lineSpan, lineToks *[]lexer.Token) {
+	lt := append((*lineToks)[:0], toks[sp.from:sp.to]...)
+	nl := toks[sp.eol]
+	nl.Type = TokEOF
+	lt = append(lt, nl)
+	*lineToks = lt
+	if st, err := parseLine(lt); err != nil {
+		f.Errors = append(f.Errors, err)
+	} else {
+		f.Stmts = append(f.Stmts, finish(st, lt[len(lt)-2]))
 	}
 }
 
