@@ -111,6 +111,20 @@ func NewDesign(file string) *Design {
 	return &Design{File: file, Ground: NoNet, netIndex: make(map[string]NetID)}
 }
 
+// Reserve makes room for about parts parts and nets nets, so that building
+// a large design does not regrow its slices and name table.
+func (d *Design) Reserve(parts, nets int) {
+	if cap(d.Parts)-len(d.Parts) < parts {
+		d.Parts = append(make([]Part, 0, len(d.Parts)+parts), d.Parts...)
+	}
+	if cap(d.Nets)-len(d.Nets) < nets {
+		d.Nets = append(make([]Net, 0, len(d.Nets)+nets), d.Nets...)
+	}
+	if len(d.netIndex) == 0 && nets > 0 {
+		d.netIndex = make(map[string]NetID, nets)
+	}
+}
+
 // Net returns the id of the named net, adding it if new; pos is recorded as
 // its first use.
 func (d *Design) Net(name string, pos, end diag.Pos) NetID {

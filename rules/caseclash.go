@@ -20,7 +20,7 @@ is rarely meant.`,
 			name string
 			pos  diag.Pos
 		}
-		nets := map[string]first{}
+		nets := make(map[string]first, len(d.Nets))
 		for i := range d.Nets {
 			n := &d.Nets[i]
 			if n.Pins == 0 && !n.Port {
@@ -36,7 +36,7 @@ is rarely meant.`,
 				nets[key] = first{n.Name, n.Pos}
 			}
 		}
-		parts := map[string]first{}
+		parts := make(map[string]first, len(d.Parts))
 		for i := range d.Parts {
 			q := &d.Parts[i]
 			key := strings.ToLower(q.Name)

@@ -4,6 +4,8 @@ package topology
 // A spanning forest is grown with union–find; every part that closes a
 // cycle gives one fundamental loop, the part plus the forest path between
 // its ends, found by walking both ends up to their lowest common ancestor.
+// The forest is kept in flat slices indexed by net, so the cost is linear
+// in parts and nets however many voltage-defining parts there are.
 
 import (
 	"nodal/circuit"
@@ -13,12 +15,26 @@ func findLoops(d *circuit.Design, r *Result) {
 	n := len(d.Nets)
 	uf := newUnionFind(n)
 	var closing []circuit.PartID
-	// Forest adjacency, built only over the tree parts.
+	// Forest adjacency over the tree parts, as linked lists in slices:
+	// head[net] is the first edge, next[e] the one after it.
 	type edge struct {
 		to   int32
 		part circuit.PartID
 	}
-	adj := map[int32][]edge{}
+	var edges []edge
+	var next []int32
+	var head []int32
+	link := func(a, b int32, part circuit.PartID) {
+		if head == nil {
+			head = make([]int32, n)
+			for i := range head {
+				head[i] = -1
+			}
+		}
+		edges = append(edges, edge{b, part})
+		next = append(next, head[a])
+		head[a] = int32(len(edges) - 1)
+	}
 	for i := range d.Parts {
 		p := &d.Parts[i]
 		if !p.IsVoltageDefining() || p.Pins[0] == p.Pins[1] {
@@ -26,8 +42,8 @@ func findLoops(d *circuit.Design, r *Result) {
 		}
 		a, b := int32(p.Pins[0]), int32(p.Pins[1])
 		if uf.union(a, b) {
-			adj[a] = append(adj[a], edge{b, circuit.PartID(i)})
-			adj[b] = append(adj[b], edge{a, circuit.PartID(i)})
+			link(a, b, circuit.PartID(i))
+			link(b, a, circuit.PartID(i))
 			continue
 		}
 		closing = append(closing, circuit.PartID(i))
@@ -35,31 +51,37 @@ func findLoops(d *circuit.Design, r *Result) {
 	if len(closing) == 0 {
 		return
 	}
-	// Parent pointers and depths by a breadth-first walk of each tree.
-	parent := map[int32]int32{}
-	via := map[int32]circuit.PartID{}
-	depth := map[int32]int32{}
+	// Parent pointers and depths by a breadth-first walk of each tree,
+	// rooted at the first pin that reaches it, in part order.
+	parent := make([]int32, n)
+	via := make([]circuit.PartID, n)
+	depth := make([]int32, n)
+	for i := range depth {
+		depth[i] = -1
+	}
+	var queue []int32
 	for i := range d.Parts {
 		p := &d.Parts[i]
 		for _, start := range p.Pins {
 			s := int32(start)
-			if _, ok := depth[s]; ok || len(adj[s]) == 0 {
+			if depth[s] >= 0 || head[s] < 0 {
 				continue
 			}
 			depth[s] = 0
 			parent[s] = -1
-			queue := []int32{s}
+			queue = append(queue[:0], s)
 			for len(queue) > 0 {
 				x := queue[0]
 				queue = queue[1:]
-				for _, e := range adj[x] {
-					if _, ok := depth[e.to]; ok {
+				for e := head[x]; e >= 0; e = next[e] {
+					to := edges[e].to
+					if depth[to] >= 0 {
 						continue
 					}
-					depth[e.to] = depth[x] + 1
-					parent[e.to] = x
-					via[e.to] = e.part
-					queue = append(queue, e.to)
+					depth[to] = depth[x] + 1
+					parent[to] = x
+					via[to] = edges[e].part
+					queue = append(queue, to)
 				}
 			}
 		}
