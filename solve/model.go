@@ -1,0 +1,99 @@
+package solve
+
+import (
+	"math"
+
+	"nodal/circuit"
+)
+
+// Physical constants, exact in the SI since 2019 (CODATA 2018).
+const (
+	Boltzmann = 1.380649e-23    // J/K
+	Charge    = 1.602176634e-19 // C
+	// RoomTemperature is 25 °C in kelvin.
+	RoomTemperature = 298.15
+	// Leakage is the conductance placed across every junction (S).
+	Leakage = 1e-12
+)
+
+// ThermalVoltage returns kT/q at temperature t in kelvin.
+func ThermalVoltage(t float64) float64 { return Boltzmann * t / Charge }
+
+// Ideality returns a diode's or LED's ideality factor: the one written, or
+// 1 for a diode and 2 for an LED (common practice).
+func Ideality(p *circuit.Part) float64 {
+	if p.Ideality > 0 {
+		return p.Ideality
+	}
+	if p.Kind == circuit.LED {
+		return 2
+	}
+	return 1
+}
+
+// SaturationCurrent returns the Is that makes a junction of ideality n
+// carry p.VFAt at the junction voltage p.VF − p.VFAt·p.Series, and that
+// junction voltage. ok is false when the series resistance alone drops vf.
+func SaturationCurrent(p *circuit.Part, vt float64) (is, vj float64, ok bool) {
+	vj = p.VF - p.VFAt*p.Series
+	if vj <= 0 || p.VFAt <= 0 {
+		return 0, vj, false
+	}
+	is = p.VFAt / math.Expm1(vj/(Ideality(p)*vt))
+	return is, vj, is > 0 && !math.IsInf(is, 0)
+}
+
+// maxArg caps the exponent of the Shockley equation; above it the
+// exponential is continued by its tangent so that nothing overflows.
+const maxArg = 100
+
+// junction is the Newton state of one diode or LED.
+type junction struct {
+	part    circuit.PartID
+	a, c    int32 // junction unknowns: anode side (internal when there is series resistance) and cathode
+	is, nvt float64
+	vref    float64 // junction voltage at the vf point
+	vj      float64 // linearisation point
+	iLin    float64 // current of the last linear solve
+	vLast   float64 // junction voltage of the last linear solve
+	settled bool
+}
+
+// eval returns the Shockley current and its derivative at v.
+func (j *junction) eval(v float64) (id, gd float64) {
+	arg := v / j.nvt
+	if arg > maxArg {
+		e := math.Exp(maxArg)
+		return j.is * (e*(1+arg-maxArg) - 1), j.is * e / j.nvt
+	}
+	e := math.Exp(arg)
+	return j.is * (e - 1), j.is * e / j.nvt
+}
+
+// limit damps a forward step of the junction voltage from j.vj to vraw.
+// A step up of more than 2·n·Vt is replaced by the voltage at which the
+// junction would carry the current its linear model predicts at vraw
+// (current iteration; Vlach & Singhal, Computer Methods for Circuit
+// Analysis and Design, 1983, from memory), and a junction coming up from
+// zero or reverse bias moves at most to its vf point. Steps down are
+// taken whole: the exponential only shrinks.
+func (j *junction) limit(vraw float64) (float64, bool) {
+	vold := j.vj
+	if vraw <= vold+2*j.nvt {
+		return vraw, false
+	}
+	if vold <= 0 {
+		if vraw > j.vref {
+			return j.vref, true
+		}
+		return vraw, false
+	}
+	id, gd := j.eval(vold)
+	ilin := id + gd*(vraw-vold)
+	if ilin <= 0 {
+		return vold + 2*j.nvt, true
+	}
+	v := j.nvt * math.Log1p(ilin/j.is)
+	v = math.Min(math.Max(v, vold), vraw)
+	return v, v != vraw
+}

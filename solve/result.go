@@ -1,0 +1,231 @@
+package solve
+
+import (
+	"fmt"
+	"math"
+	"sort"
+
+	"nodal/circuit"
+	"nodal/units"
+)
+
+func fmtV(v float64) string { return units.Format(v, units.Voltage) }
+func fmtA(v float64) string { return units.Format(v, units.Current) }
+
+// result turns the solved unknowns into net and part values.
+func (m *model) result() *Result {
+	d := m.d
+	r := &Result{
+		NetV: make([]float64, len(d.Nets)),
+		V:    make([]float64, len(d.Parts)), I: make([]float64, len(d.Parts)),
+		P: make([]float64, len(d.Parts)), Junction: make([]float64, len(d.Parts)),
+		Unknowns: m.n, Iterations: m.iters, Cond: m.lin.cond(),
+	}
+	for i, k := range m.node {
+		r.NetV[i] = m.volt(m.x, k)
+	}
+	for k := range m.junc {
+		j := &m.junc[k]
+		r.I[j.part] = j.iLin
+		r.Junction[j.part] = j.vLast
+	}
+	for i := range d.Parts {
+		p := &d.Parts[i]
+		v := r.NetV[p.Pins[0]] - r.NetV[p.Pins[1]]
+		r.V[i] = v
+		switch p.Kind {
+		case circuit.Resistor:
+			r.I[i] = v / p.Value
+		case circuit.Inductor, circuit.Fuse:
+			if p.DCR > 0 {
+				r.I[i] = v / p.DCR
+			}
+		case circuit.VoltageSource:
+			r.I[i] = m.x[m.branch[i]]
+		case circuit.CurrentSource:
+			r.I[i] = p.Value
+		}
+	}
+	m.shortCurrents(r)
+	for i := range d.Parts {
+		r.P[i] = r.V[i] * r.I[i]
+	}
+	return r
+}
+
+// shortCurrents recovers the currents of the merged shorts: over each tree
+// of shorts, a short carries whatever the nets beyond it draw through other
+// parts. Shorts that close a loop of shorts carry 0 A.
+func (m *model) shortCurrents(r *Result) {
+	d := m.d
+	nn := len(d.Nets)
+	out := make([]float64, nn) // current leaving each net through non-tree parts
+	deg := make([]int32, nn+1)
+	any := false
+	for i := range d.Parts {
+		p := &d.Parts[i]
+		if m.tree[i] {
+			deg[p.Pins[0]+1]++
+			deg[p.Pins[1]+1]++
+			any = true
+			continue
+		}
+		out[p.Pins[0]] += r.I[i]
+		out[p.Pins[1]] -= r.I[i]
+	}
+	if !any {
+		return
+	}
+	for i := 0; i < nn; i++ {
+		deg[i+1] += deg[i]
+	}
+	adj := make([]int32, deg[nn])
+	fill := append([]int32(nil), deg[:nn]...)
+	for i := range d.Parts {
+		if m.tree[i] {
+			p := &d.Parts[i]
+			adj[fill[p.Pins[0]]] = int32(i)
+			fill[p.Pins[0]]++
+			adj[fill[p.Pins[1]]] = int32(i)
+			fill[p.Pins[1]]++
+		}
+	}
+	seen := make([]bool, nn)
+	via := make([]int32, nn) // the tree part towards the root
+	var order []int32
+	for s := 0; s < nn; s++ {
+		if seen[s] || deg[s] == deg[s+1] {
+			continue
+		}
+		seen[s] = true
+		via[s] = -1
+		start := len(order)
+		order = append(order, int32(s))
+		for q := start; q < len(order); q++ {
+			u := order[q]
+			for _, e := range adj[deg[u]:deg[u+1]] {
+				p := &d.Parts[e]
+				w := int32(p.Pins[0])
+				if w == u {
+					w = int32(p.Pins[1])
+				}
+				if !seen[w] {
+					seen[w] = true
+					via[w] = e
+					order = append(order, w)
+				}
+			}
+		}
+	}
+	for q := len(order) - 1; q >= 0; q-- {
+		u := order[q]
+		e := via[u]
+		if e < 0 {
+			continue
+		}
+		p := &d.Parts[e]
+		f := out[u] // must flow into u through e
+		parent := p.Pins[0]
+		if int32(parent) == u {
+			parent = p.Pins[1]
+			r.I[e] = -f
+		} else {
+			r.I[e] = f
+		}
+		out[parent] += f
+		out[u] = 0
+	}
+}
+
+// selfCheck verifies Kirchhoff's current law at every net and Tellegen's
+// theorem, and records the residuals.
+func (r *Result) selfCheck(d *circuit.Design) error {
+	res := make([]float64, len(d.Nets))
+	for i := range d.Parts {
+		p := &d.Parts[i]
+		res[p.Pins[0]] += r.I[i]
+		res[p.Pins[1]] -= r.I[i]
+		r.KCLScale = math.Max(r.KCLScale, math.Abs(r.I[i]))
+		// A current worked out from two node voltages is only as precise
+		// as the voltages: scale by what the part would carry with one end
+		// at 0 V.
+		if g := conductance(p); g > 0 {
+			r.KCLScale = math.Max(r.KCLScale, g*math.Max(math.Abs(r.NetV[p.Pins[0]]), math.Abs(r.NetV[p.Pins[1]])))
+		}
+		r.PowerSum += r.P[i]
+		r.PowerScale += math.Abs(r.P[i])
+	}
+	tol := KCLTol * r.KCLScale
+	var bad []circuit.NetID
+	for i, v := range res {
+		r.KCL = math.Max(r.KCL, math.Abs(v))
+		if math.Abs(v) > tol || math.IsNaN(v) {
+			bad = append(bad, circuit.NetID(i))
+		}
+	}
+	if len(bad) > 0 {
+		sort.Slice(bad, func(a, b int) bool { return math.Abs(res[bad[a]]) > math.Abs(res[bad[b]]) })
+		return &Error{Kind: SelfCheck, Nets: bad,
+			Msg: fmt.Sprintf("the solution breaks Kirchhoff's current law: %s does not balance at net %s (largest part current %s)", fmtA(res[bad[0]]), d.Nets[bad[0]].Name, fmtA(r.KCLScale))}
+	}
+	vmax := 0.0
+	for _, v := range r.NetV {
+		vmax = math.Max(vmax, math.Abs(v))
+	}
+	// The powers of a solution that meets KCL to within its residual sum
+	// to at most the largest voltage times the residuals.
+	if math.Abs(r.PowerSum) > TellegenTol*math.Max(r.PowerScale, vmax*r.KCLScale) || math.IsNaN(r.PowerSum) {
+		return &Error{Kind: SelfCheck,
+			Msg: fmt.Sprintf("the part powers sum to %s, not zero (Tellegen's theorem)", units.Format(r.PowerSum, units.Power))}
+	}
+	return nil
+}
+
+// conductance returns the DC conductance of a linear resistive part, or 0.
+func conductance(p *circuit.Part) float64 {
+	switch p.Kind {
+	case circuit.Resistor:
+		return 1 / p.Value
+	case circuit.Inductor, circuit.Fuse:
+		if p.DCR > 0 {
+			return 1 / p.DCR
+		}
+	case circuit.Diode, circuit.LED:
+		if p.Series > 0 {
+			return 1 / p.Series
+		}
+	}
+	return 0
+}
+
+// Span returns the parts with the smallest and largest resistance in d
+// (resistors, dcr of inductors and fuses, series resistance of junctions),
+// for saying why a system is ill-conditioned. ok is false when d has fewer
+// than two such values.
+func Span(d *circuit.Design) (lo, hi circuit.PartID, rlo, rhi float64, ok bool) {
+	rlo, rhi = math.Inf(1), 0
+	n := 0
+	for i := range d.Parts {
+		p := &d.Parts[i]
+		var v float64
+		switch p.Kind {
+		case circuit.Resistor:
+			v = p.Value
+		case circuit.Inductor, circuit.Fuse:
+			v = p.DCR
+		case circuit.Diode, circuit.LED:
+			v = p.Series
+		}
+		if v <= 0 {
+			continue
+		}
+		n++
+		if v < rlo {
+			rlo, lo = v, circuit.PartID(i)
+		}
+		if v > rhi {
+			rhi, hi = v, circuit.PartID(i)
+		}
+	}
+	return lo, hi, rlo, rhi, n >= 2
+}
