@@ -3,7 +3,6 @@ package solve
 import (
 	"fmt"
 	"math"
-	"testing"
 
 	"nodal/circuit"
 	"nodal/diag"
@@ -50,7 +49,13 @@ func (b *builder) wire(a, c string) circuit.PartID {
 	return b.add(circuit.Part{Kind: circuit.Wire}, a, c)
 }
 
-func (b *builder) solve(t testing.TB, opt *Options) *Result {
+// tb is what both *testing.T and *rapid.T offer.
+type tb interface {
+	Helper()
+	Fatalf(format string, args ...any)
+}
+
+func (b *builder) solve(t tb, opt *Options) *Result {
 	t.Helper()
 	r, err := Solve(b.d, opt)
 	if err != nil {
@@ -68,7 +73,7 @@ func near(got, want, rel float64) bool {
 // resistance is the two-point resistance between nets a and c: drive 1 A
 // from a to c outside the network and read V(a) − V(c). c is wired to
 // ground.
-func (b *builder) resistance(t testing.TB, a, c string) float64 {
+func (b *builder) resistance(t tb, a, c string) float64 {
 	t.Helper()
 	b.wire(c, "gnd")
 	b.i("gnd", a, 1)

@@ -99,6 +99,9 @@ type denseSolver struct {
 
 func (d *denseSolver) factor(s *system) error {
 	n := s.n
+	if n == 0 {
+		return nil // every net is ground
+	}
 	if d.a == nil {
 		d.a = mat.NewDense(n, n, nil)
 		d.x = mat.NewVecDense(n, nil)
@@ -136,10 +139,18 @@ func (d *denseSolver) zeroPivot() int {
 }
 
 func (d *denseSolver) solve(x []float64) {
+	if len(x) == 0 {
+		return
+	}
 	copy(d.b.RawVector().Data, x)
 	// The condition error gonum may return is reported by cond, not here.
 	_ = d.lu.SolveVecTo(d.x, false, d.b)
 	copy(x, d.x.RawVector().Data)
 }
 
-func (d *denseSolver) cond() float64 { return d.lu.Cond() }
+func (d *denseSolver) cond() float64 {
+	if d.a == nil {
+		return 1
+	}
+	return d.lu.Cond()
+}

@@ -43,9 +43,13 @@ func SaturationCurrent(p *circuit.Part, vt float64) (is, vj float64, ok bool) {
 	return is, vj, is > 0 && !math.IsInf(is, 0)
 }
 
-// maxArg caps the exponent of the Shockley equation; above it the
-// exponential is continued by its tangent so that nothing overflows.
-const maxArg = 100
+// MaxOverdrive caps the exponent of the Shockley equation at the vf point
+// plus MaxOverdrive·n·Vt, where a junction carries e^20 ≈ 4.9e8 times its vf
+// current; above it the exponential is continued by its tangent, so that
+// nothing overflows and a junction forced hard forward (an LED straight
+// across a supply) still gives a well-scaled system. Any current in that
+// range is far past every rating, and the rating rules say so.
+const MaxOverdrive = 20
 
 // junction is the Newton state of one diode or LED.
 type junction struct {
@@ -62,9 +66,9 @@ type junction struct {
 // eval returns the Shockley current and its derivative at v.
 func (j *junction) eval(v float64) (id, gd float64) {
 	arg := v / j.nvt
-	if arg > maxArg {
-		e := math.Exp(maxArg)
-		return j.is * (e*(1+arg-maxArg) - 1), j.is * e / j.nvt
+	if top := j.vref/j.nvt + MaxOverdrive; arg > top {
+		e := math.Exp(top)
+		return j.is * (e*(1+arg-top) - 1), j.is * e / j.nvt
 	}
 	e := math.Exp(arg)
 	return j.is * (e - 1), j.is * e / j.nvt
@@ -87,6 +91,9 @@ func (j *junction) limit(vraw float64) (float64, bool) {
 			return j.vref, true
 		}
 		return vraw, false
+	}
+	if vold >= j.vref+MaxOverdrive*j.nvt {
+		return vraw, false // the tangent continuation is linear: no damping needed
 	}
 	id, gd := j.eval(vold)
 	ilin := id + gd*(vraw-vold)

@@ -155,7 +155,7 @@ func (r *Result) selfCheck(d *circuit.Design) error {
 		r.PowerSum += r.P[i]
 		r.PowerScale += math.Abs(r.P[i])
 	}
-	tol := KCLTol * r.KCLScale
+	tol := KCLTol*r.KCLScale + 1e-18 // an attoampere floor for circuits with no current at all
 	var bad []circuit.NetID
 	for i, v := range res {
 		r.KCL = math.Max(r.KCL, math.Abs(v))
@@ -174,7 +174,7 @@ func (r *Result) selfCheck(d *circuit.Design) error {
 	}
 	// The powers of a solution that meets KCL to within its residual sum
 	// to at most the largest voltage times the residuals.
-	if math.Abs(r.PowerSum) > TellegenTol*math.Max(r.PowerScale, vmax*r.KCLScale) || math.IsNaN(r.PowerSum) {
+	if math.Abs(r.PowerSum) > TellegenTol*math.Max(r.PowerScale, vmax*r.KCLScale)+1e-24 || math.IsNaN(r.PowerSum) {
 		return &Error{Kind: SelfCheck,
 			Msg: fmt.Sprintf("the part powers sum to %s, not zero (Tellegen's theorem)", units.Format(r.PowerSum, units.Power))}
 	}
