@@ -52,6 +52,7 @@ type Pass struct {
 	Build    *circuit.Result
 	Design   *circuit.Design
 	ResultOf map[*Analyzer]any
+	Config   *Config // never nil while a rule runs
 	report   func(diag.Diagnostic)
 }
 
@@ -74,6 +75,9 @@ func (p *Pass) Reportf(pos, end diag.Pos, format string, args ...any) {
 type Config struct {
 	// Severity overrides a rule's default severity; Off silences it.
 	Severity map[string]diag.Severity
+	// Derating holds the limits of near-rating; zero fields take their
+	// defaults.
+	Derating Derating
 }
 
 func (c *Config) severity(a *Analyzer) (diag.Severity, bool) {
@@ -88,6 +92,9 @@ func (c *Config) severity(a *Analyzer) (diag.Severity, bool) {
 // returns every finding, with configured severities applied.
 func Run(fset *diag.FileSet, b *circuit.Result, analyzers []*Analyzer, cfg *Config) (diag.List, error) {
 	var out diag.List
+	if cfg == nil {
+		cfg = &Config{}
+	}
 	results := map[*Analyzer]any{}
 	done := map[*Analyzer]bool{}
 	var run func(a *Analyzer) error
@@ -108,7 +115,7 @@ func Run(fset *diag.FileSet, b *circuit.Result, analyzers []*Analyzer, cfg *Conf
 		if has && override == diag.Off && a.Severity != diag.Off {
 			return nil
 		}
-		pass := &Pass{Analyzer: a, Fset: fset, Build: b, Design: b.Design, ResultOf: results}
+		pass := &Pass{Analyzer: a, Fset: fset, Build: b, Design: b.Design, ResultOf: results, Config: cfg}
 		pass.report = func(d diag.Diagnostic) {
 			if has {
 				d.Severity = override

@@ -11,6 +11,8 @@ var All = []*Analyzer{
 	MissingParam, ParamUnit, ExpansionLimit, BadInclude,
 	FloatingNet, NoDCPath, SourceLoop, CurrentCutset, ShortedPart, CaseClash,
 	AllowReason, UnusedAllow, BadAllow,
+	SolveFailed, NoConvergence, IllConditioned,
+	OverPower, OverCurrent, OverVoltage, ReverseVoltage, NearRating,
 }
 
 // Lookup returns the rule with the given id, or nil.

@@ -84,6 +84,9 @@ func (l *configLoader) rulesConfig(c *config.Config) *rules.Config {
 		return rc
 	}
 	rc := &rules.Config{Severity: c.Severity}
+	for k, f := range c.Derating {
+		rc.Derating.Set(k, f)
+	}
 	l.rules[c] = rc
 	return rc
 }

@@ -1,0 +1,176 @@
+package rules
+
+// solve.go: the pass that finds the DC operating point, and the rules that
+// say when it could not be found or cannot be trusted.
+
+import (
+	"errors"
+	"fmt"
+
+	"nodal/circuit"
+	"nodal/diag"
+	"nodal/solve"
+	"nodal/units"
+)
+
+// SolveResult is the result of the Solve pass. OP is nil when the solve
+// did not run (the topology rules rejected the design, or the build was
+// incomplete) or failed; Err says why it failed.
+type SolveResult struct {
+	OP  *solve.Result
+	Err error
+	Ran bool
+}
+
+// Solve computes the DC operating point; it reports nothing itself. Its
+// result is a *SolveResult. It runs only on designs whose build is complete
+// and valid and whose topology is well-posed.
+var Solve = &Analyzer{
+	Name:     "solve",
+	Doc:      "DC operating point shared by the rating rules",
+	Requires: []*Analyzer{Topology},
+	Run: func(p *Pass) (any, error) {
+		t := topo(p)
+		if p.Build.Incomplete || p.Build.Invalid || !t.WellPosed() {
+			return &SolveResult{}, nil
+		}
+		for _, id := range t.Shorted {
+			if p.Design.Parts[id].Kind == circuit.VoltageSource {
+				return &SolveResult{}, nil // shorted-part says so
+			}
+		}
+		op, err := solve.Solve(p.Design, nil)
+		var se *solve.Error
+		if errors.As(err, &se) && se.Kind == solve.TooLarge {
+			return &SolveResult{}, nil
+		}
+		if err != nil {
+			return &SolveResult{Err: err, Ran: true}, nil
+		}
+		return &SolveResult{OP: op, Ran: true}, nil
+	},
+}
+
+func solved(p *Pass) *SolveResult { return p.ResultOf[Solve].(*SolveResult) }
+
+func op(p *Pass) *solve.Result { return solved(p).OP }
+
+// failure reports a solve error at the first place it names.
+func failure(p *Pass, e *solve.Error, msg string) {
+	d := p.Design
+	dg := diag.Diagnostic{Message: msg}
+	for _, id := range e.Parts {
+		q := &d.Parts[id]
+		if !dg.Pos.IsValid() {
+			dg.Pos, dg.End = q.Pos, q.End
+			continue
+		}
+		dg.Related = append(dg.Related, diag.Related{Pos: q.Pos, End: q.End, Message: q.Name + " is involved"})
+	}
+	for _, n := range e.Nets {
+		net := &d.Nets[n]
+		if !dg.Pos.IsValid() {
+			dg.Pos, dg.End = net.Pos, net.End
+			continue
+		}
+		if len(dg.Related) < 10 {
+			dg.Related = append(dg.Related, diag.Related{Pos: net.Pos, End: net.End, Message: "net " + netName(d, n) + " is involved"})
+		}
+	}
+	if !dg.Pos.IsValid() && len(d.Parts) > 0 {
+		dg.Pos, dg.End = d.Parts[0].Pos, d.Parts[0].End
+	}
+	p.Report(dg)
+}
+
+func partNames(d *circuit.Design, ids []circuit.PartID, max int) string {
+	s := ""
+	for i, id := range ids {
+		if i == max {
+			s += fmt.Sprintf(" and %d more", len(ids)-max)
+			break
+		}
+		if i > 0 {
+			s += ", "
+		}
+		s += d.Parts[id].Name
+	}
+	return s
+}
+
+// SolveFailed reports a design the topology rules accept but that the
+// solver could not solve, or whose solution fails its self-checks.
+var SolveFailed = &Analyzer{
+	Name:     "solve-failed",
+	Severity: diag.Error,
+	Requires: []*Analyzer{Solve},
+	Doc: `the DC operating point could not be found or failed its self-checks
+The topology rules found nothing wrong, yet the equations were singular, a
+part could not be modelled, or the solution broke Kirchhoff's current law
+or Tellegen's theorem. The finding names the nets or parts involved.`,
+	Run: func(p *Pass) (any, error) {
+		var se *solve.Error
+		if err := solved(p).Err; errors.As(err, &se) && se.Kind != solve.NoConvergence {
+			msg := "the DC operating point could not be found: " + se.Msg
+			if len(se.Nets) > 0 {
+				msg += " (nets " + netList(p.Design, se.Nets, 5) + ")"
+			}
+			failure(p, se, msg)
+		}
+		return nil, nil
+	},
+}
+
+// NoConvergence reports diodes and LEDs that did not settle.
+var NoConvergence = &Analyzer{
+	Name:     "no-convergence",
+	Severity: diag.Error,
+	Requires: []*Analyzer{Solve},
+	Doc: `the nonlinear parts did not settle on an operating point
+Newton–Raphson, then gmin stepping, then source stepping were tried, each
+with an iteration cap; the diodes and LEDs named did not settle.`,
+	Run: func(p *Pass) (any, error) {
+		var se *solve.Error
+		if err := solved(p).Err; errors.As(err, &se) && se.Kind == solve.NoConvergence {
+			failure(p, &solve.Error{Parts: se.Parts}, fmt.Sprintf("%s; these parts did not settle: %s", se.Msg, partNames(p.Design, se.Parts, 8)))
+		}
+		return nil, nil
+	},
+}
+
+// IllConditionedLimit is the condition number above which results are
+// flagged: a solve then keeps about four of the sixteen significant digits
+// of a float64 (forward error ≲ κ·u; Higham, Accuracy and Stability of
+// Numerical Algorithms, 2nd ed., 2002).
+const IllConditionedLimit = 1e12
+
+// IllConditioned warns when the equations are so ill-conditioned that the
+// solved values may have lost their accuracy.
+var IllConditioned = &Analyzer{
+	Name:     "ill-conditioned",
+	Severity: diag.Warning,
+	Requires: []*Analyzer{Solve},
+	Doc: `the equations are so ill-conditioned that the results may be inaccurate
+The condition number of the final system is estimated; above 1e12 the
+solved voltages and currents may have lost most of their digits. The usual
+cause is part values spanning many decades.`,
+	Run: func(p *Pass) (any, error) {
+		r := op(p)
+		if r == nil || !(r.Cond > IllConditionedLimit) {
+			return nil, nil
+		}
+		d := p.Design
+		msg := fmt.Sprintf("the equations are ill-conditioned (condition number about %.1e), so the solved values may be inaccurate", r.Cond)
+		lo, hi, rlo, rhi, ok := solve.Span(d)
+		if !ok {
+			first := &d.Parts[0]
+			p.Reportf(first.Pos, first.End, "%s", msg)
+			return nil, nil
+		}
+		a, b := &d.Parts[lo], &d.Parts[hi]
+		p.Report(diag.Diagnostic{Pos: a.Pos, End: a.End,
+			Message: fmt.Sprintf("%s; resistances span %s (%s) to %s (%s)", msg, units.Format(rlo, units.Resistance), a.Name, units.Format(rhi, units.Resistance), b.Name),
+			Related: []diag.Related{{Pos: b.Pos, End: b.End, Message: b.Name + " is the largest resistance"}}})
+		return nil, nil
+	},
+}
