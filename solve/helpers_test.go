@@ -77,6 +77,6 @@ func (b *builder) resistance(t tb, a, c string) float64 {
 	t.Helper()
 	b.wire(c, "gnd")
 	b.i("gnd", a, 1)
-	r := b.solve(t, nil)
+	r := b.solve(t, &Options{Dense: true})
 	return b.volts(r, a) - b.volts(r, c)
 }

@@ -78,7 +78,7 @@ const (
 
 // MaxDense is the largest system solved with the dense LU when no sparse
 // solver is available.
-const MaxDense = 2000
+const MaxDense = 600
 
 // Newton iteration caps.
 const (

@@ -304,7 +304,7 @@ func (g *Random) Write(out io.Writer) error {
 		case 2:
 			x.i(1 + r.IntN(999)).s(" Ω tol 1%")
 		default:
-			x.i(1 + r.IntN(99)).s(" mΩ rated 0.25 W")
+			x.i(1 + r.IntN(99)).s(" mΩ")
 		}
 		x.end()
 		part++
