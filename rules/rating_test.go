@@ -1,70 +1,11 @@
 package rules_test
 
 import (
-	"flag"
-	"os"
-	"path/filepath"
-	"strings"
 	"testing"
 
 	"nodal/check"
-	"nodal/diag"
 	"nodal/rules"
 )
-
-var update = flag.Bool("update", false, "rewrite the golden files under testdata/rules")
-
-// TestRuleFiles checks every testdata/rules/<rule-id>/ folder: fires.nodal
-// must raise the rule and near-miss.nodal must not, each with exactly the
-// findings in its .golden file.
-func TestRuleFiles(t *testing.T) {
-	dirs, err := filepath.Glob("../testdata/rules/*")
-	if err != nil || len(dirs) == 0 {
-		t.Fatalf("no rule folders: %v", err)
-	}
-	for _, dir := range dirs {
-		rule := filepath.Base(dir)
-		for _, name := range []string{"fires", "near-miss"} {
-			src, err := os.ReadFile(filepath.Join(dir, name+".nodal"))
-			if err != nil {
-				t.Errorf("%s: %v", rule, err)
-				continue
-			}
-			path := filepath.ToSlash(filepath.Join("testdata/rules", rule, name+".nodal"))
-			res, err := check.Source(path, src, nil)
-			if err != nil {
-				t.Fatalf("%s: %v", path, err)
-			}
-			var b strings.Builder
-			fired := false
-			for _, d := range res.Diags {
-				b.WriteString(diag.Format(res.Fset, d) + "\n")
-				fired = fired || d.Rule == rule
-			}
-			if name == "fires" && !fired {
-				t.Errorf("%s does not raise %s:\n%s", path, rule, b.String())
-			}
-			if name == "near-miss" && fired {
-				t.Errorf("%s raises %s:\n%s", path, rule, b.String())
-			}
-			golden := filepath.Join(dir, name+".golden")
-			if *update {
-				if err := os.WriteFile(golden, []byte(b.String()), 0o644); err != nil {
-					t.Fatal(err)
-				}
-				continue
-			}
-			want, err := os.ReadFile(golden)
-			if err != nil {
-				t.Errorf("%v (go test ./rules -update writes it)", err)
-				continue
-			}
-			if b.String() != string(want) {
-				t.Errorf("%s: got\n%s\nwant\n%s", path, b.String(), want)
-			}
-		}
-	}
-}
 
 // TestDeratingConfig: a project's derating limit replaces the default.
 func TestDeratingConfig(t *testing.T) {
