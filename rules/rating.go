@@ -237,7 +237,7 @@ current 80 %, fuse current 75 %, supply current 90 %.`,
 			q := &d.Parts[i]
 			for _, u := range Uses(q, r.V[i], r.I[i], r.P[i]) {
 				lim := p.Config.Derating.limit(q.Kind, u.What)
-				if lim > 0 && u.Frac > lim && u.Frac <= overLimit {
+				if lim > 0 && u.Frac > lim*overLimit && u.Frac <= overLimit { // a part exactly at the limit is not past it
 					p.Reportf(q.Pos, q.End, "%s, past the %s derating limit", describeUse(q, u), units.FormatPercent(lim))
 				}
 			}
