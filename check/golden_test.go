@@ -8,6 +8,7 @@ import (
 	"testing"
 
 	"nodal/diag"
+	"nodal/rules"
 )
 
 var update = flag.Bool("update", false, "rewrite the golden files under testdata/rules")
@@ -63,5 +64,26 @@ func TestRuleGoldens(t *testing.T) {
 	}
 	if n == 0 {
 		t.Fatal("no golden pairs under testdata/rules")
+	}
+}
+
+// TestEveryRuleHasGoldens fails when a registered rule has no firing file
+// or no near miss under testdata/rules, or a folder names no rule.
+func TestEveryRuleHasGoldens(t *testing.T) {
+	for _, a := range rules.All {
+		for _, base := range []string{"fires", "near_miss"} {
+			for _, ext := range []string{".nodal", ".golden"} {
+				f := filepath.Join("..", "testdata", "rules", a.Name, base+ext)
+				if _, err := os.Stat(f); err != nil {
+					t.Errorf("rule %s: %v", a.Name, err)
+				}
+			}
+		}
+	}
+	dirs, _ := filepath.Glob(filepath.Join("..", "testdata", "rules", "*"))
+	for _, d := range dirs {
+		if rules.Lookup(filepath.Base(d)) == nil {
+			t.Errorf("%s: no registered rule has this id", d)
+		}
 	}
 }

@@ -25,6 +25,9 @@ type Result struct {
 	// Included lists the files brought in by include, in the order they
 	// were first read, each once.
 	Included []SourceFile
+	// Unsure holds the net names that a line which did not parse may have
+	// used: such a net may have more pins than the design shows.
+	Unsure map[string]bool
 }
 
 // SourceFile is an included file with its text and comments (for allow
@@ -168,6 +171,12 @@ func (b *builder) syntaxErrors(ast *grammar.File) {
 		}
 		b.report("syntax", diag.Error, b.file.Pos(clamp(e.Offset, b.file.Size())), b.file.Pos(clamp(end, b.file.Size())), "%s", e.Msg)
 		b.r.Incomplete = true
+		for _, w := range e.Words {
+			if b.r.Unsure == nil {
+				b.r.Unsure = map[string]bool{}
+			}
+			b.r.Unsure[netName(w)] = true
+		}
 	}
 }
 
@@ -292,6 +301,12 @@ func (b *builder) part(sc *scope, st *bodyStmt, nets []NetID) {
 	// Value first: for a source its unit decides the kind, and so the pins.
 	if !b.value(&p, pt) {
 		b.r.Invalid = true
+		if p.Kind == VoltageSource {
+			// Without a usable value a source is neither kind: its
+			// pins cannot be placed.
+			b.countOnly(nets)
+			return
+		}
 	}
 	info := p.Kind.Info()
 	if !b.pins(&p, pt, nets, info) {
@@ -319,7 +334,7 @@ func (b *builder) countOnly(nets []NetID) {
 func (b *builder) pins(p *Part, pt *grammar.Part, nets []NetID, info *KindInfo) bool {
 	word := pt.Kind.Text
 	if len(pt.Pins) != 2 {
-		b.report("pin-count", diag.Error, p.Pos, p.End, "%s %s has %d pin(s); a %s has two: (%s, %s)", word, p.Name, len(pt.Pins), p.Kind, info.Pins[0], info.Pins[1])
+		b.report("pin-count", diag.Error, p.Pos, p.End, "%s %s has %d pin(s); %s has two: (%s, %s)", word, p.Name, len(pt.Pins), article(p.Kind.String()), info.Pins[0], info.Pins[1])
 		return false
 	}
 	var set [2]bool
@@ -437,6 +452,16 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 		b.report("bad-value", diag.Error, p.Pos, p.End, "%s %s: %s is a switch state, not a %s", word, p.Name, v.Word, info.Value.Noun())
 		return false
 	}
+	if w := unitWord(pt); w != "" {
+		// "1 meg", "10 k", "5 ohms": a word after a bare number that is
+		// no attribute was meant as its unit.
+		_, err := units.Parse(v.Num, w)
+		if err == nil {
+			err = &units.Error{Msg: fmt.Sprintf("%q is not a unit", v.Num+" "+w)}
+		}
+		b.report("unit-mismatch", diag.Error, p.Pos, p.End, "%s %s: %s", word, p.Name, err)
+		return false
+	}
 	q, err := b.quantity(v)
 	if err != nil {
 		rule, silent := errRule(err)
@@ -469,7 +494,7 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 		if q.Dim == units.None {
 			b.report(um, diag.Error, p.Pos, p.End, "%s %s: %s has no unit; write %s %s", word, p.Name, b.describe(v), b.describe(v), info.Value.Symbol())
 		} else {
-			b.report(um, diag.Error, p.Pos, p.End, "%s %s is given as a %s (%s); a %s takes a %s in %s", word, p.Name, q.Dim.Noun(), b.describeQ(v, q), word, info.Value.Noun(), info.Value.Symbol())
+			b.report(um, diag.Error, p.Pos, p.End, "%s %s is given as a %s (%s); %s takes a %s in %s", word, p.Name, q.Dim.Noun(), b.describeQ(v, q), article(word), info.Value.Noun(), info.Value.Symbol())
 		}
 		return false
 	}
@@ -484,6 +509,21 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 		return false
 	}
 	return true
+}
+
+// unitWord returns the word written right after a value that has a number
+// but no unit, when that word is not an attribute: the writer meant it as
+// the unit ("1 meg", "10 k").
+func unitWord(pt *grammar.Part) string {
+	v := pt.Value
+	if v == nil || v.Num == "" || v.Unit != "" || len(pt.Attrs) == 0 {
+		return ""
+	}
+	a := pt.Attrs[0]
+	if _, known := attrKinds[a.Key.Text]; known || len(a.Values) > 0 || a.At != nil || strings.HasPrefix(a.Key.Text, "\"") {
+		return ""
+	}
+	return a.Key.Text
 }
 
 var attrKinds = map[string]string{
@@ -504,7 +544,11 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
 		b.report(rule, diag.Error, p.Pos, p.End, "%s %s: %s", word, p.Name, fmt.Sprintf(format, args...))
 		ok = false
 	}
-	for _, a := range pt.Attrs {
+	attrs := pt.Attrs
+	if unitWord(pt) != "" {
+		attrs = attrs[1:] // reported with the value
+	}
+	for _, a := range attrs {
 		key := a.Key.Text
 		kinds, knownAttr := attrKinds[key]
 		if !knownAttr {
@@ -513,7 +557,7 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
 			continue
 		}
 		if key != "rated" && !contains(info.Attrs, key) {
-			bad("bad-attribute", "a %s takes no %s (%s is for: %s)", p.Kind, key, key, kinds)
+			bad("bad-attribute", "%s takes no %s (%s is for: %s)", article(p.Kind.String()), key, key, kinds)
 			continue
 		}
 		if seen[key] {
@@ -613,7 +657,7 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
 		case "rated":
 			for i, r := range qs {
 				if r.Percent || !containsDim(info.Ratings, r.Dim) {
-					bad(um, "rated %s: a %s is rated in %s", b.describe(a.Values[i]), p.Kind, dimList(info.Ratings))
+					bad(um, "rated %s: %s is rated in %s", b.describe(a.Values[i]), article(p.Kind.String()), dimList(info.Ratings))
 					continue
 				}
 				if r.Value <= 0 {
@@ -641,6 +685,18 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
 		bad("missing-value", "needs its forward voltage: vf 0.7 V at 10 mA")
 	}
 	return ok
+}
+
+// article puts "a" or "an" before a kind: "an inductor", "a led" is
+// written "an LED".
+func article(kind string) string {
+	switch {
+	case kind == "led":
+		return "an LED"
+	case strings.IndexByte("aeiou", kind[0]) >= 0:
+		return "an " + kind
+	}
+	return "a " + kind
 }
 
 func contains(list []string, s string) bool {

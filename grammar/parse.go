@@ -53,6 +53,10 @@ type SyntaxError struct {
 	End    int
 	Line   int
 	Msg    string
+	// Words are the names and quoted strings on the line, so that later
+	// stages can tell a net the broken line may have used from one that
+	// is really alone.
+	Words []string
 }
 
 func (e *SyntaxError) Error() string { return fmt.Sprintf("%d: %s", e.Line, e.Msg) }
@@ -197,11 +201,22 @@ func parseLine(toks []lexer.Token) (*Statement, *SyntaxError) {
 	if err == nil {
 		return st, nil
 	}
-	return nil, syntaxError(err, toks)
+	se := syntaxError(err, toks)
+	for _, t := range toks {
+		switch t.Type {
+		case TokIdent, TokString, TokCode, TokUnit, TokAttrWord:
+			se.Words = append(se.Words, t.Value)
+		}
+	}
+	return nil, se
 }
 
 // syntaxError words a participle error in the project's terms.
 func syntaxError(err error, toks []lexer.Token) *SyntaxError {
+	if at, expect, ok := explain(toks); ok && at < len(toks) {
+		t := toks[at]
+		return &SyntaxError{Offset: t.Pos.Offset, End: t.Pos.Offset + len(t.Value), Line: t.Pos.Line, Msg: describeUnexpected(t, expect)}
+	}
 	pos := toks[0].Pos
 	msg := err.Error()
 	var unexpected *participle.UnexpectedTokenError

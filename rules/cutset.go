@@ -48,7 +48,7 @@ capacitors touch.`,
 			if len(c.Nets) > 1 {
 				which = "nets " + netList(d, c.Nets, 8) + " are"
 			}
-			dg.Message = fmt.Sprintf("%s reached only through current sources (%s): %s flows in on balance, so Kirchhoff's current law cannot hold", which, strings.Join(srcs, ", "), units.Format(c.Net, units.Current))
+			dg.Message = fmt.Sprintf("%s reached only through current sources (%s): the currents into it sum to %s, not zero, so Kirchhoff's current law cannot hold", which, strings.Join(srcs, ", "), units.Format(c.Net, units.Current))
 			p.Report(dg)
 		}
 		return nil, nil

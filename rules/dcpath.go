@@ -22,9 +22,15 @@ operating point cannot be solved. Each island is listed once.`,
 		}
 		t := topo(p)
 		d := p.Design
+		// A set with unbalanced current sources is reported by
+		// current-cutset, which says more.
+		cut := map[int32]bool{}
+		for _, c := range t.Cutsets {
+			cut[t.DCGroup[c.Nets[0]]] = true
+		}
 		for _, is := range t.NoDCPath {
-			if is.AllFloating {
-				continue // floating-net has said it
+			if is.AllFloating || cut[t.DCGroup[is.Nets[0]]] {
+				continue // floating-net or current-cutset has said it
 			}
 			first := &d.Nets[is.Nets[0]]
 			what := "net " + netList(d, is.Nets, 8) + " has"

@@ -39,6 +39,9 @@ mean".`,
 		k := 0
 		for _, n := range t.Floating {
 			net := &d.Nets[n]
+			if p.Build.Unsure[net.Name] {
+				continue // a line that did not parse may use it too
+			}
 			if g, ok := shared[net.Pos]; ok {
 				if g.nets[0] == n {
 					reportShared(p, g, owner)
@@ -48,7 +51,7 @@ mean".`,
 			msg := "net " + netName(d, n) + " touches only one pin"
 			if o, ok := owner[n]; ok {
 				part := &d.Parts[o.part]
-				msg += " (" + part.Name + " " + part.Kind.Info().Pins[o.pin] + ")"
+				msg += " (pin " + part.Kind.Info().Pins[o.pin] + " of " + part.Name + ")"
 			}
 			// Suggestions compare against every net; keep that bounded.
 			s := ""

@@ -345,17 +345,19 @@ func roundSig(m float64, n int) float64 {
 	return r
 }
 
-// trimNum prints three significant figures without an exponent.
+// trimNum prints three significant figures without an exponent, rounding
+// halves away from zero (312.5 → 313).
 func trimNum(m float64) string {
 	a := math.Abs(roundSig(m, 3))
+	d := 2
 	switch {
 	case a >= 100:
-		return strconv.FormatFloat(m, 'f', 0, 64)
+		d = 0
 	case a >= 10:
-		return strconv.FormatFloat(m, 'f', 1, 64)
-	default:
-		return strconv.FormatFloat(m, 'f', 2, 64)
+		d = 1
 	}
+	p := math.Pow(10, float64(d))
+	return strconv.FormatFloat(math.Round(m*p)/p, 'f', d, 64)
 }
 
 // FormatPercent prints a fraction as a percentage: 1.25 → "125 %".

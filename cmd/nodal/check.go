@@ -25,9 +25,10 @@ import (
 
 const checkUsage = `Usage: nodal check [flags] [PATH ...]
 
-Checks each named .nodal file, and every *.nodal file below each named
-folder (default: the current folder). "-" reads a design from standard
-input. Files are checked independently, on every core, and one broken file
+Checks each named .nodal file, and every *.nodal file in each named folder
+and its subfolders (default: the current folder; folders whose names start
+with "." are skipped). "-" reads a design from standard input, named
+<stdin> in the output. Files are checked independently, on every core, and one broken file
 does not stop the others.
 
 Named files that do not end in .nodal are skipped quietly, so the file list
@@ -41,8 +42,11 @@ The text form is one finding per line, the form editors parse:
   path:line:col: severity: message [rule-id]
 
 sorted by path, line and column. Lines and columns count from 1; columns
-count bytes. Severities are error, warning and note. A summary line goes to
-standard error. --format json, sarif and markdown write a JSON document, a
+count bytes. Severities are error, warning and note; "nodal rules" lists
+the rules. The severity is coloured only when standard output is a
+terminal; --no-color or a non-empty NO_COLOR environment variable turns
+colour off. A closing summary line (counts by severity, files checked) goes
+to standard error. --format json, sarif and markdown write a JSON document, a
 SARIF 2.1.0 log and a pull-request summary instead.
 
 Settings come from the nodal.toml in each file's folder or the nearest one
@@ -97,15 +101,16 @@ func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	fl.IntVar(&cf.jobs, "jobs", runtime.GOMAXPROCS(0), "how many files to check at once")
 	fl.IntVar(&cf.limits.maxDepth, "max-depth", circuit.DefaultMaxDepth, "refuse designs whose block instances nest deeper than this")
 	fl.Int64Var(&cf.limits.maxParts, "max-parts", circuit.DefaultMaxParts, "refuse designs that expand to more parts and instances than this")
-	fl.Usage = func() {
-		fmt.Fprint(stderr, checkUsage)
-		fl.PrintDefaults()
-	}
+	fl.Usage = func() {} // printed below: to stdout for --help, else stderr
 	if err := fl.Parse(args); err != nil {
+		out := stderr
 		if errors.Is(err, flag.ErrHelp) {
-			fl.SetOutput(stdout)
-			fmt.Fprint(stdout, checkUsage)
-			fl.PrintDefaults()
+			out = stdout
+		}
+		fl.SetOutput(out)
+		fmt.Fprint(out, checkUsage)
+		fl.PrintDefaults()
+		if out == stdout {
 			return 0
 		}
 		return 2
@@ -271,7 +276,15 @@ type fileResult struct {
 	err      string
 }
 
-func checkOne(u unit, stdinSrc []byte, read reader, loader *configLoader, lim limits) fileResult {
+// checkOne checks one file. A panic anywhere in the pipeline becomes an
+// internal error for that file (exit 2), so that one file that trips a bug
+// neither takes the others down nor prints a stack trace.
+func checkOne(u unit, stdinSrc []byte, read reader, loader *configLoader, lim limits) (out fileResult) {
+	defer func() {
+		if r := recover(); r != nil {
+			out = fileResult{checked: true, err: fmt.Sprintf("nodal: %s: internal error: %v (please report it with the file that caused it)", u.name, r)}
+		}
+	}()
 	var src []byte
 	var err error
 	if u.stdin {
@@ -285,8 +298,8 @@ func checkOne(u unit, stdinSrc []byte, read reader, loader *configLoader, lim li
 	// Includes are read the same way as the file: from disk, or from git's
 	// index with --staged.
 	opts := &check.Options{Config: loader.rulesConfig(u.cfg), ReadFile: read, MaxDepth: lim.maxDepth, MaxParts: lim.maxParts}
-	res, err := check.Source(u.name, src, opts)
-	out := fileResult{checked: true, sources: map[string][]byte{u.name: src}}
+	res, err := checkSource(u.name, src, opts)
+	out = fileResult{checked: true, sources: map[string][]byte{u.name: src}}
 	if res != nil {
 		for _, f := range res.Build.Included {
 			out.sources[f.File.Name()] = f.Src
@@ -300,6 +313,9 @@ func checkOne(u unit, stdinSrc []byte, read reader, loader *configLoader, lim li
 	}
 	return out
 }
+
+// checkSource is check.Source; tests replace it to reach the recovery path.
+var checkSource = check.Source
 
 func contains(list []string, s string) bool {
 	for _, x := range list {

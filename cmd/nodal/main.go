@@ -11,7 +11,9 @@ import (
 
 const version = "0.1.0"
 
-const usage = `nodal checks circuits written as plain text (.nodal files).
+const usage = `nodal checks circuits written as plain text (.nodal files) for wiring that
+breaks Kirchhoff's laws, parts left doing nothing and values in the wrong
+units.
 
 Usage:
   nodal check [flags] [PATH ...]   check files and folders (default: .)
@@ -20,8 +22,18 @@ Usage:
   nodal version                    print the version
   nodal help [COMMAND]             show help
 
-Run "nodal check --help" for the check flags. nodal is a design aid, not a
-sign-off: it does not replace review by a qualified person.
+nodal check reads every *.nodal file in the folders it is given (and their
+subfolders), or standard input for "-". It prints one line per finding,
+"path:line:col: severity: message [rule-id]", sorted by path, line and
+column, coloured only on a terminal (--no-color or NO_COLOR turns colour
+off), and a summary line on standard error.
+
+Exit status: 0 no errors, 1 findings at error level, 2 usage or I/O
+trouble. Run "nodal check --help" for the details.
+
+nodal is a design aid, not a sign-off: it does not replace review by a
+qualified person. Mains voltage and battery energy can injure; follow local
+codes and licensed practice.
 `
 
 func main() {

@@ -1,0 +1,237 @@
+package grammar
+
+// explain.go: what a rejected line was expected to hold. Participle reports
+// the token it could not use, but after backtracking over optional groups it
+// rarely knows what would have fitted. The statement shapes are few and
+// fixed, so a small walk over the line's tokens finds the first place the
+// line leaves its shape and names what belongs there ("expected , or )").
+
+import "github.com/alecthomas/participle/v2/lexer"
+
+// isName reports whether t can be a name in the grammar: a word, a unit or
+// code that is also a word, an attribute word, or a quoted string.
+func nameLike(t lexer.Token) bool {
+	switch t.Type {
+	case TokIdent, TokUnit, TokCode, TokAttrWord, TokString:
+		return true
+	}
+	return false
+}
+
+func punctIs(t lexer.Token, s string) bool { return t.Type == TokPunct && t.Value == s }
+
+type walker struct {
+	toks []lexer.Token
+	i    int
+}
+
+func (w *walker) peek() lexer.Token {
+	if w.i < len(w.toks) {
+		return w.toks[w.i]
+	}
+	return lexer.Token{Type: TokEOF}
+}
+
+func (w *walker) eol() bool { return w.peek().Type == TokEOF }
+
+// explain returns the index of the first token where the line leaves the
+// shape of its statement, and what was expected there. ok is false when the
+// walk finds nothing wrong (or the statement is one it does not know, such
+// as a block header), and the caller falls back to participle's report.
+func explain(toks []lexer.Token) (at int, expect string, ok bool) {
+	w := &walker{toks: toks}
+	fail := func(e string) (int, string, bool) { return w.i, e, true }
+	t := w.peek()
+	switch {
+	case t.Type == TokKeyword && t.Value == "design":
+		w.i++
+		if !nameLike(w.peek()) || w.peek().Type == TokString {
+			return fail("the design's name (design NAME \"title\")")
+		}
+		w.i++
+		if w.peek().Type == TokString {
+			w.i++
+		}
+		if !w.eol() {
+			return fail("end of line after the design header")
+		}
+		return 0, "", false
+	case t.Type == TokKeyword && t.Value == "ground":
+		w.i++
+		if !nameLike(w.peek()) {
+			return fail("the name of the ground net (ground gnd)")
+		}
+		w.i++
+		if !w.eol() {
+			return fail("end of line: ground names one net")
+		}
+		return 0, "", false
+	case t.Type == TokKeyword && t.Value == "port":
+		w.i++
+		for {
+			if !nameLike(w.peek()) {
+				return fail("a net name")
+			}
+			w.i++
+			if w.eol() {
+				return 0, "", false
+			}
+			if !punctIs(w.peek(), ",") {
+				return fail(", or end of line")
+			}
+			w.i++
+		}
+	case t.Type == TokKeyword && t.Value == "include":
+		w.i++
+		if w.peek().Type != TokString {
+			return fail("a file name in double quotes")
+		}
+		w.i++
+		if !w.eol() {
+			return fail("end of line after the file name")
+		}
+		return 0, "", false
+	case t.Type == TokKeyword:
+		return 0, "", false // block and param: the hierarchy's grammar
+	case punctIs(t, "}"):
+		w.i++
+		if !w.eol() {
+			return fail("end of line after }")
+		}
+		return 0, "", false
+	case nameLike(t) && t.Type != TokString:
+		return w.part()
+	}
+	return 0, "a statement: a part (KIND NAME (NET, NET) VALUE ...), ground, port or design", true
+}
+
+func (w *walker) part() (int, string, bool) {
+	fail := func(e string) (int, string, bool) { return w.i, e, true }
+	kind := w.peek().Value
+	w.i++
+	if punctIs(w.peek(), "(") {
+		return fail("a part name after the kind " + kind + " (KIND NAME (NET, NET) VALUE)")
+	}
+	if !nameLike(w.peek()) || w.peek().Type == TokString {
+		return fail("a part name after " + kind)
+	}
+	w.i++
+	if !punctIs(w.peek(), "(") {
+		return fail("( and the part's nets")
+	}
+	w.i++
+	if punctIs(w.peek(), ")") {
+		w.i++
+	} else {
+		for {
+			if !nameLike(w.peek()) {
+				return fail("a net name")
+			}
+			w.i++
+			if punctIs(w.peek(), "=") {
+				w.i++
+				if !nameLike(w.peek()) {
+					return fail("a net name after =")
+				}
+				w.i++
+			}
+			if punctIs(w.peek(), ")") {
+				w.i++
+				break
+			}
+			if !punctIs(w.peek(), ",") {
+				return fail(", or )")
+			}
+			w.i++
+		}
+	}
+	if punctIs(w.peek(), "[") {
+		return 0, "", false // block parameters: the hierarchy's grammar
+	}
+	// The value.
+	hasValue := w.startsValue()
+	if at, e, ok := w.value(false); ok {
+		return at, e, ok
+	}
+	// Attributes.
+	for !w.eol() {
+		t := w.peek()
+		if !nameLike(t) || t.Type == TokString {
+			if !hasValue {
+				return fail("a value, an attribute (tol, rated, vf, ideality, series, dcr) or end of line")
+			}
+			return fail("an attribute (tol, rated, vf, ideality, series, dcr) or end of line")
+		}
+		key := t.Value
+		w.i++
+		if w.startsValue() {
+			for {
+				if at, e, ok := w.value(true); ok {
+					return at, e, ok
+				}
+				if !punctIs(w.peek(), ",") {
+					break
+				}
+				w.i++
+				if !w.startsValue() {
+					return fail("another value after , in " + key)
+				}
+			}
+		}
+		if w.peek().Type == TokAttrWord && w.peek().Value == "at" && key != "at" {
+			w.i++
+			if !w.startsValue() {
+				return fail("the current after at (vf 2.0 V at 20 mA)")
+			}
+			if at, e, ok := w.value(true); ok {
+				return at, e, ok
+			}
+		}
+	}
+	return 0, "", false
+}
+
+func (w *walker) startsValue() bool {
+	t := w.peek()
+	return t.Type == TokNumber || t.Type == TokCode || punctIs(t, "-") || punctIs(t, "{") ||
+		t.Type == TokAttrWord && (t.Value == "open" || t.Value == "closed")
+}
+
+// value walks an optional value; with required set the value must be there.
+// It reports ok when it found something wrong.
+func (w *walker) value(required bool) (int, string, bool) {
+	fail := func(e string) (int, string, bool) { return w.i, e, true }
+	t := w.peek()
+	switch {
+	case punctIs(t, "-"):
+		w.i++
+		if w.peek().Type != TokNumber {
+			return fail("a number after -")
+		}
+		w.i++
+		if w.peek().Type == TokUnit {
+			w.i++
+		}
+	case t.Type == TokNumber:
+		w.i++
+		if w.peek().Type == TokUnit {
+			w.i++
+		}
+	case t.Type == TokCode, t.Type == TokAttrWord && (t.Value == "open" || t.Value == "closed"):
+		w.i++
+	case punctIs(t, "{"):
+		// an expression: leave it to participle
+		for !w.eol() && !punctIs(w.peek(), "}") {
+			w.i++
+		}
+		if w.eol() {
+			return fail("} to close the expression")
+		}
+		w.i++
+	default:
+		if required {
+			return fail("a value")
+		}
+	}
+	return 0, "", false
+}
