@@ -6,6 +6,7 @@
 //	nodal-gen mesh -k 700 -matrix g.mtx -rhs b.mtx > mesh.nodal
 //	nodal-gen ladder -n 500000 > ladder.nodal
 //	nodal-gen random -parts 1000000 -seed 7 > random.nodal
+//	nodal-gen blocks -n 250000 > chain.nodal
 package main
 
 import (
@@ -23,6 +24,7 @@ Kinds:
   mesh     K×K resistor mesh with corner supplies and spread current loads
   ladder   N-rung resistor ladder fed by one source
   random   random well-posed network of about -parts parts
+  blocks   chain of -n instances of one block (hierarchy)
 
 Run "nodal-gen KIND -h" for a kind's flags.
 `
@@ -70,6 +72,12 @@ func run(args []string, stdout, stderr io.Writer) int {
 			return 2
 		}
 		err = (&gen.Ladder{N: *n, Seed: *seed}).Write(stdout)
+	case "blocks":
+		n := fl.Int("n", 1000, "block instances")
+		if fl.Parse(args[1:]) != nil {
+			return 2
+		}
+		err = (&gen.Blocks{N: *n, Seed: *seed}).Write(stdout)
 	case "random":
 		parts := fl.Int("parts", 1000, "about this many parts")
 		if fl.Parse(args[1:]) != nil {

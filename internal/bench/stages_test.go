@@ -41,6 +41,8 @@ func source(b *testing.B, kind string, parts int) []byte {
 		err = (&gen.Mesh{K: gen.MeshSide(parts), Supplies: 4, Seed: 1}).Write(&buf)
 	case "random":
 		err = (&gen.Random{Parts: parts, Seed: 1}).Write(&buf)
+	case "blocks":
+		err = (&gen.Blocks{N: parts / 4, Seed: 1}).Write(&buf)
 	}
 	if err != nil {
 		b.Fatal(err)
@@ -50,7 +52,7 @@ func source(b *testing.B, kind string, parts int) []byte {
 }
 
 func each(b *testing.B, f func(b *testing.B, kind string, src []byte)) {
-	for _, kind := range []string{"mesh", "random"} {
+	for _, kind := range []string{"mesh", "random", "blocks"} {
 		for _, n := range sizes {
 			b.Run(fmt.Sprintf("%s/parts=%d", kind, n), func(b *testing.B) {
 				f(b, kind, source(b, kind, n))

@@ -360,3 +360,39 @@ func (g *Random) Write(out io.Writer) error {
 	}
 	return x.done()
 }
+
+// Blocks describes a chain of N instances of one block: each cell a
+// series pair of resistors with a load resistor and a decoupling capacitor
+// at its midpoint, fed by one source and ended by a terminating resistor.
+// The series resistance varies by instance through a parameter.
+type Blocks struct {
+	N    int
+	Seed uint64
+}
+
+// Parts returns how many parts the design expands to.
+func (g *Blocks) Parts() int { return 4*g.N + 2 }
+
+// Write writes the block design.
+func (g *Blocks) Write(out io.Writer) error {
+	x := newW(out)
+	r := rand.New(rand.NewPCG(g.Seed, 0x626c6b))
+	x.s("design chain").i(g.N).s(" \"generated chain of ").i(g.N).s(" cells\"").end()
+	x.s("block cell (in, out, ret) [r = 10 Ω, load = 1 kΩ] {").end()
+	x.s("  resistor RS (in, mid) {r}").end()
+	x.s("  resistor RM (mid, out) {r}").end()
+	x.s("  resistor RL (mid, ret) {load}  tol 1%").end()
+	x.s("  capacitor C (mid, ret) 100 nF").end()
+	x.s("}").end()
+	x.s("ground gnd").end()
+	x.s("source vin (c0, gnd) 5 V").end()
+	for i := 1; i <= g.N; i++ {
+		x.s("cell x").i(i).s(" (c").i(i - 1).s(", c").i(i).s(", gnd)")
+		if r.IntN(2) == 0 {
+			x.s(" [r = ").i(1 + r.IntN(99)).s(" Ω]")
+		}
+		x.end()
+	}
+	x.s("resistor rend (c").i(g.N).s(", gnd) 1 kΩ").end()
+	return x.done()
+}

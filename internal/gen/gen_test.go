@@ -22,6 +22,7 @@ func TestGeneratedDesignsCheckClean(t *testing.T) {
 			return (&gen.Mesh{K: 41, Supplies: 4, Loads: 100, Seed: 9}).Write(b)
 		}},
 		{"ladder", (&gen.Ladder{N: 3000}).Parts(), func(b *bytes.Buffer) error { return (&gen.Ladder{N: 3000, Seed: 2}).Write(b) }},
+		{"blocks", (&gen.Blocks{N: 2000}).Parts(), func(b *bytes.Buffer) error { return (&gen.Blocks{N: 2000, Seed: 3}).Write(b) }},
 	}
 	for seed := uint64(1); seed <= 5; seed++ {
 		seed := seed
