@@ -25,7 +25,9 @@ import (
 	"io/fs"
 	"math"
 	"path/filepath"
+	"strconv"
 	"strings"
+	"unicode/utf8"
 
 	"nodal/diag"
 	"nodal/grammar"
@@ -229,15 +231,15 @@ func (b *builder) include(inc *grammar.Include, pos, end diag.Pos, stack []strin
 		return // already brought in by another include
 	}
 	if b.opt.ReadFile == nil || b.fset == nil {
-		b.report("bad-include", diag.Error, pos, end, "cannot include %s: this check reads no files", rel)
+		b.report("bad-include", diag.Error, pos, end, "cannot include %s: this check reads no files", showPath(rel))
 		b.r.Incomplete = true
 		return
 	}
 	src, err := b.opt.ReadFile(path)
 	if err != nil {
-		msg := fmt.Sprintf("cannot read included file %s: %v", path, unwrapPath(err))
+		msg := fmt.Sprintf("cannot read included file %s: %v", showPath(path), unwrapPath(err))
 		if errors.Is(err, fs.ErrNotExist) {
-			msg = fmt.Sprintf("included file %s does not exist (an include path is relative to the file that includes it)", path)
+			msg = fmt.Sprintf("included file %s does not exist (an include path is relative to the file that includes it)", showPath(path))
 		}
 		b.report("bad-include", diag.Error, pos, end, "%s", msg)
 		b.r.Incomplete = true
@@ -901,4 +903,13 @@ func (b *builder) reserve() {
 	if n := b.top.parts; n > 0 && b.top.size <= b.opt.MaxParts {
 		b.r.Design.Parts = make([]Part, 0, n)
 	}
+}
+
+// showPath writes a path for a message: as it is, or quoted with escapes
+// when it is not valid UTF-8, so that every message stays printable.
+func showPath(p string) string {
+	if utf8.ValidString(p) {
+		return p
+	}
+	return strconv.Quote(p)
 }
