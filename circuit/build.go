@@ -182,9 +182,9 @@ func (b *builder) syntaxErrors(ast *grammar.File) {
 
 func (b *builder) run(ast *grammar.File) {
 	d := b.r.Design
-	// Size the design once: a top-level part statement makes one part, and
-	// a mesh has about one net per two parts.
-	d.Reserve(len(ast.Stmts), len(ast.Stmts)/2+1)
+	// Size the net table once (reserve sizes the parts): a mesh has about
+	// one net per two parts.
+	d.Reserve(0, len(ast.Stmts)/2+1)
 	b.syntaxErrors(ast)
 	topFile := b.file
 	b.included[filepath.Clean(topFile.Name())] = true

@@ -303,7 +303,7 @@ func (b *builder) prepare(bd *blockDef) {
 	b.file = bd.file
 	defer func() { b.file = saved }()
 	localIndex := map[string]int{}
-	names := map[string]*bodyStmt{}
+	names := make(map[string]*bodyStmt, len(bd.body))
 	pinUsed := make([]bool, len(bd.pins))
 	for _, st := range bd.body {
 		pt := st.pt

@@ -2,8 +2,12 @@ package grammar
 
 import "github.com/alecthomas/participle/v2/lexer"
 
-// The syntax tree. Every node records Pos and EndPos; their Offset fields
-// are byte offsets into the file, which is all later stages use.
+// The syntax tree. Nodes record Pos, and those whose extent later stages
+// quote (statements, parameter bindings, expressions) EndPos too; their
+// Offset fields are byte offsets into the file, which is all later stages
+// use. The nodes every part line has several of (Name, Pin, Value, Attr)
+// keep no EndPos: a million-part design holds millions of them, and a
+// name's end is its Pos plus the length of its Text.
 //
 // One Statement is one line. Statements never span lines: a block's header
 // ends with "{" on its line and the block closes with "}" on a line of its
@@ -74,9 +78,8 @@ type Part struct {
 // Name is a word with its position: a part, net, kind or parameter name.
 // A double-quoted net name keeps its quotes in Text and sets Quoted.
 type Name struct {
-	Pos    lexer.Position
-	EndPos lexer.Position
-	Text   string `parser:"@(Ident | Unit | Code | AttrWord | String)"`
+	Pos  lexer.Position
+	Text string `parser:"@(Ident | Unit | Code | AttrWord | String)"`
 }
 
 // String is a double-quoted string with its position.
@@ -88,10 +91,9 @@ type String struct {
 
 // Pin binds a net to a pin, by position or by the pin's name (anode=a).
 type Pin struct {
-	Pos    lexer.Position
-	EndPos lexer.Position
-	Label  *Name `parser:"( @@ \"=\" )?"`
-	Net    *Name `parser:"@@"`
+	Pos   lexer.Position
+	Label *Name `parser:"( @@ \"=\" )?"`
+	Net   *Name `parser:"@@"`
 }
 
 // Assign is a parameter binding (NAME = VALUE) or, in a block header, a
@@ -106,21 +108,19 @@ type Assign struct {
 // Value is a quantity (12 V, 4.7kΩ, 4k7, R47), a switch state, or an
 // expression in braces.
 type Value struct {
-	Pos    lexer.Position
-	EndPos lexer.Position
-	Neg    bool   `parser:"( @\"-\"?"`
-	Num    string `parser:"  @Number"`
-	Unit   string `parser:"  @Unit? )"`
-	Code   string `parser:"| @Code"`
-	Word   string `parser:"| @(\"open\" | \"closed\")"`
-	Expr   *Expr  `parser:"| \"{\" @@ \"}\""`
+	Pos  lexer.Position
+	Neg  bool   `parser:"( @\"-\"?"`
+	Num  string `parser:"  @Number"`
+	Unit string `parser:"  @Unit? )"`
+	Code string `parser:"| @Code"`
+	Word string `parser:"| @(\"open\" | \"closed\")"`
+	Expr *Expr  `parser:"| \"{\" @@ \"}\""`
 }
 
 // Attr is an attribute: a word, values separated by commas, and for vf an
 // operating point after "at".
 type Attr struct {
 	Pos    lexer.Position
-	EndPos lexer.Position
 	Key    *Name    `parser:"@@"`
 	Values []*Value `parser:"( @@ ( \",\" @@ )* )?"`
 	At     *Value   `parser:"( \"at\" @@ )?"`

@@ -138,7 +138,7 @@ func readName(lex *lexer.PeekingLexer, n *Name) bool {
 		return false
 	}
 	lex.Next()
-	n.Pos, n.Text, n.EndPos = t.Pos, t.Value, lex.RawPeek().Pos
+	n.Pos, n.Text = t.Pos, t.Value
 	return true
 }
 
@@ -170,7 +170,6 @@ func readValue(lex *lexer.PeekingLexer, v *Value) bool {
 			v.Unit = u.Value
 		}
 	}
-	v.EndPos = lex.RawPeek().Pos
 	return true
 }
 
@@ -209,7 +208,6 @@ func readPart(lex *lexer.PeekingLexer, p *Part, nodes *partNodes) bool {
 				pin.Label = label
 			}
 			pin.Net = net
-			pin.EndPos = lex.RawPeek().Pos
 			if i < 2 {
 				nodes.pinPtrs[i] = pin
 				p.Pins = nodes.pinPtrs[: i+1 : 2]
@@ -281,7 +279,6 @@ func readPart(lex *lexer.PeekingLexer, p *Part, nodes *partNodes) bool {
 				return false
 			}
 		}
-		a.EndPos = lex.RawPeek().Pos
 		p.Attrs = append(p.Attrs, a)
 	}
 	p.EndPos = lex.RawPeek().Pos
