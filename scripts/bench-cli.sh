@@ -22,7 +22,10 @@ go build -o "$work/nodal-gen" ./cmd/nodal-gen
 gen="$work/nodal-gen"
 
 # name | runs | nodal-gen arguments
+# The first row is the baseline measured in the same run: "nodal version",
+# the cost of starting the process at all.
 designs=(
+  "baseline: nodal version|$runs|version"
   "random-200|$runs|random -parts 200 -seed 1"
   "mesh-10x10|$runs|mesh -k 10"
 )
@@ -47,14 +50,19 @@ echo "|---|---|---|---|---|---|---|"
 for d in "${designs[@]}"; do
   IFS='|' read -r name n args <<<"$d"
   f="$work/design.nodal"
-  # shellcheck disable=SC2086
-  "$gen" $args >"$f"
+  if [ "$args" = version ]; then
+    : >"$f"; cmd=(version)
+  else
+    # shellcheck disable=SC2086
+    "$gen" $args >"$f"
+    cmd=(check --no-color "$f")
+  fi
   mb=$(awk -v b="$(stat -c %s "$f")" 'BEGIN {printf "%.1f", b/1e6}')
   : >"$work/wall"; : >"$work/cpu"; : >"$work/rss"
   summary=""
   for _ in $(seq "$n"); do
     t0=$(date +%s%N)
-    /usr/bin/time -v "$work/nodal" check --no-color "$f" >/dev/null 2>"$work/err" || true
+    /usr/bin/time -v "$work/nodal" "${cmd[@]}" >/dev/null 2>"$work/err" || true
     t1=$(date +%s%N)
     # wall from our own clock: /usr/bin/time rounds to 10 ms
     awk -v a="$t0" -v b="$t1" 'BEGIN {printf "%.3f\n", (b-a)/1e9}' >>"$work/wall"

@@ -80,6 +80,27 @@ func BenchmarkParse(b *testing.B) {
 	})
 }
 
+// BenchmarkParseReference is the baseline for BenchmarkParse in the same
+// run: the grammar alone, one participle call per line, no fast path. It
+// skips the million-part size, which would take minutes per iteration.
+func BenchmarkParseReference(b *testing.B) {
+	each(b, func(b *testing.B, kind string, src []byte) {
+		if len(src) > 20<<20 {
+			b.Skip("too slow at this size to be worth the wait")
+		}
+		b.SetBytes(int64(len(src)))
+		b.ReportAllocs()
+		var f *grammar.File
+		for b.Loop() {
+			f = grammar.ParseReference("bench.nodal", src)
+		}
+		if len(f.Errors) > 0 {
+			b.Fatal(f.Errors[0])
+		}
+		perPart(b, len(f.Stmts))
+	})
+}
+
 func BenchmarkElaborate(b *testing.B) {
 	each(b, func(b *testing.B, kind string, src []byte) {
 		fset := diag.NewFileSet()
