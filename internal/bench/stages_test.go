@@ -15,6 +15,7 @@ import (
 	"nodal/grammar"
 	"nodal/internal/gen"
 	"nodal/rules"
+	"nodal/solve"
 	"nodal/topology"
 )
 
@@ -206,4 +207,40 @@ func BenchmarkCheck(b *testing.B) {
 		}
 		perPart(b, len(res.Build.Design.Parts))
 	})
+}
+
+// BenchmarkSolve solves the DC operating point of meshes, from one small
+// enough for any solver up to the million-part mesh, and fails if the
+// solution breaks Kirchhoff's current law by more than solve.KCLTol of the
+// largest part current. Sizes the solver on this revision refuses as too
+// large are skipped, saying so.
+func BenchmarkSolve(b *testing.B) {
+	for _, n := range append([]int{400}, sizes...) {
+		b.Run(fmt.Sprintf("mesh/parts=%d", n), func(b *testing.B) {
+			_, r := built(b, source(b, "mesh", n))
+			d := r.Design
+			if _, err := solve.Solve(d, nil); err != nil {
+				if se, ok := err.(*solve.Error); ok && se.Kind == solve.TooLarge {
+					b.Skip(se.Msg)
+				}
+				b.Fatal(err)
+			}
+			b.ReportAllocs()
+			var op *solve.Result
+			for b.Loop() {
+				var err error
+				op, err = solve.Solve(d, nil)
+				if err != nil {
+					b.Fatal(err)
+				}
+			}
+			rel := op.KCL / op.KCLScale
+			if !(rel <= solve.KCLTol) {
+				b.Fatalf("KCL residual %g of the largest current, over %g", rel, solve.KCLTol)
+			}
+			b.ReportMetric(rel, "kcl-rel")
+			b.ReportMetric(float64(op.Unknowns), "unknowns")
+			perPart(b, len(d.Parts))
+		})
+	}
 }
