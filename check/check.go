@@ -19,6 +19,9 @@ type Result struct {
 	Build  *circuit.Result
 	Diags  diag.List // sorted, without duplicates
 	Parsed *grammar.File
+	// Solved is the result of the Solve pass: the DC operating point, or
+	// why there is none. Nil when the rules run did not include it.
+	Solved *rules.SolveResult
 }
 
 // Options change a check.
@@ -74,7 +77,8 @@ func Source(name string, src []byte, opt *Options) (*Result, error) {
 	if as == nil {
 		as = rules.All
 	}
-	diags, err := rules.Run(fset, b, as, opt.Config)
+	diags, results, err := rules.RunResults(fset, b, as, opt.Config)
+	solved, _ := results[rules.Solve].(*rules.SolveResult)
 	diags.Sort(fset)
 	diags = diags.Dedup()
 	if !opt.NoSuppress {
@@ -84,5 +88,5 @@ func Source(name string, src []byte, opt *Options) (*Result, error) {
 		}
 		diags = rules.Suppress(fset, srcs, diags, opt.Config, nil)
 	}
-	return &Result{Fset: fset, Build: b, Diags: diags, Parsed: ast}, err
+	return &Result{Fset: fset, Build: b, Diags: diags, Parsed: ast, Solved: solved}, err
 }

@@ -91,6 +91,13 @@ func (c *Config) severity(a *Analyzer) (diag.Severity, bool) {
 // Run runs the analyzers (and whatever they require) on a built design and
 // returns every finding, with configured severities applied.
 func Run(fset *diag.FileSet, b *circuit.Result, analyzers []*Analyzer, cfg *Config) (diag.List, error) {
+	out, _, err := RunResults(fset, b, analyzers, cfg)
+	return out, err
+}
+
+// RunResults is Run that also returns the result of every analyzer that
+// ran, such as the *SolveResult of Solve.
+func RunResults(fset *diag.FileSet, b *circuit.Result, analyzers []*Analyzer, cfg *Config) (diag.List, map[*Analyzer]any, error) {
 	var out diag.List
 	if cfg == nil {
 		cfg = &Config{}
@@ -131,8 +138,8 @@ func Run(fset *diag.FileSet, b *circuit.Result, analyzers []*Analyzer, cfg *Conf
 	}
 	for _, a := range analyzers {
 		if err := run(a); err != nil {
-			return out, err
+			return out, results, err
 		}
 	}
-	return out, nil
+	return out, results, nil
 }

@@ -64,6 +64,10 @@ func (d *Derating) slot(key string) *float64 {
 	return nil
 }
 
+// Limit returns the derating limit for a use of a rating (Use.What) by a
+// part of kind k, or 0 when none applies.
+func (d Derating) Limit(k circuit.Kind, what string) float64 { return d.limit(k, what) }
+
 // limit returns the derating limit for a use of a rating, or 0 when none
 // applies.
 func (d Derating) limit(k circuit.Kind, what string) float64 {

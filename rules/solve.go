@@ -20,6 +20,10 @@ type SolveResult struct {
 	OP  *solve.Result
 	Err error
 	Ran bool
+	// Skipped says why the solve was not tried on a design the topology
+	// rules accept: it is too large for this version's solver (an
+	// *solve.Error of kind TooLarge). The rating rules then say nothing.
+	Skipped error
 }
 
 // Solve computes the DC operating point; it reports nothing itself. Its
@@ -42,7 +46,7 @@ var Solve = &Analyzer{
 		op, err := solve.Solve(p.Design, nil)
 		var se *solve.Error
 		if errors.As(err, &se) && se.Kind == solve.TooLarge {
-			return &SolveResult{}, nil
+			return &SolveResult{Skipped: err}, nil
 		}
 		if err != nil {
 			return &SolveResult{Err: err, Ran: true}, nil

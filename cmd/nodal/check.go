@@ -232,6 +232,9 @@ func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 			fmt.Fprintln(stderr, r.err)
 			status = 2
 		}
+		if r.note != "" {
+			fmt.Fprintln(stderr, r.note)
+		}
 		if r.checked {
 			rep.Files++
 		}
@@ -274,6 +277,7 @@ type fileResult struct {
 	findings []output.Finding
 	sources  map[string][]byte
 	err      string
+	note     string // said on standard error, without changing the exit status
 }
 
 // checkOne checks one file. A panic anywhere in the pipeline becomes an
@@ -310,6 +314,9 @@ func checkOne(u unit, stdinSrc []byte, read reader, loader *configLoader, lim li
 	}
 	if res != nil {
 		out.findings = output.FromDiags(res.Fset, res.Diags)
+		if s := res.Solved; s != nil && s.Skipped != nil {
+			out.note = fmt.Sprintf("nodal: %s: note: the DC operating point was not solved (%v), so the rating rules did not run", u.name, s.Skipped)
+		}
 	}
 	return out
 }

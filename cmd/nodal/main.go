@@ -17,6 +17,7 @@ units.
 
 Usage:
   nodal check [flags] [PATH ...]   check files and folders (default: .)
+  nodal report [flags] FILE        table of one design's DC operating point
   nodal rules [RULE]               list the rules, or explain one
   nodal config [PATH]              show the settings in effect for a path
   nodal version                    print the version
@@ -30,6 +31,11 @@ off), and a summary line on standard error.
 
 Exit status: 0 no errors, 1 findings at error level, 2 usage or I/O
 trouble. Run "nodal check --help" for the details.
+
+nodal report solves one design and prints every net's voltage and every
+part's voltage, current, power and use of its ratings, worst first (or
+JSON with --format json). Run "nodal report --help" for the sign
+convention.
 
 nodal is a design aid, not a sign-off: it does not replace review by a
 qualified person. Mains voltage and battery energy can injure; follow local
@@ -52,6 +58,8 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	switch args[0] {
 	case "check":
 		return cmdCheck(args[1:], stdin, stdout, stderr)
+	case "report":
+		return cmdReport(args[1:], stdin, stdout, stderr)
 	case "config":
 		return cmdConfig(args[1:], stdout, stderr)
 	case "rules":

@@ -1,0 +1,222 @@
+package main
+
+import (
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+
+	"nodal/check"
+	"nodal/circuit"
+	"nodal/diag"
+	"nodal/output"
+	"nodal/output/report"
+	"nodal/solve"
+)
+
+const reportUsage = `Usage: nodal report [flags] FILE
+
+Solves one design's DC operating point and prints it for a person: every
+net's voltage, then every part's voltage, current and power with the rating
+that limits it and how much of that rating it uses, as a percentage and a
+bar of ten cells to 100 %, worst first. A bar that ends in ▶ is past its
+rating. On a terminal the use column is red past a rating, yellow past its
+derating limit ([derating] in nodal.toml) and green within it; --no-color
+or a non-empty NO_COLOR environment variable turns colour off.
+
+Sign convention: a part's voltage is V(first pin) − V(second pin), its pins
+in the order its kind lists them (a, b; pos, neg; from, to; anode,
+cathode). Its current flows from the first pin to the second through the
+part. Its power is voltage times current: positive when the part absorbs
+energy, negative when it delivers it (a supply driving a load).
+
+--format json prints one document, in SI base units (V, A, W) as plain
+numbers:
+
+  {"file": "...", "nets": [{"name": "vin", "voltage": 12}, ...],
+   "parts": [{"name": "R1", "kind": "resistor", "voltage": 9.9,
+              "current": 0.0099, "power": 0.098, "ratings": {"power": 0.25},
+              "use": 0.39, "limit": "power"}, ...]}
+
+"use" is the largest fraction of any rating and "limit" names that rating;
+both are null for a part with no rating.
+
+A design with no operating point (one the topology rules reject, one that
+does not parse, or one the solver could not solve) gets its findings
+instead, in the form "nodal check" prints them (on standard error with
+--format json), and exit status 1. A design too large for this version's
+solver is said so on standard error, also with exit status 1. "-" reads
+the design from standard input.
+
+nodal is a design aid, not a sign-off: the operating point is only as good
+as the values and ratings written in the design. Parts past their ratings
+can overheat and burn; mains voltage and battery energy can injure. Have
+designs reviewed, and follow local codes and licensed practice.
+
+Exit status: 0 the table was printed, 1 the design has no operating point,
+2 usage, configuration or I/O trouble.
+
+Flags:
+`
+
+func cmdReport(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
+	fl := flag.NewFlagSet("report", flag.ContinueOnError)
+	fl.SetOutput(stderr)
+	var (
+		noColor   bool
+		format    string
+		cfgFile   string
+		stdinName string
+		lim       limits
+	)
+	fl.BoolVar(&noColor, "no-color", false, "never colour the output (also when NO_COLOR is set; colour is only used on a terminal)")
+	fl.StringVar(&format, "format", "text", "output `form`: text or json")
+	fl.StringVar(&cfgFile, "config", "", "use this nodal.toml `file` instead of searching")
+	fl.StringVar(&stdinName, "stdin-filename", "", "with \"-\": name standard input this `path`, and find nodal.toml and resolve includes from it")
+	fl.IntVar(&lim.maxDepth, "max-depth", circuit.DefaultMaxDepth, "refuse designs whose block instances nest deeper than this")
+	fl.Int64Var(&lim.maxParts, "max-parts", circuit.DefaultMaxParts, "refuse designs that expand to more parts and instances than this")
+	fl.Usage = func() {}
+	if err := fl.Parse(args); err != nil {
+		out := stderr
+		if errors.Is(err, flag.ErrHelp) {
+			out = stdout
+		}
+		fl.SetOutput(out)
+		fmt.Fprint(out, reportUsage)
+		fl.PrintDefaults()
+		if out == stdout {
+			return 0
+		}
+		return 2
+	}
+	usageErr := func(format string, a ...any) int {
+		fmt.Fprintf(stderr, "nodal: "+format+"\n", a...)
+		return 2
+	}
+	if format != "text" && format != "json" {
+		return usageErr("--format %q: want text or json", format)
+	}
+	if lim.maxDepth < 1 || lim.maxParts < 1 {
+		return usageErr("--max-depth and --max-parts must be at least 1")
+	}
+	paths := fl.Args()
+	if stdinName != "" && len(paths) == 0 {
+		paths = []string{"-"}
+	}
+	if len(paths) != 1 {
+		return usageErr("report takes one design file (or \"-\"), got %d; \"nodal report --help\" explains", len(paths))
+	}
+	path := paths[0]
+	if stdinName != "" && path != "-" {
+		return usageErr("--stdin-filename needs \"-\" as the file")
+	}
+
+	name, where := path, path
+	var src []byte
+	if path == "-" {
+		name, where = "<stdin>", filepath.Join(".", "stdin")
+		if stdinName != "" {
+			name, where = stdinName, stdinName
+		}
+		b, err := io.ReadAll(stdin)
+		if err != nil {
+			return usageErr("reading standard input: %v", err)
+		}
+		src = b
+	} else {
+		if info, err := os.Stat(path); err == nil && info.IsDir() {
+			return usageErr("%s is a folder; report takes one design file (\"nodal check %s\" checks a folder)", path, path)
+		}
+		b, err := os.ReadFile(path)
+		if err != nil {
+			return usageErr("%v", err)
+		}
+		src = b
+	}
+
+	loader := newConfigLoader(os.ReadFile, cfgFile)
+	cfg, err := loader.forFile(where)
+	if err != nil {
+		printConfigError(stderr, err)
+		return 2
+	}
+	rc := loader.rulesConfig(cfg)
+	res, err := reportSource(name, src, &check.Options{Config: rc, MaxDepth: lim.maxDepth, MaxParts: lim.maxParts})
+	if err != nil {
+		return usageErr("%s: internal error: %v (please report it with the file that caused it)", name, err)
+	}
+	color := format == "text" && !noColor && os.Getenv("NO_COLOR") == "" && isTerminal(stdout)
+
+	if res.Solved == nil || res.Solved.OP == nil {
+		out := stdout
+		if format == "json" {
+			out = stderr // stdout stays empty rather than holding a different document
+		}
+		rep := &output.Report{Files: 1, Findings: output.FromDiags(res.Fset, res.Diags)}
+		if err := output.Write(out, "text", rep, output.Options{Color: color && out == stdout}); err != nil {
+			return usageErr("%v", err)
+		}
+		fmt.Fprintf(stderr, "nodal: %s: %s\n", name, noReport(res))
+		return 1
+	}
+
+	t := report.New(name, res.Build.Design, res.Solved.OP, rc.Derating)
+	if format == "json" {
+		err = t.WriteJSON(stdout)
+	} else {
+		err = t.WriteText(stdout, report.TextOptions{Color: color})
+	}
+	if err != nil {
+		return usageErr("%v", err)
+	}
+	if e, w := count(res.Diags); e+w > 0 {
+		fmt.Fprintf(stderr, "nodal: %s: %s, %s; \"nodal check %s\" lists them\n", name, output.Plural(e, "error"), output.Plural(w, "warning"), path)
+	}
+	return 0
+}
+
+// reportSource checks a design; a panic anywhere in the pipeline becomes
+// an internal error rather than a stack trace.
+func reportSource(name string, src []byte, opt *check.Options) (res *check.Result, err error) {
+	defer func() {
+		if r := recover(); r != nil {
+			res, err = nil, fmt.Errorf("%v", r)
+		}
+	}()
+	res, err = checkSource(name, src, opt)
+	if err == nil && res == nil {
+		err = errors.New("no result")
+	}
+	return res, err
+}
+
+// noReport says why a checked design has no operating point.
+func noReport(res *check.Result) string {
+	var se *solve.Error
+	switch s := res.Solved; {
+	case s != nil && errors.As(s.Skipped, &se):
+		return "no operating point, so no report: the design is too large for this version's solver (" + se.Msg + ")"
+	case s != nil && s.Err != nil:
+		return "no operating point, so no report: the solver could not find one (see the findings above)"
+	case s == nil:
+		return "no operating point, so no report: the solve did not run"
+	}
+	if e, w := count(res.Diags); e+w > 0 {
+		return "no operating point, so no report: fix the findings above first"
+	}
+	return "no operating point, so no report: the design is not complete enough to solve (\"nodal check\" says more with its default settings)"
+}
+
+func count(l diag.List) (errs, warns int) {
+	for _, d := range l {
+		switch d.Severity {
+		case diag.Error:
+			errs++
+		case diag.Warning:
+			warns++
+		}
+	}
+	return
+}

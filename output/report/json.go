@@ -1,0 +1,65 @@
+package report
+
+import (
+	"encoding/json"
+	"io"
+	"strings"
+)
+
+type jsonDoc struct {
+	File   string     `json:"file"`
+	Design string     `json:"design,omitempty"`
+	Title  string     `json:"title,omitempty"`
+	Nets   []jsonNet  `json:"nets"`
+	Parts  []jsonPart `json:"parts"`
+}
+
+type jsonNet struct {
+	Name    string  `json:"name"`
+	Voltage float64 `json:"voltage"`
+}
+
+type jsonPart struct {
+	Name    string             `json:"name"`
+	Kind    string             `json:"kind"`
+	Voltage float64            `json:"voltage"`
+	Current float64            `json:"current"`
+	Power   float64            `json:"power"`
+	Ratings map[string]float64 `json:"ratings"`
+	Use     *float64           `json:"use"`
+	// Limit names the rating the use is of ("power", "current", "voltage"
+	// or "reverse_voltage"); null with use.
+	Limit *string `json:"limit"`
+}
+
+// key is a rating's name as a JSON key: "reverse voltage" → "reverse_voltage".
+func key(what string) string { return strings.ReplaceAll(what, " ", "_") }
+
+// WriteJSON writes the table as one JSON document: SI base units as plain
+// numbers (volts, amperes, watts), rounded to ten significant figures;
+// ratings keyed "power", "current", "voltage" and "reverse_voltage"; use
+// the largest fraction of any rating, null when the part has none.
+func (t *Table) WriteJSON(w io.Writer) error {
+	doc := jsonDoc{File: t.File, Design: t.Design, Title: t.Title, Nets: []jsonNet{}, Parts: []jsonPart{}}
+	for _, n := range t.Nets {
+		doc.Nets = append(doc.Nets, jsonNet{Name: n.Name, Voltage: round(n.Voltage)})
+	}
+	for i := range t.Parts {
+		p := &t.Parts[i]
+		jp := jsonPart{Name: p.Name, Kind: p.Kind.String(), Voltage: round(p.Voltage), Current: round(p.Current),
+			Power: round(p.Power), Ratings: map[string]float64{}}
+		for _, r := range p.Ratings {
+			jp.Ratings[key(r.What)] = round(r.Rating)
+		}
+		if u, ok := p.Use(); ok {
+			u = round(u)
+			k := key(p.Ratings[p.Worst].What)
+			jp.Use, jp.Limit = &u, &k
+		}
+		doc.Parts = append(doc.Parts, jp)
+	}
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	enc.SetEscapeHTML(false)
+	return enc.Encode(doc)
+}

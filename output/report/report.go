@@ -1,0 +1,195 @@
+// Package report turns a solved DC operating point into the table that
+// "nodal report" prints for a person, and into its JSON form for scripts.
+//
+// # Sign convention
+//
+// A part's voltage is V(first pin) − V(second pin), its pins in the order
+// its kind lists them; its current flows from the first pin to the second
+// through the part; its power is voltage times current, positive when the
+// part absorbs energy and negative when it delivers it (a supply driving a
+// load). These are the values of package solve.
+//
+// # Use of a rating
+//
+// Every rating written on a part is compared with the operating point the
+// way the rating rules compare it (rules.Uses): a resistor's power, an
+// LED's forward current and reverse voltage, a capacitor's voltage, a
+// fuse's current against its value. A part's use is the largest of those
+// fractions; parts are listed worst first, and parts with no rating last,
+// in the order the design gives them.
+package report
+
+import (
+	"math"
+	"sort"
+	"strconv"
+
+	"nodal/circuit"
+	"nodal/rules"
+	"nodal/solve"
+	"nodal/units"
+)
+
+// Net is one net's solved voltage (volts, against the design's ground).
+type Net struct {
+	Name    string
+	Voltage float64
+}
+
+// Rating is one rating of a part and the use the operating point makes of
+// it.
+type Rating struct {
+	What   string    // "power", "current", "voltage" or "reverse voltage"
+	Dim    units.Dim // of Value and Rating
+	Value  float64   // the magnitude the rating limits
+	Rating float64
+	Use    float64 // Value / Rating
+	// Limit is the derating limit of this rating (a fraction), or 0 when
+	// none applies.
+	Limit float64
+}
+
+// Part is one part at the operating point.
+type Part struct {
+	Name    string
+	Kind    circuit.Kind
+	Voltage float64 // V(first pin) − V(second pin)
+	Current float64 // from the first pin to the second through the part
+	Power   float64 // positive when absorbed
+	Ratings []Rating
+	// Worst indexes the rating with the largest use, or is -1 when the
+	// part has no rating.
+	Worst int
+}
+
+// Use returns the largest fraction of any rating, and false when the part
+// has none.
+func (p *Part) Use() (float64, bool) {
+	if p.Worst < 0 {
+		return 0, false
+	}
+	return p.Ratings[p.Worst].Use, true
+}
+
+// Level says how close a use is to its rating.
+type Level uint8
+
+const (
+	Unrated Level = iota // no rating
+	Within               // within the rating and its derating limit
+	Derated              // past the derating limit, within the rating
+	Over                 // past the rating
+)
+
+// overLimit matches the rating rules: a part sized exactly at its rating
+// (or exactly at its derating limit) is not past it.
+const overLimit = 1 + 1e-9
+
+// Level returns how close the part's worst rating is to being exceeded.
+// The derating limit of every rating counts, not only the worst one's.
+func (p *Part) Level() Level {
+	if p.Worst < 0 {
+		return Unrated
+	}
+	lv := Within
+	for _, r := range p.Ratings {
+		switch {
+		case r.Use > overLimit:
+			return Over
+		case r.Limit > 0 && r.Use > r.Limit*overLimit:
+			lv = Derated
+		}
+	}
+	return lv
+}
+
+// Table is a design's operating point, ready to print.
+type Table struct {
+	File   string // as the user named it
+	Design string // the design's name, if it gives one
+	Title  string
+	// Temperature of the junctions in kelvin.
+	Temperature float64
+	Nets        []Net  // in the order the design first uses them
+	Parts       []Part // worst first
+	// Undriven is true when no source in the design has a non-zero value
+	// (its supply comes in through ports, say): every value is then 0.
+	Undriven bool
+}
+
+// New builds the table of design d solved as r. der gives the derating
+// limits the colours of the text form follow.
+func New(file string, d *circuit.Design, r *solve.Result, der rules.Derating) *Table {
+	t := &Table{File: file, Design: d.Name, Title: d.Title, Temperature: solve.RoomTemperature}
+	var vs, is float64 // the largest voltage and current
+	for _, v := range r.NetV {
+		vs = math.Max(vs, math.Abs(v))
+	}
+	for i := range d.Parts {
+		is = math.Max(is, math.Abs(r.I[i]))
+	}
+	for i := range d.Nets {
+		if d.Nets[i].Pins == 0 {
+			continue // declared but never used: it has no voltage
+		}
+		t.Nets = append(t.Nets, Net{Name: d.Nets[i].Name, Voltage: clean(r.NetV[i], vs, floorV)})
+	}
+	t.Undriven = true
+	t.Parts = make([]Part, len(d.Parts))
+	for i := range d.Parts {
+		q := &d.Parts[i]
+		if (q.Kind == circuit.VoltageSource || q.Kind == circuit.CurrentSource) && q.Value != 0 {
+			t.Undriven = false
+		}
+		v, c := clean(r.V[i], vs, floorV), clean(r.I[i], is, floorI)
+		pw := v * c
+		p := Part{Name: q.Name, Kind: q.Kind, Voltage: v, Current: c, Power: pw, Worst: -1}
+		for _, u := range rules.Uses(q, v, c, pw) {
+			p.Ratings = append(p.Ratings, Rating{What: u.What, Dim: u.Dim, Value: u.Value, Rating: u.Rating,
+				Use: u.Frac, Limit: der.Limit(q.Kind, u.What)})
+			if p.Worst < 0 || u.Frac > p.Ratings[p.Worst].Use {
+				p.Worst = len(p.Ratings) - 1
+			}
+		}
+		t.Parts[i] = p
+	}
+	sort.SliceStable(t.Parts, func(a, b int) bool {
+		ua, oka := t.Parts[a].Use()
+		ub, okb := t.Parts[b].Use()
+		if oka != okb {
+			return oka
+		}
+		return ua > ub
+	})
+	return t
+}
+
+// Below these a voltage or current is shown as 0: a picovolt, and a
+// femtoampere (the leakage of a reverse-biased junction, 1 pS per volt, is
+// well above it).
+const (
+	floorV = 1e-12
+	floorI = 1e-15
+)
+
+// clean returns 0 for a value that is rounding noise: below floor, or below
+// 1e-13 of the largest value of its kind in the design (scale), such as a
+// current of 1e-19 A through a wire that carries nothing in a design whose
+// largest current is 1 A. The solver's self-checks hold currents to 1e-9 of
+// the largest, so 1e-13 is well below anything it resolves.
+func clean(v, scale, floor float64) float64 {
+	if math.Abs(v) <= math.Max(1e-13*scale, floor) || v == 0 {
+		return 0 // also turns −0 into 0
+	}
+	return v
+}
+
+// round keeps ten significant figures, far more than any part's tolerance,
+// so that the JSON form does not change with the last bits of a float.
+func round(v float64) float64 {
+	if v == 0 || math.IsNaN(v) || math.IsInf(v, 0) {
+		return 0
+	}
+	r, _ := strconv.ParseFloat(strconv.FormatFloat(v, 'g', 10, 64), 64)
+	return r
+}

@@ -1,0 +1,163 @@
+package report
+
+import (
+	"bufio"
+	"io"
+	"math"
+	"strings"
+	"unicode/utf8"
+
+	"github.com/fatih/color"
+
+	"nodal/units"
+)
+
+// BarCells is the width of a full bar: 100 % of a rating.
+const BarCells = 10
+
+// eighths are the block characters for 1/8 … 8/8 of a cell.
+var eighths = []rune("▏▎▍▌▋▊▉█")
+
+// Bar draws a use of a rating: one cell per tenth, in eighths of a cell,
+// and an arrow past the end for a use above 100 %.
+func Bar(use float64) string {
+	if !(use > 0) {
+		return ""
+	}
+	over := use > overLimit
+	if use > 1 {
+		use = 1
+	}
+	n := int(math.Round(use * BarCells * 8)) // eighths
+	var b strings.Builder
+	for ; n >= 8; n -= 8 {
+		b.WriteRune(eighths[7])
+	}
+	if n > 0 {
+		b.WriteRune(eighths[n-1])
+	}
+	if over {
+		b.WriteRune('▶')
+	}
+	return b.String()
+}
+
+// TextOptions change the text form.
+type TextOptions struct {
+	Color bool // colour the use column by how close it is to the rating
+}
+
+// WriteText writes the table for a person: the nets and their voltages,
+// then every part, worst use of a rating first.
+func (t *Table) WriteText(w io.Writer, opt TextOptions) error {
+	bw := bufio.NewWriter(w)
+	head := t.File
+	switch {
+	case t.Design != "" && t.Title != "":
+		head += ": " + t.Design + ", " + t.Title
+	case t.Design != "":
+		head += ": " + t.Design
+	}
+	bw.WriteString(head + "\n")
+	bw.WriteString("DC operating point, junctions at " + units.Format(t.Temperature-273.15, units.None) + " °C\n")
+	if t.Undriven {
+		bw.WriteString("No source in the design drives it (its supply would come in through its\n" +
+			"ports), so every voltage and current is 0.\n")
+	}
+	bw.WriteString("\n")
+
+	bw.WriteString("Nets\n")
+	nets := [][]string{{"net", "voltage"}}
+	for _, n := range t.Nets {
+		nets = append(nets, []string{n.Name, units.Format(n.Voltage, units.Voltage)})
+	}
+	writeColumns(bw, nets, []bool{false, true}, nil)
+
+	bw.WriteString("\nParts, worst use of a rating first\n")
+	rows := [][]string{{"part", "kind", "voltage", "current", "power", "rating", "use", ""}}
+	paint := []func(string) string{nil}
+	over := false
+	for i := range t.Parts {
+		p := &t.Parts[i]
+		rating, use, bar := "—", "—", ""
+		if u, ok := p.Use(); ok {
+			r := p.Ratings[p.Worst]
+			rating = units.Format(r.Rating, r.Dim)
+			if r.What == "reverse voltage" {
+				rating += " reverse"
+			}
+			use, bar = units.FormatPercent(u), Bar(u)
+		}
+		lv := p.Level()
+		over = over || lv == Over
+		rows = append(rows, []string{p.Name, p.Kind.String(), units.Format(p.Voltage, units.Voltage),
+			units.Format(p.Current, units.Current), units.Format(p.Power, units.Power), rating, use, bar})
+		paint = append(paint, painter(lv, opt.Color))
+	}
+	writeColumns(bw, rows, []bool{false, false, true, true, true, true, true, false}, paint)
+
+	bw.WriteString("\nVoltage is V(first pin) − V(second pin); current flows from the first pin\n" +
+		"to the second through the part; power is positive when absorbed.\n")
+	if over {
+		bw.WriteString("Parts past a rating (▶) can overheat, burn or fail. nodal is a design aid,\n" +
+			"not a sign-off: have the design reviewed, and follow local codes and\n" +
+			"licensed practice for mains and battery energy.\n")
+	}
+	return bw.Flush()
+}
+
+// painter returns what colours the use column of a row, or nil.
+func painter(lv Level, on bool) func(string) string {
+	if !on {
+		return nil
+	}
+	var c *color.Color
+	switch lv {
+	case Over:
+		c = color.New(color.FgRed, color.Bold)
+	case Derated:
+		c = color.New(color.FgYellow)
+	case Within:
+		c = color.New(color.FgGreen)
+	default:
+		return nil
+	}
+	c.EnableColor()
+	return func(s string) string { return c.Sprint(s) }
+}
+
+// writeColumns writes rows as columns two spaces apart, indented by two,
+// right-aligning the columns marked so. paint, when given, colours the last
+// two columns of each row (after padding, so colour codes do not upset the
+// widths).
+func writeColumns(w *bufio.Writer, rows [][]string, right []bool, paint []func(string) string) {
+	width := make([]int, len(right))
+	for _, r := range rows {
+		for i, c := range r {
+			width[i] = max(width[i], utf8.RuneCountInString(c))
+		}
+	}
+	for k, r := range rows {
+		var line strings.Builder
+		line.WriteString("  ")
+		for i, c := range r {
+			pad := strings.Repeat(" ", width[i]-utf8.RuneCountInString(c))
+			last := i == len(r)-1
+			if i >= len(r)-2 && paint != nil && paint[k] != nil && c != "" {
+				c = paint[k](c)
+			}
+			switch {
+			case right[i]:
+				line.WriteString(pad + c)
+			case last:
+				line.WriteString(c)
+			default:
+				line.WriteString(c + pad)
+			}
+			if !last {
+				line.WriteString("  ")
+			}
+		}
+		w.WriteString(strings.TrimRight(line.String(), " ") + "\n")
+	}
+}
