@@ -315,7 +315,7 @@ func checkOne(u unit, stdinSrc []byte, read reader, loader *configLoader, lim li
 	if res != nil {
 		out.findings = output.FromDiags(res.Fset, res.Diags)
 		if s := res.Solved; s != nil && s.Skipped != nil {
-			out.note = fmt.Sprintf("nodal: %s: note: the DC operating point was not solved (%v), so the rating rules did not run", u.name, s.Skipped)
+			out.note = fmt.Sprintf("nodal: %s: note: the DC operating point was not solved, so the rating rules did not run: %v", u.name, s.Skipped)
 		}
 	}
 	return out

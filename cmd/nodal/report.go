@@ -197,7 +197,7 @@ func noReport(res *check.Result) string {
 	var se *solve.Error
 	switch s := res.Solved; {
 	case s != nil && errors.As(s.Skipped, &se):
-		return "no operating point, so no report: the design is too large for this version's solver (" + se.Msg + ")"
+		return "no operating point, so no report: the design is too large for this version's solver: " + se.Msg
 	case s != nil && s.Err != nil:
 		return "no operating point, so no report: the solver could not find one (see the findings above)"
 	case s == nil:
