@@ -10,7 +10,9 @@ import (
 	"strings"
 	"testing"
 
+	"nodal/circuit"
 	"nodal/diag"
+	"nodal/solve"
 )
 
 // memFiles is a ReadFile over an in-memory set of files.
@@ -75,12 +77,14 @@ func normal(s string) string { return strings.ReplaceAll(s, ".", "_") }
 
 // TestFlatEquivalent checks each design under testdata/hier against the
 // flat design written out by hand beside it: the same parts with the same
-// values on the same nets, and the same findings.
+// values on the same nets, the same findings, and (for the designs that
+// solve) the same DC operating point.
 func TestFlatEquivalent(t *testing.T) {
 	dirs, _ := filepath.Glob("../testdata/hier/*/hier.nodal")
 	if len(dirs) == 0 {
 		t.Fatal("no designs under testdata/hier")
 	}
+	solvedPairs := 0
 	for _, h := range dirs {
 		dir := filepath.Dir(h)
 		t.Run(filepath.Base(dir), func(t *testing.T) {
@@ -127,8 +131,92 @@ func TestFlatEquivalent(t *testing.T) {
 					t.Errorf("finding inside a block has no related instance: %s", diag.Format(hr.Fset, d))
 				}
 			}
+			if sameOperatingPoint(t, hr, fr) {
+				solvedPairs++
+			}
 		})
 	}
+	if solvedPairs == 0 {
+		t.Error("no design under testdata/hier solves, so no operating point was compared")
+	}
+}
+
+// sameOperatingPoint checks that a hierarchical design and its flat copy
+// both solve or both do not, and that when they do every net has the same
+// voltage and every part the same voltage and current, names mapped by
+// instance path (B1.G.R in one is B1_G_R in the other). It reports whether
+// an operating point was compared.
+func sameOperatingPoint(t *testing.T, hr, fr *Result) bool {
+	t.Helper()
+	hs, fs := hr.Solved, fr.Solved
+	if hs == nil || fs == nil {
+		t.Fatal("the Solve pass did not run")
+	}
+	if (hs.OP == nil) != (fs.OP == nil) {
+		t.Fatalf("hier solved: %v (%v), flat solved: %v (%v)", hs.OP != nil, hs.Err, fs.OP != nil, fs.Err)
+	}
+	if hs.OP == nil {
+		return false
+	}
+	hd, fd := hr.Build.Design, fr.Build.Design
+	h, f := hs.OP, fs.OP
+	// The two systems order their unknowns differently, so they agree to
+	// rounding, not bit for bit: compare to 1e-9 of the largest value, the
+	// solver's own self-check tolerance (solve.KCLTol).
+	var vs, is float64
+	for _, v := range f.NetV {
+		vs = math.Max(vs, math.Abs(v))
+	}
+	for _, i := range f.I {
+		is = math.Max(is, math.Abs(i))
+	}
+	if vs == 0 || is == 0 {
+		t.Fatalf("the flat design solves to nothing (largest voltage %g, current %g)", vs, is)
+	}
+	used := 0
+	for i := range hd.Nets {
+		if hd.Nets[i].Pins == 0 {
+			continue
+		}
+		used++
+		name := normal(hd.Nets[i].Name)
+		j := fd.LookupNet(name)
+		if j == circuit.NoNet {
+			t.Errorf("net %s has no counterpart %s in the flat design", hd.Nets[i].Name, name)
+			continue
+		}
+		if math.Abs(h.NetV[i]-f.NetV[j]) > solve.KCLTol*vs {
+			t.Errorf("net %s: %.12g V, flat %s %.12g V", hd.Nets[i].Name, h.NetV[i], name, f.NetV[j])
+		}
+	}
+	flatUsed := 0
+	for j := range fd.Nets {
+		if fd.Nets[j].Pins > 0 {
+			flatUsed++
+		}
+	}
+	if used != flatUsed {
+		t.Errorf("hier has %d nets in use, flat %d", used, flatUsed)
+	}
+	flatPart := map[string]int{}
+	for j := range fd.Parts {
+		flatPart[fd.Parts[j].Name] = j
+	}
+	for i := range hd.Parts {
+		name := normal(hd.Parts[i].Name)
+		j, ok := flatPart[name]
+		if !ok {
+			t.Errorf("part %s has no counterpart %s in the flat design", hd.Parts[i].Name, name)
+			continue
+		}
+		if math.Abs(h.V[i]-f.V[j]) > solve.KCLTol*vs {
+			t.Errorf("part %s voltage: %.12g V, flat %.12g V", hd.Parts[i].Name, h.V[i], f.V[j])
+		}
+		if math.Abs(h.I[i]-f.I[j]) > solve.KCLTol*is {
+			t.Errorf("part %s current: %.12g A, flat %.12g A", hd.Parts[i].Name, h.I[i], f.I[j])
+		}
+	}
+	return true
 }
 
 func TestBenchFindingsInsideBlocks(t *testing.T) {
