@@ -413,3 +413,19 @@ func TestReportTooLarge(t *testing.T) {
 		t.Errorf("check: exit %d, stdout %q, stderr %q", code, out, errOut)
 	}
 }
+
+// The README shows the report of demo/overloaded.nodal exactly as the
+// golden file has it.
+func TestReadmeShowsReport(t *testing.T) {
+	readme, err := os.ReadFile(filepath.Join("..", "..", "README.md"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	golden, err := os.ReadFile(filepath.Join("testdata", "report", "demo__overloaded.nodal.txt"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(string(readme), "$ nodal report demo/overloaded.nodal\n"+string(golden)+"```") {
+		t.Error("README.md does not show the report of demo/overloaded.nodal as testdata/report has it")
+	}
+}
