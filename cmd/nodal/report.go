@@ -206,6 +206,9 @@ func noReport(res *check.Result) string {
 	if e, w := count(res.Diags); e+w > 0 {
 		return "no operating point, so no report: fix the findings above first"
 	}
+	if res.Build == nil || res.Build.Design == nil || !res.Build.Design.HasParts() {
+		return "no operating point, so no report: the design has no parts"
+	}
 	return "no operating point, so no report: the design is not complete enough to solve (\"nodal check\" says more with its default settings)"
 }
 

@@ -429,3 +429,40 @@ func TestReadmeShowsReport(t *testing.T) {
 		t.Error("README.md does not show the report of demo/overloaded.nodal as testdata/report has it")
 	}
 }
+
+// Junk is a finding or an empty design, never a panic; a panic inside the
+// pipeline is an internal error (exit 2) without a stack trace.
+func TestReportRobust(t *testing.T) {
+	for name, src := range map[string]string{
+		"empty":       "",
+		"binary":      "\x00\x01\x02\xff\xfe\x7f\x1b[31m\x00",
+		"non-utf8":    "ground g\xffnd\nresistor R\xc3 (a, gnd) 1 k\xce\n",
+		"huge number": "ground gnd\nsource V1 (a, gnd) 1e999 V\nresistor R1 (a, gnd) 1 kΩ\n",
+		"no parts":    "ground gnd\n",
+		"crlf":        "ground gnd\r\nsource V1 (a, gnd) 5 V\r\nresistor R1 (a, gnd) 1 kΩ\r\n",
+	} {
+		for _, form := range []string{"text", "json"} {
+			code, out, errOut := runNodal(t, "", src, "report", "--format", form, "-")
+			if code == 2 || strings.Contains(out+errOut, "goroutine") || strings.Contains(out+errOut, "panic") {
+				t.Errorf("%s (%s): exit %d\n%s%s", name, form, code, out, errOut)
+			}
+			if code == 1 && !strings.Contains(errOut, "no operating point") {
+				t.Errorf("%s (%s): exit 1 without saying why: %q", name, form, errOut)
+			}
+			if code == 0 && form == "json" {
+				parseReport(t, out)
+			}
+		}
+	}
+	saved := checkSource
+	defer func() { checkSource = saved }()
+	checkSource = func(name string, src []byte, opt *check.Options) (*check.Result, error) {
+		var m map[string]int
+		m["x"]++ // a nil map write: a genuine runtime panic
+		return nil, nil
+	}
+	code, out, errOut := runNodal(t, "", goodDesign, "report", "-")
+	if code != 2 || out != "" || !strings.Contains(errOut, "internal error") || strings.Contains(errOut, "goroutine") {
+		t.Errorf("panic: exit %d, stdout %q, stderr %q", code, out, errOut)
+	}
+}
