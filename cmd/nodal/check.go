@@ -55,6 +55,10 @@ above it (see "nodal config"). A comment
 at the end of a statement's line, or alone on the line above it, suppresses
 that rule's findings on the statement.
 
+A design too large for this version's solver is not solved; a note on
+standard error says so, as its rating rules did not run. "nodal report
+FILE" prints one design's operating point as a table.
+
 Exit status: 0 when no finding reaches the --fail-on severity, 1 when one
 does, 2 for usage, configuration or I/O trouble.
 
