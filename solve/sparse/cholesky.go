@@ -36,6 +36,7 @@ type Cholesky struct {
 	slot   []int32 // A entry p → C entry slot[p] (or -1)
 	aNnz   int
 	l      *CSC
+	anorm  float64
 
 	// Workspace, allocated once in Analyze.
 	x      []float64
@@ -168,8 +169,37 @@ func (ch *Cholesky) Factorize(a *CSC) error {
 		l.X[p] = math.Sqrt(d)
 		ch.colEnd[k] = p + 1
 	}
+	ch.anorm = symNorm1(c)
 	ch.factored = true
 	return nil
+}
+
+// symNorm1 returns ‖A‖₁ of the symmetric matrix whose upper triangle is C.
+func symNorm1(c *CSC) float64 {
+	s := make([]float64, c.M)
+	for j := 0; j < c.M; j++ {
+		for p := c.P[j]; p < c.P[j+1]; p++ {
+			v := math.Abs(c.X[p])
+			s[j] += v
+			if int(c.I[p]) != j {
+				s[c.I[p]] += v
+			}
+		}
+	}
+	m := 0.0
+	for _, v := range s {
+		m = math.Max(m, v)
+	}
+	return m
+}
+
+// Cond1Est returns an estimate of κ₁(A) = ‖A‖₁·‖A⁻¹‖₁ by the Hager–Higham
+// method (see invNorm1Est); A is symmetric, so A⁻ᵀ = A⁻¹.
+func (ch *Cholesky) Cond1Est() float64 {
+	if !ch.factored {
+		panic("sparse: Cholesky.Cond1Est without a successful Factorize")
+	}
+	return ch.anorm * invNorm1Est(ch.n, ch.Solve, ch.Solve)
 }
 
 // Factor is Analyze followed by Factorize.
