@@ -40,3 +40,14 @@ type PivotTooSmall struct {
 func (e *PivotTooSmall) Error() string {
 	return fmt.Sprintf("sparse: refactor pivot %g for unknown %d is below threshold (column max %g); factorise again", e.Pivot, e.Col, e.Max)
 }
+
+// NotConverged is returned by PCG when the iteration limit is reached before
+// the requested relative residual.
+type NotConverged struct {
+	Iter        int
+	RelResidual float64
+}
+
+func (e *NotConverged) Error() string {
+	return fmt.Sprintf("sparse: PCG did not converge: relative residual %g after %d iterations", e.RelResidual, e.Iter)
+}
