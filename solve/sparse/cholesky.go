@@ -1,4 +1,4 @@
-// cholesky.go: P·A·Pᵀ = L·Lᵀ for symmetric positive-definite A (up-looking, by rows of L)
+// cholesky.go: P·A·Pᵀ = L·Lᵀ for symmetric positive-definite A — symbolic analysis, driver and solve
 
 package sparse
 
@@ -32,17 +32,21 @@ type Cholesky struct {
 	perm   []int32 // perm[k] = original index of row/column k of L
 	pinv   []int32
 	parent []int32 // elimination tree of P·A·Pᵀ
-	c      *CSC    // upper triangle of P·A·Pᵀ
-	slot   []int32 // A entry p → C entry slot[p] (or -1)
+	c      *CSC    // upper triangle of P·A·Pᵀ (pattern for the symbolic phase)
+	cl     *CSC    // lower triangle of P·A·Pᵀ (values for the numeric phase)
+	slot   []int32 // A entry p → cl entry slot[p] (or -1)
 	aNnz   int
-	l      *CSC
+	sn     supernodes
+	l      *CSC // CSC copy of L, built on demand
 	anorm  float64
 
 	// Workspace, allocated once in Analyze.
-	x      []float64
-	stack  []int32
-	mark   []int32
-	colEnd []int32
+	x                  []float64
+	dorig              []float64
+	stack, mark        []int32
+	relpos             []int32
+	link, nextSN, kpos []int32
+	wbuf               []float64
 
 	analysed, factored bool
 }
@@ -52,14 +56,16 @@ type Cholesky struct {
 // allocates L. It panics if A is not square.
 //
 // Column counts are found by walking the row subtrees of the elimination
-// tree (Davis 2006, §4.4, "row counts by traversing row subtrees"), which
-// costs O(nnz(L)); the same traversal is repeated by the numeric phase.
+// tree (Davis 2006, §4.4), which costs O(nnz(L)); a second walk lists the
+// row structure of each supernode (see buildSupernodes).
 func (ch *Cholesky) Analyze(a *CSC) {
 	ch.AnalyzePerm(a, AMD(a))
 }
 
 // AnalyzePerm is Analyze with a caller-supplied ordering (perm[k] = original
-// index eliminated k-th). It panics if perm is not a permutation of 0..n-1.
+// index eliminated k-th), which is then refined by a postorder of its
+// elimination tree (same fill; see Perm for the order actually used). It
+// panics if perm is not a permutation of 0..n-1.
 func (ch *Cholesky) AnalyzePerm(a *CSC, perm []int32) {
 	a.mustSquare("Cholesky")
 	n := a.N
@@ -74,18 +80,27 @@ func (ch *Cholesky) AnalyzePerm(a *CSC, perm []int32) {
 		seen[i] = true
 	}
 	ch.n = n
-	ch.perm = append([]int32(nil), perm...)
+	// Compose the ordering with a postorder of its elimination tree: same
+	// fill, but supernodes become runs of consecutive columns.
+	c, _ := symPermUpper(a, invPerm(perm))
+	post := postorder(etree(c))
+	ch.perm = make([]int32, n)
+	for k, j := range post {
+		ch.perm[k] = perm[j]
+	}
 	ch.pinv = invPerm(ch.perm)
-	ch.c, ch.slot = symPermUpper(a, ch.pinv)
+	ch.c, _ = symPermUpper(a, ch.pinv)
+	ch.cl, ch.slot = symPermLower(a, ch.pinv)
 	ch.aNnz = a.Nnz()
 	ch.parent = etree(ch.c)
 	ch.stack = make([]int32, n)
 	ch.mark = make([]int32, n)
-	ch.colEnd = make([]int32, n)
 	ch.x = make([]float64, n)
+	ch.dorig = make([]float64, n)
+	ch.relpos = make([]int32, n)
 
 	// counts[j] = nnz(L(:,j)) including the diagonal.
-	counts := ch.colEnd
+	counts := make([]int32, n)
 	for j := range counts {
 		counts[j] = 1
 		ch.mark[j] = -1
@@ -96,14 +111,17 @@ func (ch *Cholesky) AnalyzePerm(a *CSC, perm []int32) {
 			counts[j]++
 		}
 	}
-	lp := make([]int32, n+1)
 	total := 0
-	for j := 0; j < n; j++ {
-		total += int(counts[j])
-		checkIndexRange(n, n, total)
-		lp[j+1] = int32(total)
+	for _, c := range counts {
+		total += int(c)
 	}
-	ch.l = &CSC{N: n, M: n, P: lp, I: make([]int32, total), X: make([]float64, total)}
+	checkIndexRange(n, n, total)
+	ch.sn = buildSupernodes(ch.c, ch.parent, counts, ch.stack, ch.mark)
+	ns := len(ch.sn.super) - 1
+	ch.link = make([]int32, ns)
+	ch.nextSN = make([]int32, ns)
+	ch.kpos = make([]int32, ns)
+	ch.l = nil
 	ch.analysed = true
 	ch.factored = false
 }
@@ -113,9 +131,11 @@ func (ch *Cholesky) AnalyzePerm(a *CSC, perm []int32) {
 // been). It returns *NotPositiveDefinite if a pivot is not positive; the
 // factor is then unusable until a successful Factorize.
 //
-// The method is the up-looking algorithm (Davis 2006, §4.8): row k of L is
-// found by a sparse triangular solve L(0:k,0:k)·l = C(0:k,k) whose pattern is
-// the row subtree given by ereach, then l_kk = √(c_kk − lᵀl).
+// The numeric work is the left-looking supernodal method (see
+// factorSupernodal): columns with a shared row structure are factorised
+// together as dense blocks, and large block updates go to gonum's Dgemm.
+// Factorize allocates nothing after the first call on a pattern beyond the
+// update buffer, which only grows.
 func (ch *Cholesky) Factorize(a *CSC) error {
 	if !ch.analysed {
 		ch.Analyze(a)
@@ -128,53 +148,23 @@ func (ch *Cholesky) Factorize(a *CSC) error {
 	if tol == 0 {
 		tol = DefaultCholeskyTol
 	}
-	c, l, x := ch.c, ch.l, ch.x
-	clear(c.X)
+	cl := ch.cl
+	clear(cl.X)
 	for p, q := range ch.slot {
 		if q >= 0 {
-			c.X[q] += a.X[p]
+			cl.X[q] += a.X[p]
 		}
 	}
-	for j := 0; j < ch.n; j++ {
-		ch.mark[j] = -1
-		ch.colEnd[j] = l.P[j]
+	ch.l = nil
+	if k := ch.factorSupernodal(cl, tol); k >= 0 {
+		return &NotPositiveDefinite{Col: int(ch.perm[k])}
 	}
-	for k := 0; k < ch.n; k++ {
-		top := ereach(c, k, ch.parent, ch.stack, ch.mark)
-		for p := c.P[k]; p < c.P[k+1]; p++ {
-			x[c.I[p]] += c.X[p]
-		}
-		d := x[k]
-		ckk := d
-		x[k] = 0
-		for _, j := range ch.stack[top:] {
-			lkj := x[j] / l.X[l.P[j]]
-			x[j] = 0
-			end := ch.colEnd[j]
-			for p := l.P[j] + 1; p < end; p++ {
-				x[l.I[p]] -= l.X[p] * lkj
-			}
-			d -= lkj * lkj
-			l.I[end] = int32(k)
-			l.X[end] = lkj
-			ch.colEnd[j] = end + 1
-		}
-		if !(d > tol*ckk) || !(d > 0) || math.IsInf(d, 0) {
-			// Clear the workspace for the next Factorize.
-			clear(x)
-			return &NotPositiveDefinite{Col: int(ch.perm[k])}
-		}
-		p := ch.colEnd[k]
-		l.I[p] = int32(k)
-		l.X[p] = math.Sqrt(d)
-		ch.colEnd[k] = p + 1
-	}
-	ch.anorm = symNorm1(c)
+	ch.anorm = symNorm1(cl)
 	ch.factored = true
 	return nil
 }
 
-// symNorm1 returns ‖A‖₁ of the symmetric matrix whose upper triangle is C.
+// symNorm1 returns ‖A‖₁ of the symmetric matrix whose upper or lower triangle is C.
 func symNorm1(c *CSC) float64 {
 	s := make([]float64, c.M)
 	for j := 0; j < c.M; j++ {
@@ -221,20 +211,28 @@ func (ch *Cholesky) Solve(b []float64) {
 	for k, i := range ch.perm {
 		x[k] = b[i]
 	}
-	lsolve(ch.l, x)
-	ltsolve(ch.l, x)
+	ch.sn.solve(x)
 	for k, i := range ch.perm {
 		b[i] = x[k]
 	}
 	clear(x)
 }
 
-// L returns the factor L (diagonal first in each column, rows in the
-// permuted numbering). It is owned by the receiver.
-func (ch *Cholesky) L() *CSC { return ch.l }
+// L returns the factor L in CSC form (diagonal first in each column, rows in
+// the permuted numbering). It is built from the supernodal storage on the
+// first call after each Factorize and owned by the receiver.
+func (ch *Cholesky) L() *CSC {
+	if !ch.factored {
+		panic("sparse: Cholesky.L without a successful Factorize")
+	}
+	if ch.l == nil {
+		ch.l = ch.sn.toCSC(ch.n)
+	}
+	return ch.l
+}
 
 // Perm returns the ordering: row/column k of L is unknown Perm()[k] of A.
 func (ch *Cholesky) Perm() []int32 { return ch.perm }
 
 // NnzL returns nnz(L) including the diagonal, known after Analyze.
-func (ch *Cholesky) NnzL() int { return ch.l.Nnz() }
+func (ch *Cholesky) NnzL() int { return ch.sn.nnzL }

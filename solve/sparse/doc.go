@@ -57,11 +57,15 @@
 // resistor network with a path to ground from every node is symmetric
 // positive definite. Cholesky factors P·A·Pᵀ = L·Lᵀ with P from AMD. Analyze
 // computes the ordering, the elimination tree (Liu 1986) and the exact
-// column counts of L, and allocates L once; Factorize is the up-looking
-// method (Davis 2006, ch. 4), one row of L per sparse triangular solve along
-// the elimination tree, and can be repeated for new values. Only the upper
-// triangle of A is read. Solve overwrites b with A⁻¹b; Cond1Est estimates
-// κ₁(A).
+// column counts of L, postorders the tree (same fill, contiguous
+// supernodes), finds the supernodes — runs of columns sharing one row
+// structure — and allocates L once as dense blocks. Factorize is the
+// left-looking supernodal method (Ng & Peyton 1993): block updates from
+// descendant supernodes, large ones through gonum's Dgemm, then a blocked
+// dense factorisation of each panel. It can be repeated for new values on
+// the analysed pattern. Only the upper triangle of A is read. Solve
+// overwrites b with A⁻¹b; Cond1Est estimates κ₁(A); L returns the factor in
+// CSC form.
 //
 // # Iterative solution
 //
@@ -101,6 +105,13 @@
 //     9(5), 1988.
 //   - J. W. H. Liu, "A compact row storage scheme for Cholesky factors using
 //     elimination trees", ACM Trans. Math. Softw. 12(2), 1986.
+//   - J. W. H. Liu, "The role of elimination trees in sparse factorization",
+//     SIAM J. Matrix Anal. Appl. 11(1), 1990.
+//   - E. G. Ng, B. W. Peyton, "Block sparse Cholesky algorithms on advanced
+//     uniprocessor computers", SIAM J. Sci. Comput. 14(5), 1993.
+//   - F. G. Gustavson, "Two fast algorithms for sparse matrices:
+//     multiplication and permuted transposition", ACM Trans. Math. Softw.
+//     4(3), 1978.
 //   - W. W. Hager, "Condition estimates", SIAM J. Sci. Stat. Comput. 5(2),
 //     1984.
 //   - N. J. Higham, "FORTRAN codes for estimating the one-norm of a real or

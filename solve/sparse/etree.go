@@ -35,7 +35,7 @@ func etree(c *CSC) []int32 {
 // ereach computes the nonzero pattern of row k of L (excluding the
 // diagonal): the union of the etree paths from each i < k with c_ik ≠ 0 up to
 // k. The pattern is left in stack[top:] in an order where every node comes
-// before its ancestors, which is the order the up-looking factorisation needs.
+// before its ancestors (a topological order of the row subtree).
 // mark must hold values ≠ k on entry for all nodes; visited nodes get k.
 func ereach(c *CSC, k int, parent, stack, mark []int32) (top int) {
 	n := c.M

@@ -1,4 +1,4 @@
-// symperm.go: C ← upper triangle of P·A·Pᵀ, with P = I(perm,:)
+// symperm.go: C ← upper (or lower) triangle of P·A·Pᵀ, with P = I(perm,:)
 
 package sparse
 
@@ -7,7 +7,19 @@ package sparse
 // slot, where slot[p] is the position in C that A's entry p was added into,
 // or -1 for an ignored entry. pinv[old] = new. Rows in C's columns are not
 // sorted; the factorisation does not need them sorted.
-func symPermUpper(a *CSC, pinv []int32) (*CSC, []int32) {
+func symPermUpper(a *CSC, pinv []int32) (*CSC, []int32) { return symPerm(a, pinv, false) }
+
+// symPermLower is symPermUpper but stores the lower triangle (row ≥ column)
+// of P·A·Pᵀ.
+func symPermLower(a *CSC, pinv []int32) (*CSC, []int32) { return symPerm(a, pinv, true) }
+
+func symPerm(a *CSC, pinv []int32, lower bool) (*CSC, []int32) {
+	place := func(i2, j2 int32) (row, col int32) {
+		if (i2 <= j2) != lower {
+			return i2, j2
+		}
+		return j2, i2
+	}
 	n := a.M
 	c := &CSC{N: n, M: n, P: make([]int32, n+1)}
 	for j := 0; j < n; j++ {
@@ -17,7 +29,8 @@ func symPermUpper(a *CSC, pinv []int32) (*CSC, []int32) {
 			if int(i) > j {
 				continue
 			}
-			c.P[max(pinv[i], j2)+1]++
+			_, col := place(pinv[i], j2)
+			c.P[col+1]++
 		}
 	}
 	for j := 0; j < n; j++ {
@@ -36,11 +49,10 @@ func symPermUpper(a *CSC, pinv []int32) (*CSC, []int32) {
 				slot[p] = -1
 				continue
 			}
-			i2 := pinv[i]
-			col := max(i2, j2)
+			row, col := place(pinv[i], j2)
 			q := next[col]
 			next[col]++
-			c.I[q] = min(i2, j2)
+			c.I[q] = row
 			c.X[q] = a.X[p]
 			slot[p] = q
 		}
