@@ -136,12 +136,23 @@ func (f *LU) Factorize(a *CSC) error {
 	f.hasPat = false
 	f.anorm = a.Norm1()
 	nz := a.Nnz()
-	lp := make([]int32, n+1)
-	up := make([]int32, n+1)
-	li := make([]int32, 0, 4*nz+n)
-	lx := make([]float64, 0, 4*nz+n)
-	ui := make([]int32, 0, 4*nz+n)
-	ux := make([]float64, 0, 4*nz+n)
+	// Storage of a previous factorisation of this size is reused (a Newton
+	// loop that must re-pivot then allocates nothing new); otherwise start
+	// from a guess of 4·nnz(A)+n entries per factor and let append grow it.
+	var lp, up, li, ui []int32
+	var lx, ux []float64
+	if f.l != nil && f.l.M == n {
+		lp, up = f.l.P, f.u.P
+		li, lx, ui, ux = f.l.I[:0], f.l.X[:0], f.u.I[:0], f.u.X[:0]
+	} else {
+		lp = make([]int32, n+1)
+		up = make([]int32, n+1)
+		li = make([]int32, 0, 4*nz+n)
+		lx = make([]float64, 0, 4*nz+n)
+		ui = make([]int32, 0, 4*nz+n)
+		ux = make([]float64, 0, 4*nz+n)
+	}
+	f.l, f.u = nil, nil
 	pinv, x, out, mark := f.pinv, f.x, f.out, f.mark
 	for i := range pinv {
 		pinv[i] = -1
@@ -329,10 +340,11 @@ func (f *LU) SolveTranspose(b []float64) {
 }
 
 // L returns the unit lower-triangular factor (rows in pivot order). It is
-// owned by the receiver.
+// owned by the receiver and overwritten by the next Factorize or Refactor.
 func (f *LU) L() *CSC { return f.l }
 
-// U returns the upper-triangular factor. It is owned by the receiver.
+// U returns the upper-triangular factor. It is owned by the receiver and
+// overwritten by the next Factorize or Refactor.
 func (f *LU) U() *CSC { return f.u }
 
 // ColPerm returns Q as an order: column k of L·U is column ColPerm()[k] of A.
