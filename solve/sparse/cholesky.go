@@ -36,6 +36,7 @@ type Cholesky struct {
 	cl     *CSC    // lower triangle of P·A·Pᵀ (values for the numeric phase)
 	slot   []int32 // A entry p → cl entry slot[p] (or -1)
 	aNnz   int
+	aP, aI []int32 // pattern of A at Analyze, checked by Factorize
 	sn     supernodes
 	l      *CSC // CSC copy of L, built on demand
 	anorm  float64
@@ -92,6 +93,8 @@ func (ch *Cholesky) AnalyzePerm(a *CSC, perm []int32) {
 	ch.c, _ = symPermUpper(a, ch.pinv)
 	ch.cl, ch.slot = symPermLower(a, ch.pinv)
 	ch.aNnz = a.Nnz()
+	ch.aP = append(ch.aP[:0], a.P...)
+	ch.aI = append(ch.aI[:0], a.I[:a.Nnz()]...)
 	ch.parent = etree(ch.c)
 	ch.stack = make([]int32, n)
 	ch.mark = make([]int32, n)
@@ -140,7 +143,7 @@ func (ch *Cholesky) Factorize(a *CSC) error {
 	if !ch.analysed {
 		ch.Analyze(a)
 	}
-	if a.N != ch.n || a.M != ch.n || a.Nnz() != ch.aNnz {
+	if !ch.samePattern(a) {
 		panic(fmt.Sprintf("sparse: Cholesky.Factorize pattern differs from the analysed one (%d×%d, nnz %d)", a.N, a.M, a.Nnz()))
 	}
 	ch.factored = false
@@ -190,6 +193,24 @@ func (ch *Cholesky) Cond1Est() float64 {
 		panic("sparse: Cholesky.Cond1Est without a successful Factorize")
 	}
 	return ch.anorm * invNorm1Est(ch.n, ch.Solve, ch.Solve)
+}
+
+// samePattern reports whether A has the pattern given to Analyze (O(nnz)).
+func (ch *Cholesky) samePattern(a *CSC) bool {
+	if a.N != ch.n || a.M != ch.n || a.Nnz() != ch.aNnz {
+		return false
+	}
+	for j, p := range a.P {
+		if p != ch.aP[j] {
+			return false
+		}
+	}
+	for p, i := range a.I[:ch.aNnz] {
+		if i != ch.aI[p] {
+			return false
+		}
+	}
+	return true
 }
 
 // Factor is Analyze followed by Factorize.

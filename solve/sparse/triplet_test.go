@@ -2,6 +2,7 @@ package sparse
 
 import (
 	"math"
+	"strings"
 	"testing"
 
 	"gonum.org/v1/gonum/mat"
@@ -103,4 +104,47 @@ func TestSetValuesMatchesCompress(t *testing.T) {
 			t.Fatalf("SetValues differs from fresh Compress")
 		}
 	})
+}
+
+// Error values must name the unknown they are about (the message is what a
+// user of the checker sees); common practice for diagnostic errors.
+func TestErrorMessagesNameTheUnknown(t *testing.T) {
+	for _, e := range []error{&Singular{Col: 17}, &NotPositiveDefinite{Col: 17}, &PivotTooSmall{Col: 17, Pivot: 1e-9, Max: 1}} {
+		if msg := e.Error(); !strings.Contains(msg, "17") {
+			t.Errorf("%T message %q does not name unknown 17", e, msg)
+		}
+	}
+	if msg := (&NotConverged{Iter: 42, RelResidual: 1e-3}).Error(); !strings.Contains(msg, "42") {
+		t.Errorf("NotConverged message %q does not give the iteration count", msg)
+	}
+}
+
+// Misuse panics: dimension mismatches and a changed pattern on refactor.
+func TestMisusePanics(t *testing.T) {
+	mustPanic := func(name string, f func()) {
+		defer func() {
+			if recover() == nil {
+				t.Errorf("%s did not panic", name)
+			}
+		}()
+		f()
+	}
+	a := gridLaplacian(4, 1)
+	mustPanic("MulVec", func() { a.MulVec(make([]float64, 3), make([]float64, 16)) })
+	mustPanic("Triplet.Add", func() { NewTriplet(2, 2, 0).Add(2, 0, 1) })
+	mustPanic("AMD non-square", func() { AMD(NewCSC(2, 3, 0)) })
+	var ch Cholesky
+	if err := ch.Factor(a); err != nil {
+		t.Fatal(err)
+	}
+	mustPanic("Cholesky.Solve", func() { ch.Solve(make([]float64, 3)) })
+	b := gridLaplacian(4, 1)
+	b.I[1], b.I[2] = b.I[2], b.I[1] // same size, different pattern
+	mustPanic("Cholesky.Factorize pattern", func() { _ = ch.Factorize(b) })
+	var f LU
+	if err := f.Factor(a); err != nil {
+		t.Fatal(err)
+	}
+	mustPanic("LU.Refactor pattern", func() { _ = f.Refactor(b) })
+	mustPanic("LU.Solve", func() { f.Solve(make([]float64, 5)) })
 }
