@@ -46,6 +46,7 @@ type LU struct {
 
 	x                          []float64
 	stack, pstack, out, mark   []int32
+	lpend                      []int32
 	analysed, factored, hasPat bool
 }
 
@@ -88,6 +89,7 @@ func (f *LU) AnalyzePerm(a *CSC, q []int32) {
 	f.pstack = make([]int32, n)
 	f.out = make([]int32, n)
 	f.mark = make([]int32, n)
+	f.lpend = make([]int32, n)
 	f.analysed = true
 	f.factored = false
 	f.hasPat = false
@@ -153,15 +155,16 @@ func (f *LU) Factorize(a *CSC) error {
 		ux = make([]float64, 0, 4*nz+n)
 	}
 	f.l, f.u = nil, nil
-	pinv, x, out, mark := f.pinv, f.x, f.out, f.mark
+	pinv, x, out, mark, lpend := f.pinv, f.x, f.out, f.mark, f.lpend
 	for i := range pinv {
 		pinv[i] = -1
 		mark[i] = 0
+		lpend[i] = -1
 	}
 	for k := 0; k < n; k++ {
 		col := int(f.q[k])
 		stamp := int32(k + 1)
-		top := luReach(a, col, lp, li, pinv, f.stack, f.pstack, out, mark, stamp)
+		top := luReach(a, col, lp, lpend, li, pinv, f.stack, f.pstack, out, mark, stamp)
 		colMax := 0.0
 		for p := a.P[col]; p < a.P[col+1]; p++ {
 			x[a.I[p]] += a.X[p]
@@ -207,6 +210,39 @@ func (f *LU) Factorize(a *CSC) error {
 		ux = append(ux, pivot)
 		up[k+1] = int32(len(ui))
 		pinv[ipiv] = int32(k)
+		// Symmetric pruning (S. C. Eisenstat and J. W. H. Liu, "Exploiting
+		// structural symmetry in unsymmetric sparse symbolic factorization",
+		// SIAM J. Matrix Anal. Appl. 13(1), 1992): if u_jk ≠ 0 and
+		// l_(ipiv)j ≠ 0, every row of L(:,j) not yet pivotal is also in
+		// L(:,k), so later searches through j need only its pivotal rows.
+		// Those are moved to the front of L(:,j) and the rest skipped.
+		for _, i := range out[top:] {
+			j := pinv[i]
+			if j < 0 || j == int32(k) || lpend[j] >= 0 {
+				continue
+			}
+			lo, hi := lp[j]+1, lp[j+1]
+			found := false
+			for p := lo; p < hi; p++ {
+				if li[p] == ipiv {
+					found = true
+					break
+				}
+			}
+			if !found {
+				continue
+			}
+			for lo < hi {
+				if pinv[li[lo]] >= 0 {
+					lo++
+					continue
+				}
+				hi--
+				li[lo], li[hi] = li[hi], li[lo]
+				lx[lo], lx[hi] = lx[hi], lx[lo]
+			}
+			lpend[j] = lo
+		}
 		// L(:,k): unit diagonal first, then the multipliers.
 		li = append(li, ipiv)
 		lx = append(lx, 1)

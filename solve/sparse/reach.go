@@ -9,9 +9,10 @@ package sparse
 // (pinv[i] = j ≥ 0) has edges to the rows of L(:,j). A depth-first search
 // from every nonzero row of A(:,col) leaves the reachable set in
 // out[top:n] in reverse postorder, so each node precedes all nodes it
-// updates. The search is iterative with an explicit stack (stack, pstack).
+// updates. Where lpend[j] ≥ 0 only L(:,j) entries before lpend[j] are
+// followed (symmetric pruning; the rest are reachable another way). The search is iterative with an explicit stack (stack, pstack).
 // Nodes visited get mark[i] = stamp.
-func luReach(a *CSC, col int, lp, li, pinv []int32, stack, pstack, out, mark []int32, stamp int32) (top int) {
+func luReach(a *CSC, col int, lp, lpend, li, pinv []int32, stack, pstack, out, mark []int32, stamp int32) (top int) {
 	top = len(out)
 	for p := a.P[col]; p < a.P[col+1]; p++ {
 		start := a.I[p]
@@ -32,6 +33,9 @@ func luReach(a *CSC, col int, lp, li, pinv []int32, stack, pstack, out, mark []i
 			descended := false
 			if j >= 0 {
 				end := lp[j+1]
+				if e := lpend[j]; e >= 0 {
+					end = e // symmetrically pruned column (see LU.Factorize)
+				}
 				for q := pstack[head]; q < end; q++ {
 					r := li[q]
 					if mark[r] == stamp {
