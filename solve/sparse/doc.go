@@ -37,8 +37,9 @@
 // chooses the column order Q by AMD on A + Aᵀ; Factorize is the left-looking
 // method of Gilbert & Peierls (1988): each column is a sparse triangular
 // solve whose nonzero pattern is found by a depth-first search in the graph
-// of L, so the work is proportional to the arithmetic. Pivots are chosen by
-// threshold partial pivoting: the diagonal is kept when
+// of L, so the work is proportional to the arithmetic; the search runs on
+// a symmetrically pruned graph of L (Eisenstat & Liu 1992). Pivots are
+// chosen by threshold partial pivoting: the diagonal is kept when
 // |a_jj| ≥ τ·max_i|a_ij| (τ = LU.Tol, default 0.1), which keeps the
 // symmetric structure of MNA matrices and the benefit of the symmetric
 // ordering; otherwise the largest candidate is taken (branch rows of voltage
@@ -103,6 +104,9 @@
 //   - J. R. Gilbert, T. Peierls, "Sparse partial pivoting in time
 //     proportional to arithmetic operations", SIAM J. Sci. Stat. Comput.
 //     9(5), 1988.
+//   - S. C. Eisenstat, J. W. H. Liu, "Exploiting structural symmetry in
+//     unsymmetric sparse symbolic factorization", SIAM J. Matrix Anal. Appl.
+//     13(1), 1992.
 //   - J. W. H. Liu, "A compact row storage scheme for Cholesky factors using
 //     elimination trees", ACM Trans. Math. Softw. 12(2), 1986.
 //   - J. W. H. Liu, "The role of elimination trees in sparse factorization",

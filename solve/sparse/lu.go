@@ -309,6 +309,9 @@ func (f *LU) Refactor(a *CSC) error {
 			xj := x[j]
 			x[j] = 0
 			u.X[p] = xj
+			if xj == 0 {
+				continue
+			}
 			for q := l.P[j] + 1; q < l.P[j+1]; q++ {
 				x[l.I[q]] -= l.X[q] * xj
 			}
