@@ -145,3 +145,16 @@ func TestDistanceAndSuggest(t *testing.T) {
 		t.Errorf("one-letter names get suggestions: %q", s)
 	}
 }
+
+// Comparing one name against every net of a large design must not
+// allocate per comparison.
+func TestDistanceDoesNotAllocate(t *testing.T) {
+	if n := testing.AllocsPerRun(100, func() { Distance("n123_456", "n123_457", 2) }); n != 0 {
+		t.Errorf("Distance allocates %v times per call", n)
+	}
+	// Past the stack rows, still correct.
+	long := strings.Repeat("a", 60)
+	if d := Distance(long, long+"b", 2); d != 1 {
+		t.Errorf("Distance of 60- and 61-byte names = %d, want 1", d)
+	}
+}

@@ -7,8 +7,15 @@ func Distance(a, b string, max int) int {
 	if d := len(a) - len(b); d > max || -d > max {
 		return max + 1
 	}
-	prev := make([]int, len(b)+1)
-	cur := make([]int, len(b)+1)
+	// Rows on the stack for names of ordinary length: a floating net is
+	// compared against every net of the design, so this is a hot loop.
+	var rows [2][48]int
+	prev, cur := rows[0][:], rows[1][:]
+	if len(b)+1 <= len(rows[0]) {
+		prev, cur = prev[:len(b)+1], cur[:len(b)+1]
+	} else {
+		prev, cur = make([]int, len(b)+1), make([]int, len(b)+1)
+	}
 	for j := range prev {
 		prev[j] = j
 	}

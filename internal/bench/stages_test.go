@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"math/rand/v2"
+	"runtime"
 	"sync"
 	"testing"
 
@@ -243,4 +244,39 @@ func BenchmarkSolve(b *testing.B) {
 			perPart(b, len(d.Parts))
 		})
 	}
+}
+
+// BenchmarkMemory reports what stays live per part after each stage, with
+// the collector run in between: the syntax tree (and the source string it
+// points into), the circuit model, and the topology result. It times
+// nothing worth reading; the figures are the B/part metrics.
+func BenchmarkMemory(b *testing.B) {
+	each(b, func(b *testing.B, kind string, src []byte) {
+		live := func() float64 {
+			runtime.GC()
+			var m runtime.MemStats
+			runtime.ReadMemStats(&m)
+			return float64(m.HeapAlloc)
+		}
+		var ast, model, topo float64
+		var parts int
+		for b.Loop() {
+			m0 := live()
+			fset := diag.NewFileSet()
+			file := fset.AddFile("bench.nodal", src)
+			f := grammar.Parse("bench.nodal", src)
+			m1 := live()
+			r := circuit.Build(file, f)
+			m2 := live()
+			t := topology.Analyze(r.Design)
+			m3 := live()
+			parts = len(r.Design.Parts)
+			ast, model, topo = m1-m0, m2-m1, m3-m2
+			runtime.KeepAlive(f)
+			runtime.KeepAlive(t)
+		}
+		b.ReportMetric(ast/float64(parts), "ast-B/part")
+		b.ReportMetric(model/float64(parts), "model-B/part")
+		b.ReportMetric(topo/float64(parts), "topology-B/part")
+	})
 }
