@@ -174,7 +174,7 @@ func readValue(lex *lexer.PeekingLexer, v *Value) bool {
 }
 
 // readPart reads a Part as the grammar does, for the subset without
-// parameters or expressions, and reports whether it could.
+// expressions in braces, and reports whether it could.
 func readPart(lex *lexer.PeekingLexer, p *Part, nodes *partNodes) bool {
 	p.Pos = lex.Peek().Pos
 	if !readName(lex, &nodes.kind) || !readName(lex, &nodes.name) {
@@ -224,6 +224,11 @@ func readPart(lex *lexer.PeekingLexer, p *Part, nodes *partNodes) bool {
 		return false
 	}
 	lex.Next()
+	if isPunctTok(lex.Peek(), "[") {
+		if !readParams(lex, p) {
+			return false
+		}
+	}
 	if t := lex.Peek(); startsValue(t) {
 		if !readValue(lex, &nodes.value) {
 			return false
@@ -236,7 +241,7 @@ func readPart(lex *lexer.PeekingLexer, p *Part, nodes *partNodes) bool {
 			break
 		}
 		if !isNameTok(t) {
-			return false // parameters, braces, stray punctuation: the grammar's
+			return false // braces, stray punctuation: the grammar's
 		}
 		an := &attrNodes{}
 		a := &an.attr
@@ -326,4 +331,40 @@ func (tb *tokenBuffer) lexer(toks []lexer.Token) (*lexer.PeekingLexer, error) {
 	tb.buf = pl.Range(0, lexer.RawCursor(n))
 	tb.buf[len(toks)-1] = toks[len(toks)-1]
 	return pl, nil
+}
+
+// readParams reads an instance's parameter list as the grammar does:
+// "[" ( Assign ( "," Assign )* )? "]", each Assign a name with an
+// optional "=" and plain value.
+func readParams(lex *lexer.PeekingLexer, p *Part) bool {
+	lex.Next() // [
+	if !isPunctTok(lex.Peek(), "]") {
+		for {
+			a := &Assign{Pos: lex.Peek().Pos, Name: &Name{}}
+			if !readName(lex, a.Name) {
+				return false
+			}
+			if isPunctTok(lex.Peek(), "=") {
+				lex.Next()
+				if !startsValue(lex.Peek()) {
+					return false
+				}
+				a.Value = &Value{}
+				if !readValue(lex, a.Value) {
+					return false
+				}
+			}
+			a.EndPos = lex.RawPeek().Pos
+			p.Params = append(p.Params, a)
+			if !isPunctTok(lex.Peek(), ",") {
+				break
+			}
+			lex.Next()
+		}
+	}
+	if !isPunctTok(lex.Peek(), "]") {
+		return false
+	}
+	lex.Next()
+	return true
 }

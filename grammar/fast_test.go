@@ -83,7 +83,7 @@ func TestFastPathMatchesGrammarOnGenerated(t *testing.T) {
 // The fast path must really be taken for plain part lines, or the test
 // above would pass by always falling back.
 func TestFastPathIsTaken(t *testing.T) {
-	src := "resistor R1 (a, b) 4.7 kΩ tol 1%\nled D1 (anode=x, cathode=y) vf 2 V at 20 mA\nswitch S1 (a, b) open\n"
+	src := "resistor R1 (a, b) 4.7 kΩ tol 1%\nled D1 (anode=x, cathode=y) vf 2 V at 20 mA\nswitch S1 (a, b) open\ncell X1 (a, b, gnd) [r = 10 Ω, q]\n"
 	pl, err := (definition{}).Lex("x", strings.NewReader(src))
 	if err != nil {
 		t.Fatal(err)
@@ -97,8 +97,8 @@ func TestFastPathIsTaken(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if b.Run == nil || len(b.Run.sts) != 3 {
-		t.Fatalf("the fast path read %+v, not the three part lines", b.Run)
+	if b.Run == nil || len(b.Run.sts) != 4 {
+		t.Fatalf("the fast path read %+v, not the four part lines", b.Run)
 	}
 	for i, st := range b.Run.sts {
 		if st.Part == nil {
