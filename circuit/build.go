@@ -68,6 +68,7 @@ func BuildFile(fset *diag.FileSet, file *diag.File, src []byte, ast *grammar.Fil
 }
 
 type builder struct {
+	quantities map[quantityKey]units.Quantity // see quantity
 	fset       *diag.FileSet
 	opt        Options
 	file       *diag.File // the file of the statement being elaborated
@@ -380,12 +381,36 @@ func (b *builder) quantity(v *grammar.Value) (units.Quantity, error) {
 	case v.Expr != nil:
 		return b.eval(v)
 	}
-	q, err := units.Parse(v.Num, v.Unit)
+	// Large designs repeat a few values millions of times ("10 mΩ" on
+	// every segment of a mesh): remember the quantities read so far.
+	key := quantityKey{v.Num, v.Unit}
+	q, ok := b.quantities[key]
+	if !ok {
+		var err error
+		if q, err = units.Parse(v.Num, v.Unit); err != nil {
+			if v.Neg {
+				q.Value = -q.Value
+			}
+			return q, err
+		}
+		if b.quantities == nil {
+			b.quantities = make(map[quantityKey]units.Quantity)
+		}
+		if len(b.quantities) < maxQuantities {
+			b.quantities[key] = q
+		}
+	}
 	if v.Neg {
 		q.Value = -q.Value
 	}
-	return q, err
+	return q, nil
 }
+
+// quantityKey is the text of a plain quantity: number and unit word.
+type quantityKey struct{ num, unit string }
+
+// maxQuantities bounds the builder's table of quantities read.
+const maxQuantities = 4096
 
 func (b *builder) describe(v *grammar.Value) string {
 	if v.Expr != nil {

@@ -316,7 +316,9 @@ func (tb *tokenBuffer) lexer(toks []lexer.Token) (*lexer.PeekingLexer, error) {
 	// Upgrade copies up to the first EOF: fill the room after the batch
 	// with placeholder tokens so that the copy has room to spare, then
 	// end the batch in the copy.
-	n := max(2*len(toks), 1<<14)
+	// A quarter to spare covers batches of slightly longer lines; a small
+	// file gets a small buffer, since Upgrade's copy is paid per file.
+	n := len(toks) + len(toks)/4 + 64
 	room := make([]lexer.Token, n)
 	copy(room, toks[:len(toks)-1])
 	for i := len(toks) - 1; i < n-1; i++ {
