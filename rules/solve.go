@@ -24,6 +24,11 @@ type SolveResult struct {
 	// rules accept: it is too large for this version's solver (an
 	// *solve.Error of kind TooLarge). The rating rules then say nothing.
 	Skipped error
+	// NoCondEstimate says that the solve made no condition estimate (the
+	// iterative solver, used for the largest designs, makes none), so
+	// ill-conditioned could not judge the design; the KCL self-check still
+	// guards its results.
+	NoCondEstimate bool
 }
 
 // Solve computes the DC operating point; it reports nothing itself. Its
@@ -51,7 +56,7 @@ var Solve = &Analyzer{
 		if err != nil {
 			return &SolveResult{Err: err, Ran: true}, nil
 		}
-		return &SolveResult{OP: op, Ran: true}, nil
+		return &SolveResult{OP: op, Ran: true, NoCondEstimate: !op.CondEstimated}, nil
 	},
 }
 
@@ -155,9 +160,11 @@ var IllConditioned = &Analyzer{
 	Severity: diag.Warning,
 	Requires: []*Analyzer{Solve},
 	Doc: `the equations are so ill-conditioned that the results may be inaccurate
-The condition number of the final system is estimated; above 1e12 the
-solved voltages and currents may have lost most of their digits. The usual
-cause is part values spanning many decades.`,
+The condition number of the final system, equilibrated by a symmetric
+diagonal scaling, is estimated; above 1e12 the solved voltages and currents
+may have lost most of their digits. The usual cause is a tiny resistance
+between nets that the rest of the circuit holds only by huge ones. Designs
+solved iteratively (the largest) get no estimate and no finding.`,
 	Run: func(p *Pass) (any, error) {
 		r := op(p)
 		if r == nil || !(r.Cond > IllConditionedLimit) {

@@ -3,16 +3,54 @@
 //
 // # Equations
 //
-// The equations are those of Modified Nodal Analysis (Ho, Ruehli & Brennan,
-// "The modified nodal approach to network analysis", IEEE Trans. Circuits
-// and Systems 22(6), 1975): one unknown per net except ground, plus one
-// branch current per voltage source. At DC a capacitor is open, an open
-// switch is open, and an inductor or fuse is its dcr (a resistor) or, with
-// no dcr, an ideal short like a wire or a closed switch.
+// At DC a capacitor is open, an open switch is open, and an inductor or fuse
+// is its dcr (a resistor) or, with no dcr, an ideal short like a wire or a
+// closed switch.
 //
-// Ideal shorts get no unknown of their own: the nets they join are merged
-// (union–find) before the equations are built, and their currents are
-// recovered afterwards from Kirchhoff's current law over the tree of shorts.
+// Ideal shorts and voltage sources get no unknown of their own. A weighted
+// union–find over them (each net carries its potential above its parent)
+// turns every group of nets they tie together into one unknown plus known
+// offsets — the group holding ground into known voltages — before the
+// equations are built. Topology guarantees that they form a forest once the
+// design is well posed. The remaining equations, from resistors, dcr,
+// series resistance, the Newton companion conductances of the junctions
+// (always positive) and current sources, form a weighted graph Laplacian
+// with grounding: symmetric positive definite. The currents of shorts and
+// sources are recovered afterwards from Kirchhoff's current law over their
+// forest.
+//
+// The general path, used when a source closes a loop of sources and shorts
+// (which the elimination cannot represent) or when Options.MNA asks for it,
+// is Modified Nodal Analysis (Ho, Ruehli & Brennan, "The modified nodal
+// approach to network analysis", IEEE Trans. Circuits and Systems 22(6),
+// 1975): one unknown per group of shorted nets except ground's, plus one
+// branch current per voltage source; its equations are symmetric but
+// indefinite.
+//
+// # Linear solvers
+//
+// The automatic choice (Options.Solver) takes gonum's dense LU for systems
+// of at most AutoDenseMax unknowns; the sparse supernodal Cholesky
+// factorisation for the eliminated equations up to AutoCholeskyMax; beyond
+// that conjugate gradients preconditioned by smoothed-aggregation AMG, which
+// falls back to Cholesky if it does not converge; and the sparse LU for the
+// indefinite MNA equations. The crossovers were measured (see
+// BenchmarkSolverCrossover). In a Newton loop every factorisation keeps its
+// symbolic analysis and refactors numerically; PCG keeps its multigrid
+// hierarchy while it stays effective and starts from the previous solution.
+// A PCG solution is accepted when, beyond its residual norm, every unknown
+// is settled against its own equation (see pcgSolver.settled), and Solve
+// tightens the tolerance and solves again if the result misses the KCL
+// self-check.
+//
+// # Condition
+//
+// Result.Cond estimates κ₁ of the system after the symmetric scaling
+// D·A·D, D = diag(1/√(max_j |a_ij|)) (Jacobi scaling for the Laplacian;
+// van der Sluis, Numer. Math. 14, 1969), by the Hager–Higham estimator. A
+// net tied to the rest only by a junction's leakage then raises no alarm,
+// while a milliohm link between nets held by teraohms still does. PCG makes
+// no estimate: Cond is 0 and CondEstimated false.
 // Where shorts alone form a loop (two wires in parallel, say) the split of
 // current between them is not determined by the circuit; nodal then gives
 // the whole current to the short written first and reports 0 A in each short

@@ -1,9 +1,12 @@
 package solve
 
 import (
+	"errors"
 	"math"
 
 	"gonum.org/v1/gonum/mat"
+
+	"nodal/solve/sparse"
 )
 
 // system is a square linear system A·x = b held as a fixed list of stamps:
@@ -64,29 +67,151 @@ func (s *system) inject(a int32, i float64) {
 	}
 }
 
-// mulVec sets y = A·x.
-func (s *system) mulVec(y, x []float64) {
-	clear(y)
-	for k, v := range s.val {
-		y[s.row[k]] += v * x[s.col[k]]
+// LinearSolver names a method for the linear systems of a solve.
+type LinearSolver uint8
+
+const (
+	// AutoSolver chooses by size and structure (see the package doc).
+	AutoSolver LinearSolver = iota
+	// DenseLU is gonum's dense LU with partial pivoting, the reference.
+	DenseLU
+	// SparseCholesky is the supernodal sparse Cholesky factorisation; it
+	// needs the symmetric positive-definite equations of the eliminated
+	// formulation.
+	SparseCholesky
+	// PCGAMG is conjugate gradients preconditioned by smoothed-aggregation
+	// algebraic multigrid; it also needs the eliminated formulation.
+	PCGAMG
+	// SparseLU is the general sparse LU with threshold partial pivoting.
+	SparseLU
+)
+
+func (k LinearSolver) String() string {
+	switch k {
+	case DenseLU:
+		return "dense LU"
+	case SparseCholesky:
+		return "sparse Cholesky"
+	case PCGAMG:
+		return "PCG+AMG"
+	case SparseLU:
+		return "sparse LU"
 	}
+	return "auto"
 }
 
-// linearSolver factorises a system and solves with it. The first factor
-// call analyses the pattern; later calls refactor numerically on the same
-// pattern.
+// Crossovers of the automatic choice, measured by BenchmarkSolverCrossover
+// (solve/bench_test.go) on k×k resistor meshes on a two-core machine; see
+// BENCHMARKS.md.
+const (
+	// AutoDenseMax is the largest system the automatic choice gives the
+	// dense LU.
+	AutoDenseMax = 60
+	// AutoCholeskyMax is the largest symmetric positive-definite system the
+	// automatic choice gives the sparse Cholesky factorisation; larger ones
+	// go to PCG+AMG.
+	AutoCholeskyMax = 40_000
+)
+
+// linearSolver factorises (or otherwise prepares) a system and solves with
+// it. The first factor call analyses the pattern; later calls refactor
+// numerically on the same pattern.
 type linearSolver interface {
 	factor(s *system) error
-	solve(x []float64)
-	// cond estimates the 1-norm condition number of the last factorised
-	// matrix.
+	// solve overwrites x, holding the right-hand side, with the solution.
+	solve(x []float64) error
+	// cond estimates the 1-norm condition number of the equilibrated last
+	// factorised matrix, or returns 0 when the method makes no estimate.
 	cond() float64
+	kind() LinearSolver
 }
 
 // singularError names the unknown (column) where factorisation broke down.
 type singularError struct{ col int }
 
 func (e *singularError) Error() string { return "singular matrix" }
+
+// pivotTol is the relative pivot size below which the sparse
+// factorisations call a system singular: 4ε, so a pivot keeps at least a
+// couple of bits above the rounding of its own diagonal. The topology rules
+// have already excluded the structurally singular designs (floating
+// networks), so a smaller pivot is a genuinely ill-conditioned but solvable
+// system, which the ill-conditioned rule should name rather than the solve
+// refuse (common practice; the sparse package's default of 1000ε is meant
+// for matrices nothing else has checked).
+const pivotTol = 4 * 2.220446049250313e-16
+
+// refine solves A·x = b by x ← A⁻¹b followed by one step of iterative
+// refinement, x ← x + A⁻¹(b − A·x) (Wilkinson's classical scheme, from
+// memory; Higham, Accuracy and Stability of Numerical Algorithms, 2002,
+// ch. 12). x holds b on entry.
+func refine(x []float64, solve func([]float64), mul func(y, x []float64)) {
+	b := append([]float64(nil), x...)
+	solve(x)
+	r := make([]float64, len(x))
+	mul(r, x)
+	for i := range r {
+		r[i] = b[i] - r[i]
+	}
+	solve(r)
+	for i := range x {
+		x[i] += r[i]
+	}
+}
+
+// equilibratedCond estimates κ₁(S) of the symmetric scaling S = D·A·D with
+// D = diag(1/√(max_j |a_ij|)), given ‖S‖₁, the scaling d and a routine that
+// overwrites v with A⁻¹v for the symmetric matrix A. Scaling the rows and
+// columns of A by the same diagonal does not change the solution's
+// sensitivity to the circuit's values but removes the part of κ(A) that
+// comes only from unknowns of very different scale (a net tied to the rest
+// by a picoampere leakage beside nets tied by milliohms): van der Sluis,
+// "Condition numbers and equilibration of matrices", Numer. Math. 14, 1969,
+// shows that for a symmetric positive-definite A the Jacobi scaling is
+// within a factor n of the best diagonal scaling in κ₂. S⁻¹ = D⁻¹A⁻¹D⁻¹,
+// so each solve with S is one with A between two scalings.
+func equilibratedCond(d []float64, snorm float64, solve func([]float64)) float64 {
+	n := len(d)
+	if n == 0 {
+		return 1
+	}
+	f := func(v []float64) {
+		for i := range v {
+			v[i] /= d[i]
+		}
+		solve(v)
+		for i := range v {
+			v[i] /= d[i]
+		}
+	}
+	return snorm * sparse.InvNorm1Est(n, f, f)
+}
+
+// scaling returns d_i = 1/√(max_j |a_ij|) (1 for an empty row) for the
+// symmetric matrix a in CSC form, and ‖D·A·D‖₁.
+func scaling(a *sparse.CSC) ([]float64, float64) {
+	n := a.M
+	d := make([]float64, n)
+	for j := 0; j < n; j++ {
+		m := 0.0
+		for p := a.P[j]; p < a.P[j+1]; p++ {
+			m = math.Max(m, math.Abs(a.X[p]))
+		}
+		d[j] = 1
+		if m > 0 {
+			d[j] = 1 / math.Sqrt(m)
+		}
+	}
+	norm := 0.0
+	for j := 0; j < n; j++ {
+		s := 0.0
+		for p := a.P[j]; p < a.P[j+1]; p++ {
+			s += math.Abs(a.X[p]) * d[a.I[p]] * d[j]
+		}
+		norm = math.Max(norm, s)
+	}
+	return d, norm
+}
 
 // denseSolver is gonum's dense LU with partial pivoting: the reference
 // solver, and the fastest one for small systems.
@@ -96,6 +221,8 @@ type denseSolver struct {
 	x  *mat.VecDense
 	b  *mat.VecDense
 }
+
+func (d *denseSolver) kind() LinearSolver { return DenseLU }
 
 func (d *denseSolver) factor(s *system) error {
 	n := s.n
@@ -138,19 +265,354 @@ func (d *denseSolver) zeroPivot() int {
 	return n - 1
 }
 
-func (d *denseSolver) solve(x []float64) {
-	if len(x) == 0 {
-		return
-	}
+func (d *denseSolver) raw(x []float64) {
 	copy(d.b.RawVector().Data, x)
 	// The condition error gonum may return is reported by cond, not here.
 	_ = d.lu.SolveVecTo(d.x, false, d.b)
 	copy(x, d.x.RawVector().Data)
 }
 
+func (d *denseSolver) solve(x []float64) error {
+	if len(x) == 0 {
+		return nil
+	}
+	refine(x, d.raw, func(y, x []float64) {
+		d.x.MulVec(d.a, mat.NewVecDense(len(x), x))
+		copy(y, d.x.RawVector().Data)
+	})
+	return nil
+}
+
 func (d *denseSolver) cond() float64 {
 	if d.a == nil {
 		return 1
 	}
-	return d.lu.Cond()
+	n, _ := d.a.Dims()
+	raw := d.a.RawMatrix()
+	s := make([]float64, n)
+	for i := 0; i < n; i++ {
+		m := 0.0
+		for _, v := range raw.Data[i*raw.Stride : i*raw.Stride+n] {
+			m = math.Max(m, math.Abs(v))
+		}
+		s[i] = 1
+		if m > 0 {
+			s[i] = 1 / math.Sqrt(m)
+		}
+	}
+	norm := 0.0
+	for j := 0; j < n; j++ {
+		c := 0.0
+		for i := 0; i < n; i++ {
+			c += math.Abs(raw.Data[i*raw.Stride+j]) * s[i] * s[j]
+		}
+		norm = math.Max(norm, c)
+	}
+	return equilibratedCond(s, norm, d.raw)
+}
+
+// sparseMatrix is the CSC form of a system, built once from its stamps and
+// refreshed in O(nnz) after each assembly.
+type sparseMatrix struct {
+	a    *sparse.CSC
+	slot []int32
+}
+
+func (m *sparseMatrix) update(s *system) {
+	if m.a == nil {
+		t := &sparse.Triplet{N: s.n, M: s.n, I: s.row, J: s.col, X: s.val}
+		m.a, m.slot = t.CompressMap()
+		return
+	}
+	m.a.SetValues(s.val, m.slot)
+}
+
+// mul is y ← A·x; A is symmetric, and the transposed product (a gather per
+// column) is the faster loop.
+func (m *sparseMatrix) mul(y, x []float64) { m.a.MulVecTrans(y, x) }
+
+// cholSolver is the supernodal sparse Cholesky factorisation: analysed once,
+// refactored numerically at every Newton iteration.
+type cholSolver struct {
+	m  sparseMatrix
+	ch sparse.Cholesky
+}
+
+func (c *cholSolver) kind() LinearSolver { return SparseCholesky }
+
+func (c *cholSolver) factor(s *system) error {
+	c.m.update(s)
+	if s.n == 0 {
+		return nil
+	}
+	c.ch.Tol = pivotTol
+	err := c.ch.Factorize(c.m.a) // analyses on first use
+	var np *sparse.NotPositiveDefinite
+	if errors.As(err, &np) {
+		return &singularError{col: np.Col}
+	}
+	return err
+}
+
+func (c *cholSolver) solve(x []float64) error {
+	if len(x) > 0 {
+		refine(x, c.ch.Solve, c.m.mul)
+	}
+	return nil
+}
+
+func (c *cholSolver) cond() float64 {
+	if c.m.a == nil || c.m.a.N == 0 {
+		return 1
+	}
+	d, norm := scaling(c.m.a)
+	return equilibratedCond(d, norm, c.ch.Solve)
+}
+
+// luSolver is the general sparse LU: the ordering is computed once, the
+// first factorisation chooses the pivots and later ones reuse them
+// (Refactor) until a pivot fails its threshold test.
+type luSolver struct {
+	m        sparseMatrix
+	lu       sparse.LU
+	factored bool
+}
+
+func (l *luSolver) kind() LinearSolver { return SparseLU }
+
+func (l *luSolver) factor(s *system) error {
+	l.m.update(s)
+	if s.n == 0 {
+		return nil
+	}
+	var err error
+	if l.factored {
+		var pt *sparse.PivotTooSmall
+		if err = l.lu.Refactor(l.m.a); errors.As(err, &pt) {
+			err = l.lu.Factorize(l.m.a)
+		}
+	} else {
+		l.lu.SingularTol = pivotTol
+		l.lu.Analyze(l.m.a)
+		err = l.lu.Factorize(l.m.a)
+	}
+	l.factored = err == nil
+	var sg *sparse.Singular
+	if errors.As(err, &sg) {
+		return &singularError{col: sg.Col}
+	}
+	return err
+}
+
+func (l *luSolver) solve(x []float64) error {
+	if len(x) > 0 {
+		refine(x, l.lu.Solve, l.m.mul)
+	}
+	return nil
+}
+
+func (l *luSolver) cond() float64 {
+	if l.m.a == nil || l.m.a.N == 0 {
+		return 1
+	}
+	d, norm := scaling(l.m.a)
+	return equilibratedCond(d, norm, l.lu.Solve) // A is symmetric: A⁻ᵀ = A⁻¹
+}
+
+// PCGTol is the default relative residual ‖b − A·x‖₂/‖b‖₂ at which PCG
+// stops. Solve tightens it by 1000 and solves again, warm-started, when the
+// result misses the KCL self-check.
+const PCGTol = 1e-10
+
+// pcgMaxIter caps the PCG iterations of one solve.
+const pcgMaxIter = 300
+
+// pcgSolver is conjugate gradients preconditioned by one V-cycle of
+// smoothed-aggregation AMG. The hierarchy is built for the first matrix and
+// kept while it stays effective: any symmetric positive-definite
+// preconditioner keeps PCG convergent, so a hierarchy built for an earlier
+// Newton iterate is still valid, only less sharp; it is rebuilt when an
+// iteration count grows past twice the first one. Every solve starts from
+// the previous solution (warm start). If PCG does not converge, the solver
+// falls back to the sparse Cholesky factorisation for the rest of the solve.
+type pcgSolver struct {
+	m        sparseMatrix
+	amg      *sparse.AMG
+	private  bool // the matrix will change: the hierarchy is built on a copy
+	tol      float64
+	x0, b    []float64
+	first    int // iterations of the first solve with the current hierarchy
+	stale    bool
+	fallback *cholSolver
+	sys      *system
+	diag     []float64
+	iters    int // PCG iterations in all
+}
+
+func (p *pcgSolver) kind() LinearSolver {
+	if p.fallback != nil {
+		return SparseCholesky
+	}
+	return PCGAMG
+}
+
+func (p *pcgSolver) factor(s *system) error {
+	p.sys = s
+	if p.fallback != nil {
+		return p.fallback.factor(s)
+	}
+	p.m.update(s)
+	if p.x0 == nil {
+		p.x0 = make([]float64, s.n)
+		p.b = make([]float64, s.n)
+	}
+	if p.amg == nil || p.stale {
+		return p.build()
+	}
+	return nil
+}
+
+func (p *pcgSolver) build() error {
+	a := p.m.a
+	if p.private {
+		// The finest level smooths with the matrix itself: keep it the
+		// matrix the hierarchy was built for.
+		a = a.Copy()
+	}
+	amg, err := sparse.NewAMG(a, nil)
+	if err != nil {
+		return p.toCholesky()
+	}
+	p.amg, p.stale, p.first = amg, false, 0
+	return nil
+}
+
+func (p *pcgSolver) toCholesky() error {
+	p.amg = nil
+	p.fallback = &cholSolver{}
+	return p.fallback.factor(p.sys)
+}
+
+func (p *pcgSolver) solve(x []float64) error {
+	if p.fallback != nil {
+		return p.fallback.solve(x)
+	}
+	a := p.m.a
+	copy(p.b, x)
+	copy(x, p.x0)
+	p.diag = diagonal(a, p.diag)
+	tol := p.tol
+	for round := 0; ; round++ {
+		it, _, err := sparse.PCG(a, x, p.b, p.amg, tol, pcgMaxIter)
+		p.iters += it
+		var nc *sparse.NotConverged
+		if errors.As(err, &nc) && p.first > 0 && round == 0 {
+			// The hierarchy is from an earlier matrix: rebuild and retry.
+			if err := p.build(); err != nil {
+				return err
+			}
+			if p.fallback == nil {
+				copy(x, p.x0)
+				it, _, err = sparse.PCG(a, x, p.b, p.amg, tol, pcgMaxIter)
+				p.iters += it
+			}
+		}
+		if err == nil && p.fallback == nil {
+			if p.first == 0 {
+				p.first = max(it, 1)
+			} else if it > 2*p.first+5 {
+				p.stale = true
+			}
+			symmetricGaussSeidel(a, p.diag, x, p.b)
+			if p.settled(x) {
+				copy(p.x0, x)
+				return nil
+			}
+		}
+		if err != nil || p.fallback != nil || round == 3 || tol < 1e-15 {
+			if p.fallback == nil {
+				if err := p.toCholesky(); err != nil {
+					return err
+				}
+			}
+			copy(x, p.b)
+			return p.fallback.solve(x)
+		}
+		tol /= 100
+	}
+}
+
+// settled reports whether every unknown is within pcgVoltTol of the value
+// its own equation gives for its neighbours' values: |r_i|/a_ii, the step
+// one Jacobi sweep would take, is at most pcgVoltTol·max|x|. A residual
+// norm alone does not bound the error at an unknown tied to the rest by a
+// tiny conductance (a junction's leakage), where a femtoampere of residual
+// is a millivolt of error.
+func (p *pcgSolver) settled(x []float64) bool {
+	r := make([]float64, len(x))
+	p.m.mul(r, x)
+	xmax := 0.0
+	for _, v := range x {
+		xmax = math.Max(xmax, math.Abs(v))
+	}
+	lim := pcgVoltTol*xmax + 1e-15
+	for i, v := range r {
+		if math.Abs(p.b[i]-v) > lim*p.diag[i] {
+			return false
+		}
+	}
+	return true
+}
+
+// pcgVoltTol bounds the Jacobi step |r_i|/a_ii of an accepted PCG solution,
+// relative to the largest unknown.
+const pcgVoltTol = 1e-11
+
+// diagonal returns the diagonal of a, reusing d.
+func diagonal(a *sparse.CSC, d []float64) []float64 {
+	if len(d) != a.M {
+		d = make([]float64, a.M)
+	}
+	for j := 0; j < a.M; j++ {
+		d[j] = 0
+		for q := a.P[j]; q < a.P[j+1]; q++ {
+			if int(a.I[q]) == j {
+				d[j] += a.X[q]
+			}
+		}
+	}
+	return d
+}
+
+// symmetricGaussSeidel makes one forward and one backward Gauss–Seidel
+// sweep on A·x = b (A symmetric, so column i lists row i). Each sweep
+// leaves every equation satisfied for the values of its neighbours at that
+// moment, which settles unknowns tied to the rest only by tiny
+// conductances; for a symmetric positive-definite A it never increases the
+// energy norm of the error (Saad, Iterative Methods for Sparse Linear
+// Systems, 2nd ed., 2003, §4.1, from memory).
+func symmetricGaussSeidel(a *sparse.CSC, diag, x, b []float64) {
+	step := func(i int) {
+		s := b[i]
+		for q := a.P[i]; q < a.P[i+1]; q++ {
+			s -= a.X[q] * x[a.I[q]]
+		}
+		x[i] += s / diag[i]
+	}
+	for i := 0; i < a.M; i++ {
+		step(i)
+	}
+	for i := a.M - 1; i >= 0; i-- {
+		step(i)
+	}
+}
+
+// cond makes no estimate on the iterative path: an estimate of ‖A⁻¹‖₁
+// would cost several more solves of the whole system, which on the designs
+// that take this path is several times the solve itself.
+func (p *pcgSolver) cond() float64 {
+	if p.fallback != nil {
+		return p.fallback.cond()
+	}
+	return 0
 }

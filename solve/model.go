@@ -54,7 +54,8 @@ const MaxOverdrive = 20
 // junction is the Newton state of one diode or LED.
 type junction struct {
 	part    circuit.PartID
-	a, c    int32 // junction unknowns: anode side (internal when there is series resistance) and cathode
+	a, c    int32   // junction unknowns: anode side (internal when there is series resistance) and cathode
+	oa, oc  float64 // their potentials above those unknowns at full source values (see model.off)
 	is, nvt float64
 	vref    float64 // junction voltage at the vf point
 	vj      float64 // linearisation point

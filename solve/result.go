@@ -19,10 +19,12 @@ func (m *model) result() *Result {
 		NetV: make([]float64, len(d.Nets)),
 		V:    make([]float64, len(d.Parts)), I: make([]float64, len(d.Parts)),
 		P: make([]float64, len(d.Parts)), Junction: make([]float64, len(d.Parts)),
-		Unknowns: m.n, Iterations: m.iters, Cond: m.lin.cond(),
+		Unknowns: m.n, Iterations: m.iters, Linear: m.lin.kind(), MNA: m.mna,
 	}
-	for i, k := range m.node {
-		r.NetV[i] = m.volt(m.x, k)
+	r.Cond = m.lin.cond()
+	r.CondEstimated = r.Cond > 0
+	for i := range m.node {
+		r.NetV[i] = m.netV(m.x, circuit.NetID(i))
 	}
 	for k := range m.junc {
 		j := &m.junc[k]
@@ -41,7 +43,9 @@ func (m *model) result() *Result {
 				r.I[i] = v / p.DCR
 			}
 		case circuit.VoltageSource:
-			r.I[i] = m.x[m.branch[i]]
+			if k := m.branch[i]; k >= 0 {
+				r.I[i] = m.x[k]
+			}
 		case circuit.CurrentSource:
 			r.I[i] = p.Value
 		}
@@ -53,9 +57,10 @@ func (m *model) result() *Result {
 	return r
 }
 
-// shortCurrents recovers the currents of the merged shorts: over each tree
-// of shorts, a short carries whatever the nets beyond it draw through other
-// parts. Shorts that close a loop of shorts carry 0 A.
+// shortCurrents recovers the currents of the merged shorts and eliminated
+// voltage sources by Kirchhoff's current law over their forest: each
+// carries whatever the nets beyond it draw through other parts. Shorts that
+// close a loop of shorts carry 0 A.
 func (m *model) shortCurrents(r *Result) {
 	d := m.d
 	nn := len(d.Nets)

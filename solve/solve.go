@@ -42,8 +42,16 @@ func (e *Error) Error() string { return e.Msg }
 type Options struct {
 	// Temperature in kelvin; 0 means 25 °C.
 	Temperature float64
-	// Dense forces gonum's dense LU whatever the size.
+	// Dense forces gonum's dense LU whatever the size (up to MaxDense
+	// unknowns); it is Solver: DenseLU.
 	Dense bool
+	// Solver forces a linear solver; the zero value chooses automatically.
+	// SparseCholesky and PCGAMG need the eliminated formulation: where the
+	// branch-current formulation is used they are replaced by SparseLU.
+	Solver LinearSolver
+	// MNA forces the general branch-current formulation (one unknown per
+	// voltage source) instead of eliminating the voltage sources.
+	MNA bool
 }
 
 // Result is a DC operating point. Slices are indexed by NetID and PartID;
@@ -60,8 +68,16 @@ type Result struct {
 	Unknowns   int
 	Iterations int    // Newton iterations in all
 	Method     string // "linear", "newton", "gmin stepping" or "source stepping"
-	// Cond estimates the 1-norm condition number of the final system.
-	Cond float64
+	// Linear is the linear solver that produced the final solution, and
+	// MNA whether the branch-current formulation was used.
+	Linear LinearSolver
+	MNA    bool
+	// Cond estimates the 1-norm condition number of the final system after
+	// symmetric diagonal equilibration (see the package doc). It is 0 when
+	// no estimate was made (CondEstimated false): the iterative solver
+	// makes none.
+	Cond          float64
+	CondEstimated bool
 
 	// Self-checks: the largest KCL residual at any net and the largest part
 	// current; the sum of the absorbed powers and the sum of their
@@ -76,9 +92,12 @@ const (
 	TellegenTol = 1e-9
 )
 
-// MaxDense is the largest system solved with the dense LU when no sparse
-// solver is available.
-const MaxDense = 600
+// MaxDense is the largest system solved with the dense LU when it is forced
+// (Options.Dense); its n² storage is 128 MB there.
+const MaxDense = 4000
+
+// maxStamps bounds the stamps of one system: sparse indices are int32.
+const maxStamps = math.MaxInt32
 
 // Newton iteration caps.
 const (
@@ -93,18 +112,28 @@ const (
 
 // model is one design turned into equations.
 type model struct {
-	d      *circuit.Design
-	node   []int32 // per net: its unknown, or -1 for the ground group
-	tree   []bool  // per part: a short that joins two groups
+	d   *circuit.Design
+	mna bool // branch currents for voltage sources; otherwise they are eliminated
+	// node gives per net its unknown, or -1 for the ground group, and off
+	// its potential above that unknown with every source at full value:
+	// V(net) = x[node] + λ·off (x = 0 for the ground group).
+	node   []int32
+	off    []float64
+	tree   []bool  // per part: a short or eliminated source that joins two groups
 	branch []int32 // per part: voltage source current unknown, or diode internal node; -1 otherwise
 	nNodes int     // net and internal-node unknowns
 	n      int
 	junc   []junction
 	sys    *system
 	lin    linearSolver
+	lambda float64
 	x, dx  []float64
 	iters  int
 }
+
+// errSourceLoop says that a voltage source closes a loop of sources and
+// shorts, which the elimination cannot represent.
+var errSourceLoop = errors.New("a voltage source closes a loop of voltage-defining parts")
 
 // Solve finds the DC operating point of d. It expects a design the
 // topology checks accept (topology.Result.WellPosed); a design they would
@@ -117,15 +146,47 @@ func Solve(d *circuit.Design, opt *Options) (*Result, error) {
 	if t == 0 {
 		t = RoomTemperature
 	}
-	m, err := build(d, ThermalVoltage(t))
+	vt := ThermalVoltage(t)
+	m, err := build(d, vt, opt.MNA)
+	if err == errSourceLoop {
+		m, err = build(d, vt, true)
+	}
 	if err != nil {
 		return nil, err
 	}
-	switch {
-	case opt.Dense || m.n <= MaxDense:
+	kind := opt.Solver
+	if opt.Dense {
+		kind = DenseLU
+	}
+	if kind == AutoSolver {
+		switch {
+		case m.n <= AutoDenseMax:
+			kind = DenseLU
+		case m.mna:
+			kind = SparseLU
+		case m.n <= AutoCholeskyMax:
+			kind = SparseCholesky
+		default:
+			kind = PCGAMG
+		}
+	}
+	if m.mna && (kind == SparseCholesky || kind == PCGAMG) {
+		kind = SparseLU
+	}
+	if kind == DenseLU && m.n > MaxDense {
+		return nil, &Error{Kind: TooLarge, Msg: fmt.Sprintf("%d unknowns is too many for the dense solver (%d)", m.n, MaxDense)}
+	}
+	var pcg *pcgSolver
+	switch kind {
+	case DenseLU:
 		m.lin = &denseSolver{}
+	case SparseCholesky:
+		m.lin = &cholSolver{}
+	case PCGAMG:
+		pcg = &pcgSolver{tol: PCGTol, private: len(m.junc) > 0}
+		m.lin = pcg
 	default:
-		return nil, &Error{Kind: TooLarge, Msg: fmt.Sprintf("%d unknowns is more than this version solves (%d)", m.n, MaxDense)}
+		m.lin = &luSolver{}
 	}
 	method, err := m.run()
 	if err != nil {
@@ -133,56 +194,107 @@ func Solve(d *circuit.Design, opt *Options) (*Result, error) {
 	}
 	r := m.result()
 	r.Method = method
-	if err := r.selfCheck(d); err != nil {
+	err = r.selfCheck(d)
+	// An iterative solve stopped on its residual, not on the self-check:
+	// if it missed, tighten and solve again from where it stopped.
+	for tries := 0; pcg != nil && pcg.fallback == nil && isSelfCheck(err) && tries < 2; tries++ {
+		pcg.tol /= 1000
+		if method, err = m.run(); err != nil {
+			return nil, err
+		}
+		r = m.result()
+		r.Method = method
+		err = r.selfCheck(d)
+	}
+	if err != nil {
 		return r, err
 	}
 	return r, nil
 }
 
-func build(d *circuit.Design, vt float64) (*model, error) {
+func isSelfCheck(err error) bool {
+	var se *Error
+	return errors.As(err, &se) && se.Kind == SelfCheck
+}
+
+// build turns d into equations. Ideal shorts always, and voltage sources
+// unless mna is set, are contracted by a union–find whose every element
+// carries its potential above its parent (a weighted union–find; the
+// potentials of a tree of sources are the sums of the source voltages along
+// its paths). Each group of nets tied by shorts and sources becomes one
+// unknown plus known offsets, and the group holding ground becomes known
+// voltages. What remains — conductances and current injections — is a
+// weighted graph Laplacian with grounding: symmetric positive definite when
+// every group has a conducting path to ground, which the topology checks
+// guarantee (Leakage keeps a net behind a junction connected).
+func build(d *circuit.Design, vt float64, mna bool) (*model, error) {
 	nn := len(d.Nets)
-	m := &model{d: d, node: make([]int32, nn), tree: make([]bool, len(d.Parts)), branch: make([]int32, len(d.Parts))}
+	m := &model{d: d, mna: mna, node: make([]int32, nn), off: make([]float64, nn),
+		tree: make([]bool, len(d.Parts)), branch: make([]int32, len(d.Parts)), lambda: 1}
 	uf := make([]int32, nn)
+	pot := make([]float64, nn) // V(x) − V(uf[x])
 	for i := range uf {
 		uf[i] = int32(i)
 	}
-	find := func(x int32) int32 {
-		for uf[x] != x {
-			uf[x] = uf[uf[x]]
-			x = uf[x]
+	// find returns the root of x and V(x) − V(root), compressing the path.
+	find := func(x int32) (int32, float64) {
+		r, s := x, 0.0
+		for uf[r] != r {
+			s += pot[r]
+			r = uf[r]
 		}
-		return x
+		for y, t := x, s; uf[y] != y; {
+			next, py := uf[y], pot[y]
+			uf[y], pot[y] = r, t
+			t -= py
+			y = next
+		}
+		return r, s
 	}
 	for i := range d.Parts {
 		p := &d.Parts[i]
-		if !p.IsShort() {
+		src := !mna && p.Kind == circuit.VoltageSource
+		if !p.IsShort() && !src {
 			continue
 		}
-		a, b := find(int32(p.Pins[0])), find(int32(p.Pins[1]))
-		if a != b {
-			uf[a] = b
-			m.tree[i] = true
+		v := 0.0
+		if src {
+			v = p.Value
 		}
+		ra, pa := find(int32(p.Pins[0]))
+		rb, pb := find(int32(p.Pins[1]))
+		if ra == rb {
+			if !src && pa == pb {
+				continue // a short in parallel with shorts: carries 0 A
+			}
+			return nil, errSourceLoop
+		}
+		// V(pin 0) − V(pin 1) = v, V(pin) = V(root) + potential.
+		uf[ra], pot[ra] = rb, v-pa+pb
+		m.tree[i] = true
 	}
-	groundRoot := int32(-1)
+	groundRoot, groundPot := int32(-1), 0.0
 	if d.Ground != circuit.NoNet {
-		groundRoot = find(int32(d.Ground))
+		groundRoot, groundPot = find(int32(d.Ground))
 	}
 	idx := make([]int32, nn)
 	for i := range idx {
 		idx[i] = -1
 	}
 	for i := range d.Nets {
-		r := find(int32(i))
-		if r == groundRoot || d.Nets[i].Pins == 0 {
+		r, o := find(int32(i))
+		switch {
+		case r == groundRoot:
+			m.node[i], m.off[i] = -1, o-groundPot
+		case d.Nets[i].Pins == 0:
 			m.node[i] = -1
-			continue
+		default:
+			if idx[r] < 0 {
+				idx[r] = int32(m.nNodes)
+				m.nNodes++
+			}
+			m.node[i], m.off[i] = idx[r], o
 		}
-		if idx[r] < 0 {
-			idx[r] = int32(m.nNodes)
-			m.nNodes++
-		}
-		m.node[i] = idx[r]
 	}
 	// Internal nodes of diodes with series resistance, then source currents.
 	var badParts []circuit.PartID
@@ -200,18 +312,19 @@ func build(d *circuit.Design, vt float64) (*model, error) {
 			msgs = append(msgs, fmt.Sprintf("%s %s: its series resistance drops %s at %s, at least its vf", p.Kind, p.Name, fmtV(p.VFAt*p.Series), fmtA(p.VFAt)))
 			continue
 		}
-		a := m.node[p.Pins[0]]
+		a, oa := m.node[p.Pins[0]], m.off[p.Pins[0]]
 		if p.Series > 0 {
 			m.branch[i] = int32(m.nNodes)
-			a = int32(m.nNodes)
+			a, oa = int32(m.nNodes), 0
 			m.nNodes++
 		}
-		m.junc = append(m.junc, junction{part: circuit.PartID(i), a: a, c: m.node[p.Pins[1]], is: is, nvt: n * vt, vref: vref, vj: vref})
+		m.junc = append(m.junc, junction{part: circuit.PartID(i), a: a, c: m.node[p.Pins[1]], oa: oa, oc: m.off[p.Pins[1]],
+			is: is, nvt: n * vt, vref: vref, vj: vref})
 	}
 	m.n = m.nNodes
 	for i := range d.Parts {
 		p := &d.Parts[i]
-		if p.Kind != circuit.VoltageSource {
+		if p.Kind != circuit.VoltageSource || !mna {
 			continue
 		}
 		if m.node[p.Pins[0]] == m.node[p.Pins[1]] {
@@ -224,6 +337,9 @@ func build(d *circuit.Design, vt float64) (*model, error) {
 	}
 	if len(badParts) > 0 {
 		return nil, &Error{Kind: BadPart, Parts: badParts, Msg: joinMsgs(msgs)}
+	}
+	if 4*len(d.Parts)+m.n > maxStamps {
+		return nil, &Error{Kind: TooLarge, Msg: fmt.Sprintf("%d parts need more matrix entries than one system holds (%d)", len(d.Parts), maxStamps)}
 	}
 	m.sys = newSystem(m.n)
 	m.x = make([]float64, m.n)
@@ -244,37 +360,39 @@ func joinMsgs(s []string) string {
 func (m *model) assemble(lambda, gmin float64) {
 	s := m.sys
 	s.begin()
+	m.lambda = lambda
 	d := m.d
 	for i := range d.Parts {
 		p := &d.Parts[i]
-		a, b := m.node[p.Pins[0]], m.node[p.Pins[1]]
 		switch p.Kind {
 		case circuit.Resistor:
-			s.conductance(a, b, 1/p.Value)
+			m.netConductance(p.Pins[0], p.Pins[1], 1/p.Value)
 		case circuit.Inductor, circuit.Fuse:
 			if p.DCR > 0 {
-				s.conductance(a, b, 1/p.DCR)
+				m.netConductance(p.Pins[0], p.Pins[1], 1/p.DCR)
 			}
 		case circuit.VoltageSource:
-			k := m.branch[i]
-			s.add(a, k, 1)
-			s.add(b, k, -1)
-			s.add(k, a, 1)
-			s.add(k, b, -1)
-			s.rhs[k] = lambda * p.Value
+			if k := m.branch[i]; k >= 0 {
+				a, b := m.node[p.Pins[0]], m.node[p.Pins[1]]
+				s.add(a, k, 1)
+				s.add(b, k, -1)
+				s.add(k, a, 1)
+				s.add(k, b, -1)
+				s.rhs[k] = lambda*p.Value - lambda*(m.off[p.Pins[0]]-m.off[p.Pins[1]])
+			}
 		case circuit.CurrentSource:
-			s.inject(a, -lambda*p.Value)
-			s.inject(b, lambda*p.Value)
+			s.inject(m.node[p.Pins[0]], -lambda*p.Value)
+			s.inject(m.node[p.Pins[1]], lambda*p.Value)
 		case circuit.Diode, circuit.LED:
 			if k := m.branch[i]; k >= 0 {
-				s.conductance(a, k, 1/p.Series)
+				m.conductance(m.node[p.Pins[0]], m.off[p.Pins[0]], k, 0, 1/p.Series)
 			}
 		}
 	}
 	for k := range m.junc {
 		j := &m.junc[k]
 		id, gd := j.eval(j.vj)
-		s.conductance(j.a, j.c, gd+Leakage)
+		m.conductance(j.a, j.oa, j.c, j.oc, gd+Leakage)
 		ieq := id - gd*j.vj
 		s.inject(j.a, -ieq)
 		s.inject(j.c, ieq)
@@ -285,6 +403,38 @@ func (m *model) assemble(lambda, gmin float64) {
 	s.end()
 }
 
+func (m *model) netConductance(a, b circuit.NetID, g float64) {
+	m.conductance(m.node[a], m.off[a], m.node[b], m.off[b], g)
+}
+
+// conductance stamps g between the terminals (a, oa) and (b, ob): unknowns
+// a and b (−1 for the ground group) with potentials λ·oa and λ·ob above
+// them. The part carries g·(x_a − x_b) + g·λ·(oa − ob) from a to b; the
+// known second term is a current injection. A conductance within one group
+// carries a known current into and out of the same unknown and stamps
+// nothing.
+func (m *model) conductance(a int32, oa float64, b int32, ob float64, g float64) {
+	if a == b {
+		return
+	}
+	s := m.sys
+	s.conductance(a, b, g)
+	if dv := m.lambda * (oa - ob); dv != 0 {
+		s.inject(a, -g*dv)
+		s.inject(b, g*dv)
+	}
+}
+
+// netV returns the voltage of net i from the unknowns x.
+func (m *model) netV(x []float64, i circuit.NetID) float64 {
+	return m.volt(x, m.node[i]) + m.lambda*m.off[i]
+}
+
+// jv returns junction j's voltage from the unknowns x.
+func (m *model) jv(x []float64, j *junction) float64 {
+	return m.volt(x, j.a) + m.lambda*j.oa - m.volt(x, j.c) - m.lambda*j.oc
+}
+
 func (m *model) volt(x []float64, k int32) float64 {
 	if k < 0 {
 		return 0
@@ -292,22 +442,14 @@ func (m *model) volt(x []float64, k int32) float64 {
 	return x[k]
 }
 
-// linearSolve factors the assembled system and solves it into x, with one
-// step of iterative refinement.
+// linearSolve factors the assembled system and solves it into x.
 func (m *model) linearSolve(x []float64) error {
 	if err := m.lin.factor(m.sys); err != nil {
 		return err
 	}
 	copy(x, m.sys.rhs)
-	m.lin.solve(x)
-	r := m.dx
-	m.sys.mulVec(r, x)
-	for i := range r {
-		r[i] = m.sys.rhs[i] - r[i]
-	}
-	m.lin.solve(r)
-	for i := range x {
-		x[i] += r[i]
+	if err := m.lin.solve(x); err != nil {
+		return err
 	}
 	for _, v := range x {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
@@ -341,7 +483,7 @@ func (m *model) newton(lambda, gmin float64) (bool, error) {
 		}
 		for k := range m.junc {
 			j := &m.junc[k]
-			vraw := m.volt(xn, j.a) - m.volt(xn, j.c)
+			vraw := m.jv(xn, j)
 			id, gd := j.eval(j.vj)
 			j.iLin = id + gd*(vraw-j.vj) + Leakage*vraw
 			j.vLast = vraw

@@ -88,3 +88,11 @@ func norm1(v []float64) float64 {
 	}
 	return s
 }
+
+// InvNorm1Est estimates ‖A⁻¹‖₁ from routines that overwrite a vector v with
+// A⁻¹v and A⁻ᵀv, by the Hager–Higham method (see invNorm1Est). It lets a
+// caller estimate the condition of a scaled or otherwise wrapped operator,
+// such as an equilibrated matrix D·A·D solved through a factorisation of A.
+func InvNorm1Est(n int, solve, solveT func([]float64)) float64 {
+	return invNorm1Est(n, solve, solveT)
+}
