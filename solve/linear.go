@@ -24,8 +24,11 @@ type system struct {
 	k         int // next stamp when refilling
 }
 
-func newSystem(n int) *system {
-	return &system{n: n, rhs: make([]float64, n), recording: true}
+// newSystem returns a system of n unknowns with room for about stamps
+// stamps, so that recording the first assembly does not regrow the lists.
+func newSystem(n, stamps int) *system {
+	return &system{n: n, rhs: make([]float64, n), recording: true,
+		row: make([]int32, 0, stamps), col: make([]int32, 0, stamps), val: make([]float64, 0, stamps)}
 }
 
 // begin starts a new assembly with the same stamps in the same order.
@@ -106,11 +109,11 @@ func (k LinearSolver) String() string {
 const (
 	// AutoDenseMax is the largest system the automatic choice gives the
 	// dense LU.
-	AutoDenseMax = 60
+	AutoDenseMax = 50
 	// AutoCholeskyMax is the largest symmetric positive-definite system the
 	// automatic choice gives the sparse Cholesky factorisation; larger ones
 	// go to PCG+AMG.
-	AutoCholeskyMax = 40_000
+	AutoCholeskyMax = 20_000
 )
 
 // linearSolver factorises (or otherwise prepares) a system and solves with
@@ -422,7 +425,7 @@ func (l *luSolver) cond() float64 {
 // PCGTol is the default relative residual ‖b − A·x‖₂/‖b‖₂ at which PCG
 // stops. Solve tightens it by 1000 and solves again, warm-started, when the
 // result misses the KCL self-check.
-const PCGTol = 1e-10
+const PCGTol = 1e-12
 
 // pcgMaxIter caps the PCG iterations of one solve.
 const pcgMaxIter = 300

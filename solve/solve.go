@@ -72,6 +72,9 @@ type Result struct {
 	// MNA whether the branch-current formulation was used.
 	Linear LinearSolver
 	MNA    bool
+	// PCGIterations counts the conjugate-gradient iterations in all (0 for
+	// the direct solvers).
+	PCGIterations int
 	// Cond estimates the 1-norm condition number of the final system after
 	// symmetric diagonal equilibration (see the package doc). It is 0 when
 	// no estimate was made (CondEstimated false): the iterative solver
@@ -205,6 +208,9 @@ func Solve(d *circuit.Design, opt *Options) (*Result, error) {
 		r = m.result()
 		r.Method = method
 		err = r.selfCheck(d)
+	}
+	if pcg != nil {
+		r.PCGIterations = pcg.iters
 	}
 	if err != nil {
 		return r, err
@@ -341,7 +347,7 @@ func build(d *circuit.Design, vt float64, mna bool) (*model, error) {
 	if 4*len(d.Parts)+m.n > maxStamps {
 		return nil, &Error{Kind: TooLarge, Msg: fmt.Sprintf("%d parts need more matrix entries than one system holds (%d)", len(d.Parts), maxStamps)}
 	}
-	m.sys = newSystem(m.n)
+	m.sys = newSystem(m.n, 4*len(d.Parts)+m.nNodes)
 	m.x = make([]float64, m.n)
 	m.dx = make([]float64, m.n)
 	return m, nil

@@ -280,3 +280,76 @@ func BenchmarkMemory(b *testing.B) {
 		b.ReportMetric(topo/float64(parts), "topology-B/part")
 	})
 }
+
+// meshSource is the k×k supply mesh of gen.Mesh with four corner supplies
+// and k loads; with diodes it also gets k/10 + 1 diodes to ground (vf 0.6 V
+// at 1 mA, so that they conduct from the 1 V mesh and Newton has work).
+func meshSource(b *testing.B, k int, diodes bool) []byte {
+	b.Helper()
+	key := fmt.Sprint("meshk", k, diodes)
+	mu.Lock()
+	defer mu.Unlock()
+	if s, ok := sources[key]; ok {
+		return s
+	}
+	var buf bytes.Buffer
+	if err := (&gen.Mesh{K: k, Supplies: 4, Loads: k, Seed: 1}).Write(&buf); err != nil {
+		b.Fatal(err)
+	}
+	if diodes {
+		r := rand.New(rand.NewPCG(2, 3))
+		for i := 0; i <= k/10; i++ {
+			fmt.Fprintf(&buf, "diode dl%d (n%d_%d, gnd) vf 0.6 V at 1 mA series 2 Ω\n", i, r.IntN(k), r.IntN(k))
+		}
+	}
+	sources[key] = buf.Bytes()
+	return buf.Bytes()
+}
+
+// BenchmarkSolveMesh is the DC solve alone (solve.Solve on the built
+// design) of k×k resistor meshes, k = 100 … 1000, with and without diodes
+// (Newton). It reports unknowns/s, the Newton iterations, and the KCL
+// residual both as the self-check measures it (kcl-rel: of the largest
+// current a part carries or would carry with one end at 0 V) and against
+// the largest current any part actually carries (kcl-rel-maxI); it fails
+// if the self-check tolerance is missed. Run one size at a time for peak
+// memory, e.g.
+//
+//	/usr/bin/time -v go test ./internal/bench -run '^$' -bench 'SolveMesh/k=1000/' -benchtime 1x
+func BenchmarkSolveMesh(b *testing.B) {
+	for _, diodes := range []bool{false, true} {
+		for _, k := range []int{100, 300, 700, 1000} {
+			name := fmt.Sprintf("k=%d/resistors", k)
+			if diodes {
+				name = fmt.Sprintf("k=%d/diodes", k)
+			}
+			b.Run(name, func(b *testing.B) {
+				_, r := built(b, meshSource(b, k, diodes))
+				d := r.Design
+				b.ReportAllocs()
+				var op *solve.Result
+				for b.Loop() {
+					var err error
+					if op, err = solve.Solve(d, nil); err != nil {
+						b.Fatal(err)
+					}
+				}
+				maxI := 0.0
+				for _, i := range op.I {
+					maxI = max(maxI, i, -i)
+				}
+				if !(op.KCL <= solve.KCLTol*op.KCLScale) {
+					b.Fatalf("KCL residual %g of %g", op.KCL, op.KCLScale)
+				}
+				// As fractions of the tolerance 1e-9 (ReportMetric prints
+				// only a few decimals).
+				b.ReportMetric(op.KCL/op.KCLScale/solve.KCLTol, "kcl/1e-9")
+				b.ReportMetric(op.KCL/maxI/solve.KCLTol, "kcl-of-maxI/1e-9")
+				b.ReportMetric(float64(op.PCGIterations), "pcg-iters")
+				b.ReportMetric(float64(op.Iterations), "newton")
+				b.ReportMetric(float64(op.Unknowns)*float64(b.N)/b.Elapsed().Seconds(), "unknowns/s")
+				b.ReportMetric(float64(op.Unknowns), "unknowns")
+			})
+		}
+	}
+}
