@@ -201,8 +201,20 @@ func assertKirchhoff(t *rapid.T, d *circuit.Design, r *Result) {
 		res[p.Pins[0]] += r.I[i]
 		res[p.Pins[1]] -= r.I[i]
 		scale = math.Max(scale, math.Abs(r.I[i]))
-		if p.Kind == circuit.Resistor {
-			scale = math.Max(scale, math.Max(math.Abs(r.NetV[p.Pins[0]]), math.Abs(r.NetV[p.Pins[1]]))/p.Value)
+		// What a resistive part (a resistor, a dcr, a junction's series
+		// resistance) would carry with one end at 0 V: the precision that
+		// node voltages allow a current worked out from them.
+		ohms := 0.0
+		switch p.Kind {
+		case circuit.Resistor:
+			ohms = p.Value
+		case circuit.Inductor, circuit.Fuse:
+			ohms = p.DCR
+		case circuit.Diode, circuit.LED:
+			ohms = p.Series
+		}
+		if ohms > 0 {
+			scale = math.Max(scale, math.Max(math.Abs(r.NetV[p.Pins[0]]), math.Abs(r.NetV[p.Pins[1]]))/ohms)
 		}
 		if v := r.NetV[p.Pins[0]] - r.NetV[p.Pins[1]]; v != r.V[i] {
 			t.Fatalf("part %s: voltage %g is not V(pin 1) − V(pin 2) = %g", p.Name, r.V[i], v)
@@ -307,9 +319,14 @@ func TestParallelShorts(t *testing.T) {
 func TestRandomJunctions(t *testing.T) {
 	vt := ThermalVoltage(RoomTemperature)
 	runs, unsettled := 0, 0
+	// Measured with -rapid.checks=20000: 13 of 20 000 (0.07 %) do not
+	// converge. Allow one in 200 plus one, so that a default run of 100
+	// fails only when something has got worse (two failures in 100 at
+	// 0.07 % happen about once in 500 runs).
 	defer func() {
-		if unsettled*20 > runs {
-			t.Errorf("%d of %d random circuits did not converge; more than 5 %%", unsettled, runs)
+		t.Logf("%d of %d random circuits with junctions did not converge", unsettled, runs)
+		if unsettled > 1+runs/200 {
+			t.Errorf("%d of %d random circuits did not converge; more than 0.5 %% + 1", unsettled, runs)
 		}
 	}()
 	rapid.Check(t, func(t *rapid.T) {

@@ -111,6 +111,7 @@ const (
 	gminStart  = 1e-2
 	gminFactor = 10
 	gminEnd    = 1e-12
+	nodeFloor  = 1e-3
 )
 
 // model is one design turned into equations.
@@ -347,7 +348,7 @@ func build(d *circuit.Design, vt float64, mna bool) (*model, error) {
 	if 4*len(d.Parts)+m.n > maxStamps {
 		return nil, &Error{Kind: TooLarge, Msg: fmt.Sprintf("%d parts need more matrix entries than one system holds (%d)", len(d.Parts), maxStamps)}
 	}
-	m.sys = newSystem(m.n, 4*len(d.Parts)+m.nNodes)
+	m.sys = newSystem(m.n, 2*len(d.Parts))
 	m.x = make([]float64, m.n)
 	m.dx = make([]float64, m.n)
 	return m, nil
@@ -480,9 +481,21 @@ func (m *model) newton(lambda, gmin float64) (bool, error) {
 			}
 			return false, err
 		}
+		// Converged when no node voltage and no junction moves. Branch
+		// currents (MNA) are left out: once the junctions' linearisation
+		// points stand still the linear system is fixed and so are they,
+		// while a small branch current beside a large one can flicker by
+		// the rounding of the large one for ever.
+		// A node near 0 V beside nets at many volts carries the rounding
+		// of those (about κ·ε of the largest voltage): judge every node to
+		// at least 1e-12 of the largest, nodeFloor·vTolRel.
 		done := true
-		for i := range xn {
-			if math.Abs(xn[i]-m.x[i]) > vTolRel*math.Max(math.Abs(xn[i]), math.Abs(m.x[i]))+vTolAbs {
+		xinf := 0.0
+		for _, v := range xn[:m.nNodes] {
+			xinf = math.Max(xinf, math.Abs(v))
+		}
+		for i := range xn[:m.nNodes] {
+			if math.Abs(xn[i]-m.x[i]) > vTolRel*math.Max(math.Max(math.Abs(xn[i]), math.Abs(m.x[i])), nodeFloor*xinf)+vTolAbs {
 				done = false
 				break
 			}
@@ -494,7 +507,12 @@ func (m *model) newton(lambda, gmin float64) (bool, error) {
 			j.iLin = id + gd*(vraw-j.vj) + Leakage*vraw
 			j.vLast = vraw
 			v, limited := j.limit(vraw)
-			j.settled = !limited && math.Abs(v-j.vj) <= vTolRel*math.Abs(v)+vTolAbs
+			// A junction voltage is the difference of two node voltages and
+			// is known no better than they are: judge its step against the
+			// larger of the two, as the node voltages themselves are judged
+			// (a junction on a net at a megavolt otherwise never settles).
+			scale := math.Max(math.Abs(v), math.Max(math.Abs(m.volt(xn, j.a)+m.lambda*j.oa), math.Abs(m.volt(xn, j.c)+m.lambda*j.oc)))
+			j.settled = !limited && math.Abs(v-j.vj) <= vTolRel*scale+vTolAbs
 			if !j.settled {
 				done = false
 			}

@@ -5,6 +5,8 @@ package sparse
 import (
 	"fmt"
 	"math"
+	"runtime"
+	"sync"
 )
 
 // CSC is a sparse matrix in compressed sparse column form. Column j holds
@@ -72,12 +74,36 @@ func (a *CSC) MulVec(y, x []float64) {
 	}
 }
 
-// MulVecTrans sets y ← Aᵀ·x. It panics if len(x) ≠ N or len(y) ≠ M.
+// parallelNnz is the number of entries from which MulVecTrans splits its
+// columns between the processors: below it, starting goroutines costs more
+// than it saves.
+const parallelNnz = 1 << 18
+
+// MulVecTrans sets y ← Aᵀ·x. It panics if len(x) ≠ N or len(y) ≠ M. Each
+// y_j is a gather over column j, so large products are split into column
+// ranges computed concurrently; the result does not depend on the split.
 func (a *CSC) MulVecTrans(y, x []float64) {
 	if len(x) != a.N || len(y) != a.M {
 		panic("sparse: MulVecTrans dimension mismatch")
 	}
-	for j := 0; j < a.M; j++ {
+	if w := runtime.GOMAXPROCS(0); w > 1 && a.Nnz() >= parallelNnz {
+		var wg sync.WaitGroup
+		for t := 0; t < w; t++ {
+			lo, hi := a.M*t/w, a.M*(t+1)/w
+			wg.Add(1)
+			go func() {
+				defer wg.Done()
+				a.mulTransRange(y, x, lo, hi)
+			}()
+		}
+		wg.Wait()
+		return
+	}
+	a.mulTransRange(y, x, 0, a.M)
+}
+
+func (a *CSC) mulTransRange(y, x []float64, lo, hi int) {
+	for j := lo; j < hi; j++ {
 		s := 0.0
 		for p := a.P[j]; p < a.P[j+1]; p++ {
 			s += a.X[p] * x[a.I[p]]
