@@ -470,8 +470,12 @@ type pcgSolver struct {
 	fallback *cholSolver
 	sys      *system
 	diag     []float64
-	iters    int // PCG iterations in all
+	iters    int  // PCG iterations in all
+	loose    bool // the next solve may stop at looseTol (inexact Newton)
 }
+
+// looseTol is the relative residual of a loose PCG solve.
+const looseTol = 1e-6
 
 func (p *pcgSolver) kind() LinearSolver {
 	if p.fallback != nil {
@@ -526,6 +530,9 @@ func (p *pcgSolver) solve(x []float64) error {
 	copy(x, p.x0)
 	p.diag = diagonal(a, p.diag)
 	tol := p.tol
+	if p.loose {
+		tol = math.Max(tol, looseTol)
+	}
 	for round := 0; ; round++ {
 		it, _, err := sparse.PCG(a, x, p.b, p.amg, tol, pcgMaxIter)
 		p.iters += it
@@ -548,7 +555,7 @@ func (p *pcgSolver) solve(x []float64) error {
 				p.stale = true
 			}
 			symmetricGaussSeidel(a, p.diag, x, p.b)
-			if p.settled(x) {
+			if p.loose || p.settled(x) {
 				copy(p.x0, x)
 				return nil
 			}

@@ -7,8 +7,10 @@ import (
 	"io"
 	"math/rand/v2"
 	"runtime"
+	"runtime/metrics"
 	"sync"
 	"testing"
+	"time"
 
 	"nodal/check"
 	"nodal/circuit"
@@ -328,12 +330,18 @@ func BenchmarkSolveMesh(b *testing.B) {
 				d := r.Design
 				b.ReportAllocs()
 				var op *solve.Result
+				base := heapLive()
+				stop := make(chan struct{})
+				peak := make(chan float64)
+				go samplePeak(stop, peak)
 				for b.Loop() {
 					var err error
 					if op, err = solve.Solve(d, nil); err != nil {
 						b.Fatal(err)
 					}
 				}
+				close(stop)
+				b.ReportMetric((<-peak-base)/1e6, "solve-peak-heap-MB")
 				maxI := 0.0
 				for _, i := range op.I {
 					maxI = max(maxI, i, -i)
@@ -350,6 +358,37 @@ func BenchmarkSolveMesh(b *testing.B) {
 				b.ReportMetric(float64(op.Unknowns)*float64(b.N)/b.Elapsed().Seconds(), "unknowns/s")
 				b.ReportMetric(float64(op.Unknowns), "unknowns")
 			})
+		}
+	}
+}
+
+// heapLive returns the bytes of live heap objects after a collection.
+func heapLive() float64 {
+	runtime.GC()
+	return heapObjects()
+}
+
+func heapObjects() float64 {
+	s := []metrics.Sample{{Name: "/memory/classes/heap/objects:bytes"}}
+	metrics.Read(s)
+	return float64(s[0].Value.Uint64())
+}
+
+// samplePeak records the largest heap-object size seen every 2 ms until
+// stop closes (runtime/metrics reads without stopping the world), then
+// sends it. It includes garbage not yet collected, so it bounds from above
+// what the solve needs live.
+func samplePeak(stop <-chan struct{}, out chan<- float64) {
+	t := time.NewTicker(2 * time.Millisecond)
+	defer t.Stop()
+	peak := 0.0
+	for {
+		select {
+		case <-stop:
+			out <- max(peak, heapObjects())
+			return
+		case <-t.C:
+			peak = max(peak, heapObjects())
 		}
 	}
 }
