@@ -6,6 +6,7 @@
 #
 #   scripts/bench-stages.sh                  # COUNT=5, every benchmark
 #   COUNT=3 BENCH='Parse|Topology' scripts/bench-stages.sh
+#   CPU=1 BENCH='^BenchmarkParse$' scripts/bench-stages.sh   # one core (GOMAXPROCS=1)
 #
 # The raw `go test -bench` output is kept in bench-stages.txt (in the
 # current folder) for benchstat.
@@ -15,7 +16,7 @@ count=${COUNT:-5}
 bench=${BENCH:-.}
 out=${OUT:-bench-stages.txt}
 echo "load average before: $(cut -d' ' -f1-3 /proc/loadavg) on $(nproc) cores" >&2
-go test ./internal/bench -run '^$' -bench "$bench" -benchmem -count "$count" -timeout 120m >"$out"
+go test ./internal/bench -run '^$' -bench "$bench" -benchmem -count "$count" ${CPU:+-cpu "$CPU"} -timeout 120m >"$out"
 echo "load average after: $(cut -d' ' -f1-3 /proc/loadavg)" >&2
 awk '
 /^Benchmark/ {

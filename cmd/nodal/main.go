@@ -43,7 +43,6 @@ codes and licensed practice.
 `
 
 func main() {
-	tuneGC()
 	os.Exit(run(os.Args[1:], os.Stdin, os.Stdout, os.Stderr))
 }
 
