@@ -6,6 +6,7 @@
 #
 #   scripts/bench-cli.sh            # every design, 5 runs each (3 for the large ones)
 #   RUNS=9 scripts/bench-cli.sh small
+#   scripts/bench-cli.sh large      # only the million-part designs
 #
 # Prints one Markdown table row per design and the load average before and
 # after, since the machine may be shared.
@@ -29,6 +30,14 @@ designs=(
   "random-200|$runs|random -parts 200 -seed 1"
   "mesh-10x10|$runs|mesh -k 10"
 )
+if [ "$which" = large ]; then
+  designs+=(
+    "mesh-707x707 (1 M parts)|$bigruns|mesh -parts 1000000"
+    "random (1 M parts)|$bigruns|random -parts 1000000 -seed 1"
+    "blocks (250 k instances, 1 M parts)|$bigruns|blocks -n 250000"
+    "mesh-1000x1000 (2 M parts)|$bigruns|mesh -k 1000 -loads 1000"
+  )
+fi
 if [ "$which" = all ]; then
   designs+=(
     "mesh-71x71 (10 k parts)|$runs|mesh -parts 10000"
