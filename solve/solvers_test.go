@@ -30,6 +30,15 @@ var forced = []struct {
 // the branch-current (MNA) equations to 1e-9 of the largest voltage and
 // current, and each result passes the self-checks (KCL, Tellegen).
 func TestSolversAgree(t *testing.T) {
+	// A forced solver may rarely fail to converge where the reference
+	// did (rounding steers Newton differently); allowed as often as in
+	// TestRandomJunctions.
+	runs, unsettled := 0, 0
+	defer func() {
+		if unsettled > 1+runs/200 {
+			t.Errorf("%d of %d solves with forced solvers did not converge", unsettled, runs)
+		}
+	}()
 	rapid.Check(t, func(t *rapid.T) {
 		b := randomCircuit(t)
 		// Newton stops when a step is below vTolRel = 1e-9 of the
@@ -73,7 +82,12 @@ func TestSolversAgree(t *testing.T) {
 		// one end at 0 V, as the KCL self-check does (see the package doc).
 		is = math.Max(is, ref.KCLScale)
 		for _, f := range forced {
+			runs++
 			r, err := Solve(b.d, &f.opt)
+			if errors.As(err, &se) && se.Kind == NoConvergence {
+				unsettled++
+				continue
+			}
 			if err != nil {
 				t.Fatalf("%s: %v", f.name, err)
 			}
