@@ -2,6 +2,7 @@ package solve
 
 import (
 	"errors"
+	"fmt"
 	"math"
 
 	"gonum.org/v1/gonum/mat"
@@ -366,9 +367,23 @@ func (m *sparseMatrix) mul(y, x []float64) { m.a.MulVecTrans(y, x) }
 // cholSolver is the supernodal sparse Cholesky factorisation: analysed once,
 // refactored numerically at every Newton iteration.
 type cholSolver struct {
-	m  sparseMatrix
-	ch sparse.Cholesky
+	m        sparseMatrix
+	ch       sparse.Cholesky
+	analysed bool
 }
+
+// fillBudget is the most entries the Cholesky factor of a matrix with nnz
+// entries may hold: 40 times the matrix (grid-like networks under AMD stay
+// near 10), at least 4 M and at most 100 M (1.2 GB of factor); common
+// practice for keeping a direct solve within memory, not a published rule.
+func fillBudget(nnz int) int {
+	return min(max(40*nnz, 4_000_000), 100_000_000)
+}
+
+// maxComplexity is the largest AMG operator complexity PCG accepts; past it
+// the hierarchy costs more than it saves and the solve falls back to
+// Cholesky (common practice: smoothed aggregation aims at well below 2).
+const maxComplexity = 3
 
 func (c *cholSolver) kind() LinearSolver { return SparseCholesky }
 
@@ -378,7 +393,14 @@ func (c *cholSolver) factor(s *system) error {
 		return nil
 	}
 	c.ch.Tol = pivotTol
-	err := c.ch.Factorize(c.m.a) // analyses on first use
+	if !c.analysed {
+		c.ch.Analyze(c.m.a)
+		c.analysed = true
+		if nl, na := c.ch.NnzL(), c.m.a.Nnz(); nl > fillBudget(na) {
+			return &Error{Kind: TooLarge, Msg: fmt.Sprintf("the Cholesky factor of these %d equations would hold %d entries, %.0f times the matrix: this design's network has no small separators (it looks random rather than laid out), which is more fill than the direct solver takes on", s.n, nl, float64(nl)/float64(na))}
+		}
+	}
+	err := c.ch.Factorize(c.m.a)
 	var np *sparse.NotPositiveDefinite
 	if errors.As(err, &np) {
 		return &singularError{col: np.Col}
@@ -522,7 +544,7 @@ func (p *pcgSolver) build() error {
 		a = a.Copy()
 	}
 	amg, err := sparse.NewAMG(a, nil)
-	if err != nil {
+	if err != nil || amg.OperatorComplexity() > maxComplexity {
 		return p.toCholesky()
 	}
 	p.amg, p.stale, p.first = amg, false, 0

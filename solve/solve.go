@@ -640,6 +640,10 @@ func (m *model) run() (string, error) {
 // singular turns a factorisation failure into an *Error naming the nets or
 // part of the offending unknown.
 func (m *model) singular(err error) error {
+	var ours *Error
+	if errors.As(err, &ours) {
+		return ours // already says what is wrong (TooLarge)
+	}
 	e := &Error{Kind: Singular, Msg: "the equations are singular"}
 	var se *singularError
 	if !errors.As(err, &se) {
