@@ -82,6 +82,37 @@ type limits struct {
 	maxParts int64
 }
 
+// flags registers --max-depth and --max-parts, shared by check and report.
+func (l *limits) flags(fl *flag.FlagSet) {
+	fl.IntVar(&l.maxDepth, "max-depth", circuit.DefaultMaxDepth, "refuse designs whose block instances nest deeper than this")
+	fl.Int64Var(&l.maxParts, "max-parts", circuit.DefaultMaxParts, "refuse designs that expand to more parts and instances than this")
+}
+
+// parseFlags parses args and handles --help (usage to stdout, status 0)
+// and bad flags (usage to stderr, status 2). done reports that the command
+// should return status now.
+func parseFlags(fl *flag.FlagSet, args []string, usage string, stdout, stderr io.Writer) (status int, done bool) {
+	fl.Usage = func() {} // printed here: to stdout for --help, else stderr
+	err := fl.Parse(args)
+	if err == nil {
+		return 0, false
+	}
+	out, status := stderr, 2
+	if errors.Is(err, flag.ErrHelp) {
+		out, status = stdout, 0
+	}
+	fl.SetOutput(out)
+	fmt.Fprint(out, usage)
+	fl.PrintDefaults()
+	return status, true
+}
+
+// usageErr reports a usage mistake and returns exit status 2.
+func usageErr(stderr io.Writer, format string, a ...any) int {
+	fmt.Fprintf(stderr, "nodal: "+format+"\n", a...)
+	return 2
+}
+
 // unit is one file to check.
 type unit struct {
 	name  string // as messages name it
@@ -103,32 +134,16 @@ func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	fl.BoolVar(&cf.staged, "staged", false, "check the content staged in git's index: the named files, or every staged .nodal file")
 	fl.StringVar(&cf.stdinName, "stdin-filename", "", "with \"-\": report, find nodal.toml and resolve includes as if standard input were this `path`")
 	fl.IntVar(&cf.jobs, "jobs", runtime.GOMAXPROCS(0), "how many files to check at once")
-	fl.IntVar(&cf.limits.maxDepth, "max-depth", circuit.DefaultMaxDepth, "refuse designs whose block instances nest deeper than this")
-	fl.Int64Var(&cf.limits.maxParts, "max-parts", circuit.DefaultMaxParts, "refuse designs that expand to more parts and instances than this")
-	fl.Usage = func() {} // printed below: to stdout for --help, else stderr
-	if err := fl.Parse(args); err != nil {
-		out := stderr
-		if errors.Is(err, flag.ErrHelp) {
-			out = stdout
-		}
-		fl.SetOutput(out)
-		fmt.Fprint(out, checkUsage)
-		fl.PrintDefaults()
-		if out == stdout {
-			return 0
-		}
-		return 2
-	}
-	usageErr := func(format string, a ...any) int {
-		fmt.Fprintf(stderr, "nodal: "+format+"\n", a...)
-		return 2
+	cf.limits.flags(fl)
+	if status, done := parseFlags(fl, args, checkUsage, stdout, stderr); done {
+		return status
 	}
 	if !contains(output.Formats, cf.format) {
-		return usageErr("--format %q: want text, json, sarif or markdown", cf.format)
+		return usageErr(stderr, "--format %q: want text, json, sarif or markdown", cf.format)
 	}
 	failOn, ok := diag.ParseSeverity(cf.failOn)
 	if !ok || failOn == diag.Off {
-		return usageErr("--fail-on %q: want error, warning or note", cf.failOn)
+		return usageErr(stderr, "--fail-on %q: want error, warning or note", cf.failOn)
 	}
 	if cf.jobs < 1 {
 		cf.jobs = 1
@@ -138,13 +153,13 @@ func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		paths = []string{"-"}
 	}
 	if cf.limits.maxDepth < 1 || cf.limits.maxParts < 1 {
-		return usageErr("--max-depth and --max-parts must be at least 1")
+		return usageErr(stderr, "--max-depth and --max-parts must be at least 1")
 	}
 	if cf.stdinName != "" && !contains(paths, "-") {
-		return usageErr("--stdin-filename needs \"-\" among the paths")
+		return usageErr(stderr, "--stdin-filename needs \"-\" among the paths")
 	}
 	if cf.staged && contains(paths, "-") {
-		return usageErr("--staged reads git's index; it cannot be combined with \"-\"")
+		return usageErr(stderr, "--staged reads git's index; it cannot be combined with \"-\"")
 	}
 
 	status := 0
@@ -155,12 +170,12 @@ func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	if cf.staged {
 		r, prefix, err := gitRoot(".")
 		if err != nil {
-			return usageErr("--staged: %v", err)
+			return usageErr(stderr, "--staged: %v", err)
 		}
 		root = r
 		idx, err := openIndex(root)
 		if err != nil {
-			return usageErr("--staged: %v", err)
+			return usageErr(stderr, "--staged: %v", err)
 		}
 		defer idx.Close()
 		read = idx.ReadFile
@@ -204,7 +219,7 @@ func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		if u.stdin {
 			b, err := io.ReadAll(stdin)
 			if err != nil {
-				return usageErr("reading standard input: %v", err)
+				return usageErr(stderr, "reading standard input: %v", err)
 			}
 			stdinSrc = b
 			break
@@ -262,7 +277,7 @@ func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		}
 	}
 	if err := output.Write(stdout, cf.format, rep, opt); err != nil {
-		return usageErr("%v", err)
+		return usageErr(stderr, "%v", err)
 	}
 	fmt.Fprintln(stderr, rep.Summary())
 	if status == 0 {

@@ -9,7 +9,6 @@ import (
 	"path/filepath"
 
 	"nodal/check"
-	"nodal/circuit"
 	"nodal/diag"
 	"nodal/output"
 	"nodal/output/report"
@@ -75,42 +74,26 @@ func cmdReport(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	fl.StringVar(&format, "format", "text", "output `form`: text or json")
 	fl.StringVar(&cfgFile, "config", "", "use this nodal.toml `file` instead of searching")
 	fl.StringVar(&stdinName, "stdin-filename", "", "with \"-\": name standard input this `path`, and find nodal.toml and resolve includes from it")
-	fl.IntVar(&lim.maxDepth, "max-depth", circuit.DefaultMaxDepth, "refuse designs whose block instances nest deeper than this")
-	fl.Int64Var(&lim.maxParts, "max-parts", circuit.DefaultMaxParts, "refuse designs that expand to more parts and instances than this")
-	fl.Usage = func() {}
-	if err := fl.Parse(args); err != nil {
-		out := stderr
-		if errors.Is(err, flag.ErrHelp) {
-			out = stdout
-		}
-		fl.SetOutput(out)
-		fmt.Fprint(out, reportUsage)
-		fl.PrintDefaults()
-		if out == stdout {
-			return 0
-		}
-		return 2
-	}
-	usageErr := func(format string, a ...any) int {
-		fmt.Fprintf(stderr, "nodal: "+format+"\n", a...)
-		return 2
+	lim.flags(fl)
+	if status, done := parseFlags(fl, args, reportUsage, stdout, stderr); done {
+		return status
 	}
 	if format != "text" && format != "json" {
-		return usageErr("--format %q: want text or json", format)
+		return usageErr(stderr, "--format %q: want text or json", format)
 	}
 	if lim.maxDepth < 1 || lim.maxParts < 1 {
-		return usageErr("--max-depth and --max-parts must be at least 1")
+		return usageErr(stderr, "--max-depth and --max-parts must be at least 1")
 	}
 	paths := fl.Args()
 	if stdinName != "" && len(paths) == 0 {
 		paths = []string{"-"}
 	}
 	if len(paths) != 1 {
-		return usageErr("report takes one design file (or \"-\"), got %d; \"nodal report --help\" explains", len(paths))
+		return usageErr(stderr, "report takes one design file (or \"-\"), got %d; \"nodal report --help\" explains", len(paths))
 	}
 	path := paths[0]
 	if stdinName != "" && path != "-" {
-		return usageErr("--stdin-filename needs \"-\" as the file")
+		return usageErr(stderr, "--stdin-filename needs \"-\" as the file")
 	}
 
 	name, where := path, path
@@ -122,16 +105,16 @@ func cmdReport(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		}
 		b, err := io.ReadAll(stdin)
 		if err != nil {
-			return usageErr("reading standard input: %v", err)
+			return usageErr(stderr, "reading standard input: %v", err)
 		}
 		src = b
 	} else {
 		if info, err := os.Stat(path); err == nil && info.IsDir() {
-			return usageErr("%s is a folder; report takes one design file (\"nodal check %s\" checks a folder)", path, path)
+			return usageErr(stderr, "%s is a folder; report takes one design file (\"nodal check %s\" checks a folder)", path, path)
 		}
 		b, err := os.ReadFile(path)
 		if err != nil {
-			return usageErr("%v", err)
+			return usageErr(stderr, "%v", err)
 		}
 		src = b
 	}
@@ -145,7 +128,7 @@ func cmdReport(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	rc := loader.rulesConfig(cfg)
 	res, err := reportSource(name, src, &check.Options{Config: rc, MaxDepth: lim.maxDepth, MaxParts: lim.maxParts})
 	if err != nil {
-		return usageErr("%s: internal error: %v (please report it with the file that caused it)", name, err)
+		return usageErr(stderr, "%s: internal error: %v (please report it with the file that caused it)", name, err)
 	}
 	color := format == "text" && !noColor && os.Getenv("NO_COLOR") == "" && isTerminal(stdout)
 
@@ -156,7 +139,7 @@ func cmdReport(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		}
 		rep := &output.Report{Files: 1, Findings: output.FromDiags(res.Fset, res.Diags)}
 		if err := output.Write(out, "text", rep, output.Options{Color: color && out == stdout}); err != nil {
-			return usageErr("%v", err)
+			return usageErr(stderr, "%v", err)
 		}
 		fmt.Fprintf(stderr, "nodal: %s: %s\n", name, noReport(res))
 		return 1
@@ -169,7 +152,7 @@ func cmdReport(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		err = t.WriteText(stdout, report.TextOptions{Color: color})
 	}
 	if err != nil {
-		return usageErr("%v", err)
+		return usageErr(stderr, "%v", err)
 	}
 	if e, w := count(res.Diags); e+w > 0 {
 		fmt.Fprintf(stderr, "nodal: %s: %s, %s; \"nodal check %s\" lists them\n", name, output.Plural(e, "error"), output.Plural(w, "warning"), path)
