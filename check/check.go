@@ -6,6 +6,7 @@ package check
 
 import (
 	"os"
+	"runtime"
 
 	"nodal/circuit"
 	"nodal/diag"
@@ -15,14 +16,19 @@ import (
 
 // Result is one checked design.
 type Result struct {
-	Fset   *diag.FileSet // the checked file first, then each included file
-	Build  *circuit.Result
-	Diags  diag.List // sorted, without duplicates
-	Parsed *grammar.File
+	Fset  *diag.FileSet // the checked file first, then each included file
+	Build *circuit.Result
+	Diags diag.List // sorted, without duplicates
 	// Solved is the result of the Solve pass: the DC operating point, or
 	// why there is none. Nil when the rules run did not include it.
 	Solved *rules.SolveResult
 }
+
+// collectAfterBuild is the source size (8 MB, some 200 000 part lines)
+// from which Source runs a garbage collection once the syntax tree is
+// dropped. Below it the tree is small and a forced cycle costs more than it
+// returns.
+const collectAfterBuild = 8 << 20
 
 // Options change a check.
 type Options struct {
@@ -70,9 +76,21 @@ func Source(name string, src []byte, opt *Options) (*Result, error) {
 	fset := diag.NewFileSet()
 	file := fset.AddFile(name, src)
 	ast := grammar.Parse(name, src)
+	// The suppression pass needs only the comments; the tree itself (most
+	// of the memory a large design takes) is dropped once it is
+	// elaborated, before the rules and the solve run.
+	comments := ast.Comments
 	b := circuit.BuildFile(fset, file, src, ast, &circuit.Options{
 		ReadFile: opt.readFile(), MaxDepth: opt.MaxDepth, MaxParts: opt.MaxParts,
 	})
+	ast = nil
+	if len(src) >= collectAfterBuild {
+		// The tree is now garbage, but the collector paced itself on it:
+		// its next cycle would let the heap grow to twice the tree before
+		// anything is reclaimed, while the rules and the solve allocate.
+		// One cycle now returns that memory to them.
+		runtime.GC()
+	}
 	as := opt.Rules
 	if as == nil {
 		as = rules.All
@@ -82,11 +100,11 @@ func Source(name string, src []byte, opt *Options) (*Result, error) {
 	diags.Sort(fset)
 	diags = diags.Dedup()
 	if !opt.NoSuppress {
-		srcs := []rules.Source{{File: file, Src: src, Comments: ast.Comments}}
+		srcs := []rules.Source{{File: file, Src: src, Comments: comments}}
 		for _, f := range b.Included {
 			srcs = append(srcs, rules.Source{File: f.File, Src: f.Src, Comments: f.Comments})
 		}
 		diags = rules.Suppress(fset, srcs, diags, opt.Config, nil)
 	}
-	return &Result{Fset: fset, Build: b, Diags: diags, Parsed: ast, Solved: solved}, err
+	return &Result{Fset: fset, Build: b, Diags: diags, Solved: solved}, err
 }
