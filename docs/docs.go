@@ -7,15 +7,39 @@ package docs
 
 import (
 	"embed"
+	"fmt"
 	"io/fs"
+	"net/url"
+	"strings"
 )
 
 //go:embed rules/*.md
 var rulePages embed.FS
 
+// DefaultBaseURL is the placeholder address of the published docs folder.
+// The project publishes no site of its own: a team sets the address where
+// its copy of the repository's docs folder can be read (NODAL_DOCS_URL on
+// the command line), so that links in JSON, SARIF and Markdown open.
+const DefaultBaseURL = "https://nodal.example/docs/"
+
 // BaseURL is where the docs folder is published; rule pages are at
-// BaseURL + "rules/<id>.md". Output that links to the docs uses it.
-const BaseURL = "https://nodal.example/docs/"
+// BaseURL + "rules/<id>.md". Output that links to the docs uses it. Set it
+// with SetBaseURL before any output is written.
+var BaseURL = DefaultBaseURL
+
+// SetBaseURL checks that s is an absolute http(s) address (SARIF requires
+// absolute URIs) and makes it BaseURL, adding a trailing slash if missing.
+func SetBaseURL(s string) error {
+	u, err := url.Parse(s)
+	if err != nil || !u.IsAbs() || (u.Scheme != "https" && u.Scheme != "http") || u.Host == "" {
+		return fmt.Errorf("docs address %q is not an absolute http(s) URL", s)
+	}
+	if !strings.HasSuffix(s, "/") {
+		s += "/"
+	}
+	BaseURL = s
+	return nil
+}
 
 // RuleURL returns the address of a rule's page.
 func RuleURL(id string) string { return BaseURL + "rules/" + id + ".md" }

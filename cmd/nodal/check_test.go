@@ -214,3 +214,25 @@ func git(t *testing.T, dir string, args ...string) string {
 	}
 	return string(out)
 }
+
+// NODAL_DOCS_URL moves every rule link; a relative or non-http address is a
+// usage error, since SARIF 2.1.0 (OASIS, 2020) requires absolute URIs.
+func TestDocsURLFromEnvironment(t *testing.T) {
+	dir := t.TempDir()
+	f := filepath.Join(dir, "a.nodal")
+	if err := os.WriteFile(f, []byte("ground gnd\nresistor R1 (a, gnd) 1 kΩ\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	t.Setenv("NODAL_DOCS_URL", "https://code.example.org/team/nodal/docs")
+	var out, errb bytes.Buffer
+	run([]string{"check", "--format", "json", f}, strings.NewReader(""), &out, &errb)
+	if !strings.Contains(out.String(), `"https://code.example.org/team/nodal/docs/rules/floating-net.md"`) {
+		t.Fatalf("help_uri does not follow NODAL_DOCS_URL:\n%s", out.String())
+	}
+	t.Setenv("NODAL_DOCS_URL", "docs/")
+	out.Reset()
+	errb.Reset()
+	if st := run([]string{"check", f}, strings.NewReader(""), &out, &errb); st != 2 || !strings.Contains(errb.String(), "NODAL_DOCS_URL") {
+		t.Fatalf("relative NODAL_DOCS_URL: status %d, stderr %q; want 2 and a message", st, errb.String())
+	}
+}

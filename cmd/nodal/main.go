@@ -7,6 +7,8 @@ import (
 	"fmt"
 	"io"
 	"os"
+
+	"nodal/docs"
 )
 
 const version = "0.1.0"
@@ -37,6 +39,10 @@ part's voltage, current, power and use of its ratings, worst first (or
 JSON with --format json). Run "nodal report --help" for the sign
 convention.
 
+Links to rule pages in JSON, SARIF and Markdown output point at
+NODAL_DOCS_URL (an absolute address where the repository's docs/ folder
+can be read, e.g. on your code host); unset, a placeholder address is used.
+
 nodal is a design aid, not a sign-off: it does not replace review by a
 qualified person. Mains voltage and battery energy can injure; follow local
 codes and licensed practice.
@@ -50,6 +56,13 @@ func main() {
 // 0: no findings at error level; 1: findings at error level; 2: usage or
 // I/O trouble.
 func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
+	docs.BaseURL = docs.DefaultBaseURL
+	if u := os.Getenv("NODAL_DOCS_URL"); u != "" {
+		if err := docs.SetBaseURL(u); err != nil {
+			fmt.Fprintf(stderr, "nodal: NODAL_DOCS_URL: %v\n", err)
+			return 2
+		}
+	}
 	if len(args) == 0 {
 		fmt.Fprint(stderr, usage)
 		return 2

@@ -312,10 +312,13 @@ func exactCond1(t *rapid.T, d *mat.Dense) float64 {
 }
 
 // Reference: the exact 1-norm condition number from gonum's dense inverse
-// (exactCond1). Hager's estimate is a lower bound
-// that in practice is within a factor of 3 (Higham 1988, from memory); we
-// require a factor of 10.
+// (exactCond1). Hager's estimate is a lower bound on every matrix (it is
+// ‖A‖₁ times the norm of one column combination of A⁻¹), and in practice
+// within a factor of 3 (Higham 1988, from memory), though no bound holds for
+// every matrix. So: the lower bound always, a factor of 10 on all but a few
+// per cent of random matrices.
 func TestLUCond1Est(t *testing.T) {
+	cases, far := 0, 0
 	rapid.Check(t, func(t *rapid.T) {
 		a := drawLUMatrix(t)
 		var f LU
@@ -324,10 +327,17 @@ func TestLUCond1Est(t *testing.T) {
 		}
 		est := f.Cond1Est()
 		exact := exactCond1(t, denseOf(a))
-		if est > exact*(1+1e-8) || est < exact/10 {
-			t.Fatalf("Cond1Est %g, gonum exact κ₁ %g", est, exact)
+		if est > exact*(1+1e-8) {
+			t.Fatalf("Cond1Est %g exceeds gonum's exact κ₁ %g", est, exact)
+		}
+		cases++
+		if est < exact/10 {
+			far++
 		}
 	})
+	if cases > 0 && far*100 > 3*cases {
+		t.Fatalf("Cond1Est under a tenth of the exact κ₁ on %d of %d random matrices", far, cases)
+	}
 }
 
 // Nearly singular: column c = column c2 + δ·e_c with δ small; gonum's κ₁ and
