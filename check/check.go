@@ -68,14 +68,16 @@ func File(path string, opt *Options) (*Result, error) {
 }
 
 // Source checks the source text of one file, named name in messages.
-// Includes are resolved against the folder of name.
+// Includes are resolved against the folder of name. The result's names
+// share src's memory (see grammar.ParseShared): src must not change while
+// the result is in use.
 func Source(name string, src []byte, opt *Options) (*Result, error) {
 	if opt == nil {
 		opt = &Options{}
 	}
 	fset := diag.NewFileSet()
 	file := fset.AddFile(name, src)
-	ast := grammar.Parse(name, src)
+	ast := grammar.ParseShared(name, src)
 	// The suppression pass needs only the comments; the tree itself (most
 	// of the memory a large design takes) is dropped once it is
 	// elaborated, before the rules and the solve run.

@@ -248,7 +248,7 @@ func (b *builder) include(inc *grammar.Include, pos, end diag.Pos, stack []strin
 	b.included[path] = true
 	file := b.fset.AddFile(path, src)
 	b.srcs[file] = src
-	ast := grammar.Parse(path, src)
+	ast := grammar.ParseShared(path, src) // src is kept unchanged in b.r.Included
 	b.r.Included = append(b.r.Included, SourceFile{File: file, Src: src, Comments: ast.Comments})
 	saved := b.file
 	b.file = file

@@ -9,6 +9,7 @@ import (
 	"reflect"
 	"strings"
 	"testing"
+	"unsafe"
 
 	"github.com/alecthomas/participle/v2/lexer"
 
@@ -190,3 +191,19 @@ func FuzzFastPath(f *testing.F) {
 }
 
 func lexerUpgrade(l *sliceLexer) (*lexer.PeekingLexer, error) { return lexer.Upgrade(l) }
+
+// ParseShared builds the tree Parse builds, its texts inside src itself.
+func TestParseSharedIsParse(t *testing.T) {
+	var b bytes.Buffer
+	(&gen.Mesh{K: 20, Supplies: 4, Loads: 20, Seed: 1}).Write(&b)
+	src := b.Bytes()
+	got, want := ParseShared("x.nodal", src), Parse("x.nodal", src)
+	if !reflect.DeepEqual(got, want) {
+		t.Fatal("ParseShared and Parse build different trees")
+	}
+	name := got.Stmts[len(got.Stmts)-1].Part.Name.Text
+	lo, hi := uintptr(unsafe.Pointer(&src[0])), uintptr(unsafe.Pointer(&src[len(src)-1]))
+	if p := uintptr(unsafe.Pointer(unsafe.StringData(name))); p < lo || p > hi {
+		t.Errorf("part name %q is a copy, not a substring of src", name)
+	}
+}

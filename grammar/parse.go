@@ -21,6 +21,7 @@ import (
 	"errors"
 	"fmt"
 	"strings"
+	"unsafe"
 
 	"github.com/alecthomas/participle/v2"
 	"github.com/alecthomas/participle/v2/lexer"
@@ -65,13 +66,21 @@ func (e *SyntaxError) Error() string { return fmt.Sprintf("%d: %s", e.Line, e.Ms
 // recorded in File.Errors and skipped. Lines are read in batches by the
 // fast path (fast.go); the tree is the one ParseReference builds.
 func Parse(name string, src []byte) *File {
-	return parse(name, src, true)
+	return parse(name, string(src), true) // token values are substrings of this one copy
+}
+
+// ParseShared is Parse without the copy of src that Parse makes: the texts
+// in the tree are substrings of src itself, so src must not change while
+// the tree, or anything made from its texts, is in use. On a large design
+// the copy is as large as the file.
+func ParseShared(name string, src []byte) *File {
+	return parse(name, unsafe.String(unsafe.SliceData(src), len(src)), true)
 }
 
 // ParseReference reads a file one line per participle call with the
 // grammar alone, without the fast path. It defines what Parse returns.
 func ParseReference(name string, src []byte) *File {
-	return parse(name, src, false)
+	return parse(name, string(src), false)
 }
 
 // lineSpan is one non-empty line of a batch: its tokens in the batch's
@@ -81,9 +90,8 @@ type lineSpan struct {
 	eol      int // index of the token that ends the line
 }
 
-func parse(name string, srcBytes []byte, fast bool) *File {
+func parse(name string, src string, fast bool) *File {
 	f := &File{Name: name}
-	src := string(srcBytes) // token values are substrings of this one copy
 	var toks, lineToks []lexer.Token
 	var spans []lineSpan
 	var comments []lexer.Token
