@@ -198,9 +198,20 @@ func (b *builder) run(ast *grammar.File) {
 		}
 	}
 	b.top = &blockDef{file: topFile, isTop: true}
+	n := 0
 	for _, st := range top {
 		if st.Part != nil {
-			b.top.body = append(b.top.body, &bodyStmt{pt: st.Part, pos: b.pos(st.Pos), end: b.pos(st.EndPos)})
+			n++
+		}
+	}
+	// The top level's statements, in one allocation.
+	slab := make([]bodyStmt, n)
+	b.top.body = make([]*bodyStmt, 0, n)
+	for _, st := range top {
+		if st.Part != nil {
+			bs := &slab[len(b.top.body)]
+			*bs = bodyStmt{pt: st.Part, pos: b.pos(st.Pos), end: b.pos(st.EndPos)}
+			b.top.body = append(b.top.body, bs)
 		}
 	}
 	for _, bd := range b.blockList {

@@ -111,6 +111,7 @@ type bodyStmt struct {
 	blk      *blockDef // set for an instance
 	ok       bool      // false: the statement cannot be placed
 	nets     []netRef  // one per written pin
+	pinNets  [2]netRef // nets of a two-pin statement, without an allocation
 	bind     []int     // instance: for each pin of blk, the index in nets
 	assign   []int     // instance: for each parameter of blk, the index in pt.Params, or -1
 	valueErr bool      // instance: carries a value or attributes it cannot take
@@ -308,7 +309,11 @@ func (b *builder) prepare(bd *blockDef) {
 	for _, st := range bd.body {
 		pt := st.pt
 		st.ok = true
-		st.nets = make([]netRef, len(pt.Pins))
+		if len(pt.Pins) <= len(st.pinNets) {
+			st.nets = st.pinNets[:len(pt.Pins)]
+		} else {
+			st.nets = make([]netRef, len(pt.Pins))
+		}
 		for i, pin := range pt.Pins {
 			name := netName(pin.Net.Text)
 			r := netRef{kind: refNamed, name: name}
