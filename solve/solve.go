@@ -177,21 +177,41 @@ func Solve(d *circuit.Design, opt *Options) (*Result, error) {
 			kind = PCGAMG
 		}
 	}
-	if m.mna && (kind == SparseCholesky || kind == PCGAMG) {
+	if m.mna && (kind == SparseCholesky || kind == PCGAMG || kind == PCGJacobi || kind == PCGPlainAMG) {
 		kind = SparseLU
 	}
 	if kind == DenseLU && m.n > MaxDense {
 		return nil, &Error{Kind: TooLarge, Msg: fmt.Sprintf("%d unknowns is too many for the dense solver (%d)", m.n, MaxDense)}
 	}
 	var pcg *pcgSolver
+	newPCG := func(jacobi, plain bool) {
+		pcg = &pcgSolver{tol: PCGTol, private: len(m.junc) > 0, jacobi: jacobi, plain: plain}
+		m.lin = pcg
+	}
 	switch kind {
 	case DenseLU:
 		m.lin = &denseSolver{}
 	case SparseCholesky:
-		m.lin = &cholSolver{}
+		c := &cholSolver{}
+		m.lin = c
+		if opt.Solver == AutoSolver {
+			// Chosen by size alone: analyse the pattern first and, if the
+			// factor would pass fillBudget (a network without small
+			// separators), take the iterative path instead.
+			m.assemble(1, 0)
+			if err := c.probe(m.sys); err != nil {
+				if se := (*Error)(nil); !errors.As(err, &se) || se.Kind != TooLarge {
+					return nil, m.singular(err)
+				}
+				newPCG(false, false)
+			}
+		}
 	case PCGAMG:
-		pcg = &pcgSolver{tol: PCGTol, private: len(m.junc) > 0}
-		m.lin = pcg
+		newPCG(false, false)
+	case PCGJacobi:
+		newPCG(true, false)
+	case PCGPlainAMG:
+		newPCG(false, true)
 	default:
 		m.lin = &luSolver{}
 	}

@@ -18,6 +18,24 @@ type AMGOptions struct {
 	CoarseSize int
 	// MaxLevels bounds the depth of the hierarchy. Default 25.
 	MaxLevels int
+	// MaxComplexity, when positive, bounds the operator complexity (see
+	// OperatorComplexity). It is checked level by level while the
+	// hierarchy is built, and each Galerkin product is capped at what the
+	// budget has left, so a coarsening that fills in (graphs without small
+	// separators) stops at the first level that passes it, with
+	// *ComplexityExceeded, before the product is ever held in full.
+	MaxComplexity float64
+	// Unsmoothed uses the tentative prolongator P̂ itself, without the
+	// Jacobi smoothing step: plain aggregation (Braess, "Towards algebraic
+	// multigrid for elliptic problems of second order", Computing 55,
+	// 1995, from memory; Notay, "An aggregation-based algebraic multigrid
+	// method", ETNA 37, 2010). Each coarse matrix P̂ᵀAP̂ is then the
+	// quotient graph of the finer one and holds at most as many entries,
+	// so the hierarchy cannot fill in whatever the graph; a V-cycle with
+	// it is a weaker preconditioner than the smoothed one, but it still
+	// contracts clusters of strongly coupled unknowns, which diagonal
+	// scaling alone cannot.
+	Unsmoothed bool
 }
 
 type amgLevel struct {
@@ -66,6 +84,11 @@ func NewAMG(a *CSC, opt *AMGOptions) (*AMG, error) {
 	m := &AMG{}
 	cur := a
 	eps := o.Eps
+	// budget is how many entries all levels together may hold (−1: any).
+	budget, total := -1, 0
+	if o.MaxComplexity > 0 {
+		budget = int(o.MaxComplexity * float64(max(a.Nnz(), 1)))
+	}
 	for {
 		n := cur.N
 		lev := amgLevel{a: cur, diag: make([]float64, n),
@@ -80,6 +103,10 @@ func NewAMG(a *CSC, opt *AMGOptions) (*AMG, error) {
 				return nil, &NotPositiveDefinite{Col: j}
 			}
 		}
+		total += cur.Nnz()
+		if budget >= 0 && total > budget {
+			return nil, &ComplexityExceeded{Level: len(m.levels), Max: o.MaxComplexity}
+		}
 		if n <= o.CoarseSize || len(m.levels)+1 >= o.MaxLevels {
 			m.levels = append(m.levels, lev)
 			break
@@ -90,13 +117,39 @@ func NewAMG(a *CSC, opt *AMGOptions) (*AMG, error) {
 			m.levels = append(m.levels, lev)
 			break
 		}
-		lev.p = smoothedProlongator(cur, lev.diag, agg, nagg)
+		if o.Unsmoothed {
+			lev.p = tentativeProlongator(n, agg, nagg)
+		} else {
+			lev.p = smoothedProlongator(cur, lev.diag, agg, nagg)
+		}
 		lev.pt = lev.p.T()
 		m.levels = append(m.levels, lev)
-		cur = mulCSC(lev.pt, mulCSC(cur, lev.p))
+		// The coarse matrix may hold what the budget has left; the
+		// intermediate A·P is capped at the whole budget (common practice,
+		// not a published rule).
+		left, apLimit := -1, -1
+		if budget >= 0 {
+			left, apLimit = budget-total, budget
+		}
+		ap, ok := mulCSCLimit(cur, lev.p, apLimit)
+		if ok {
+			cur, ok = mulCSCLimit(lev.pt, ap, left)
+		}
+		if !ok {
+			return nil, &ComplexityExceeded{Level: len(m.levels), Max: o.MaxComplexity}
+		}
 		eps /= 2
 	}
-	if err := m.coarse.Factor(m.levels[len(m.levels)-1].a); err != nil {
+	last := m.levels[len(m.levels)-1].a
+	if budget >= 0 {
+		// The coarsest factor counts against the budget too.
+		if err := m.coarse.AnalyzeBudget(last, max(budget-total, 0)+last.Nnz()); err != nil {
+			return nil, &ComplexityExceeded{Level: len(m.levels) - 1, Max: o.MaxComplexity}
+		}
+	} else {
+		m.coarse.Analyze(last)
+	}
+	if err := m.coarse.Factorize(last); err != nil {
 		return nil, fmt.Errorf("sparse: AMG coarsest level: %w", err)
 	}
 	return m, nil
@@ -115,19 +168,7 @@ func smoothedProlongator(a *CSC, diag []float64, agg []int32, nagg int) *CSC {
 		rho = math.Max(rho, s/diag[j])
 	}
 	omega := 4 / (3 * rho)
-	ph := &CSC{N: n, M: nagg, P: make([]int32, nagg+1), I: make([]int32, n), X: make([]float64, n)}
-	for _, c := range agg {
-		ph.P[c+1]++
-	}
-	for c := 0; c < nagg; c++ {
-		ph.P[c+1] += ph.P[c]
-	}
-	next := append([]int32(nil), ph.P[:nagg]...)
-	for i, c := range agg {
-		ph.I[next[c]] = int32(i)
-		ph.X[next[c]] = 1
-		next[c]++
-	}
+	ph := tentativeProlongator(n, agg, nagg)
 	// A·P̂ contains the pattern of P̂ (every a_ii ≠ 0), so P is A·P̂ scaled
 	// by −ω/a_ii per row plus 1 on P̂'s entries.
 	p := mulCSC(a, ph)
@@ -141,6 +182,24 @@ func smoothedProlongator(a *CSC, diag []float64, agg []int32, nagg int) *CSC {
 		}
 	}
 	return p
+}
+
+// tentativeProlongator returns P̂ (n×nagg) with P̂(i, agg[i]) = 1.
+func tentativeProlongator(n int, agg []int32, nagg int) *CSC {
+	ph := &CSC{N: n, M: nagg, P: make([]int32, nagg+1), I: make([]int32, n), X: make([]float64, n)}
+	for _, c := range agg {
+		ph.P[c+1]++
+	}
+	for c := 0; c < nagg; c++ {
+		ph.P[c+1] += ph.P[c]
+	}
+	next := append([]int32(nil), ph.P[:nagg]...)
+	for i, c := range agg {
+		ph.I[next[c]] = int32(i)
+		ph.X[next[c]] = 1
+		next[c]++
+	}
+	return ph
 }
 
 // Levels returns the number of unknowns on each level, finest first.

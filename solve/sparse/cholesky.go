@@ -68,6 +68,21 @@ func (ch *Cholesky) Analyze(a *CSC) {
 // elimination tree (same fill; see Perm for the order actually used). It
 // panics if perm is not a permutation of 0..n-1.
 func (ch *Cholesky) AnalyzePerm(a *CSC, perm []int32) {
+	_ = ch.analyzePerm(a, perm, -1)
+}
+
+// AnalyzeBudget is Analyze that stops as soon as the column counts of L
+// pass maxNnzL entries, returning *FillExceeded before the row structure of
+// L (the costly part of the symbolic analysis on a matrix that fills in) is
+// built or any numeric work is done. The column counts are accumulated row
+// by row (row k of L is the reach of row k of A in the elimination tree),
+// so the analysis stops after O(maxNnzL) work, not O(nnz(L)). After an
+// error the Cholesky is not analysed.
+func (ch *Cholesky) AnalyzeBudget(a *CSC, maxNnzL int) error {
+	return ch.analyzePerm(a, AMD(a), maxNnzL)
+}
+
+func (ch *Cholesky) analyzePerm(a *CSC, perm []int32, limit int) error {
 	a.mustSquare("Cholesky")
 	n := a.N
 	if len(perm) != n {
@@ -108,15 +123,18 @@ func (ch *Cholesky) AnalyzePerm(a *CSC, perm []int32) {
 		counts[j] = 1
 		ch.mark[j] = -1
 	}
+	total := n
 	for k := 0; k < n; k++ {
 		top := ereach(ch.c, k, ch.parent, ch.stack, ch.mark)
 		for _, j := range ch.stack[top:] {
 			counts[j]++
 		}
-	}
-	total := 0
-	for _, c := range counts {
-		total += int(c)
+		total += len(ch.stack) - top
+		if limit >= 0 && total > limit {
+			ch.analysed, ch.factored, ch.l = false, false, nil
+			ch.sn = supernodes{}
+			return &FillExceeded{NnzL: total, Budget: limit, Rows: k + 1, N: n}
+		}
 	}
 	checkIndexRange(n, n, total)
 	ch.sn = buildSupernodes(ch.c, ch.parent, counts, ch.stack, ch.mark)
@@ -127,6 +145,7 @@ func (ch *Cholesky) AnalyzePerm(a *CSC, perm []int32) {
 	ch.l = nil
 	ch.analysed = true
 	ch.factored = false
+	return nil
 }
 
 // Factorize computes the numeric factor L for the values of A, which must

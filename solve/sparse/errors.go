@@ -51,3 +51,28 @@ type NotConverged struct {
 func (e *NotConverged) Error() string {
 	return fmt.Sprintf("sparse: PCG did not converge: relative residual %g after %d iterations", e.RelResidual, e.Iter)
 }
+
+// FillExceeded is returned by Cholesky.AnalyzeBudget when the column counts
+// of L pass the budget. NnzL is the count reached when the analysis
+// stopped (a lower bound on nnz(L)), Rows how many rows of L it had
+// counted by then, of N.
+type FillExceeded struct {
+	NnzL, Budget, Rows, N int
+}
+
+func (e *FillExceeded) Error() string {
+	return fmt.Sprintf("sparse: Cholesky factor would hold more than %d entries (%d counted after %d of %d rows)", e.Budget, e.NnzL, e.Rows, e.N)
+}
+
+// ComplexityExceeded is returned by NewAMG when the operator complexity
+// Σ nnz(A_l)/nnz(A_0) of the levels built so far, or of the next Galerkin
+// product, passes AMGOptions.MaxComplexity. Level is the level whose
+// construction stopped (1 = the first coarse level).
+type ComplexityExceeded struct {
+	Level int
+	Max   float64
+}
+
+func (e *ComplexityExceeded) Error() string {
+	return fmt.Sprintf("sparse: AMG operator complexity passes %g while building level %d", e.Max, e.Level)
+}
