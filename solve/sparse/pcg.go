@@ -29,6 +29,29 @@ func PCG(a *CSC, x, b []float64, m Preconditioner, tol float64, maxIter int) (it
 		clear(x)
 		return 0, 0, nil
 	}
+	if bnorm < 1e-100 || bnorm > 1e100 {
+		// The inner products of CG square the residual's scale, so a right
+		// side this small or large underflows or overflows them. Solve for
+		// b/‖b‖ instead (CG is linear in b) and scale back.
+		s := 1 / bnorm
+		bs := make([]float64, n)
+		for i := range b {
+			bs[i] = b[i] * s
+			x[i] *= s
+		}
+		iter, relres, err = pcg(a, x, bs, m, tol, maxIter)
+		for i := range x {
+			x[i] *= bnorm
+		}
+		return iter, relres, err
+	}
+	return pcg(a, x, b, m, tol, maxIter)
+}
+
+// pcg is PCG for a right side of moderate norm.
+func pcg(a *CSC, x, b []float64, m Preconditioner, tol float64, maxIter int) (iter int, relres float64, err error) {
+	n := a.N
+	bnorm := norm2vec(b)
 	r := make([]float64, n)
 	z := make([]float64, n)
 	p := make([]float64, n)
@@ -103,4 +126,23 @@ func dot(x, y []float64) float64 {
 	return s
 }
 
-func norm2vec(x []float64) float64 { return math.Sqrt(dot(x, x)) }
+// norm2vec returns ‖x‖₂ without the under- or overflow of a plain sum of
+// squares (scaled by the largest entry, as LAPACK's dnrm2 does).
+func norm2vec(x []float64) float64 {
+	m := 0.0
+	for _, v := range x {
+		m = math.Max(m, math.Abs(v))
+	}
+	if m == 0 || math.IsInf(m, 0) || math.IsNaN(m) {
+		return m
+	}
+	if m > 1e-100 && m < 1e100 {
+		return math.Sqrt(dot(x, x))
+	}
+	s := 0.0
+	for _, v := range x {
+		v /= m
+		s += v * v
+	}
+	return m * math.Sqrt(s)
+}

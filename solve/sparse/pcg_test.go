@@ -2,6 +2,7 @@ package sparse
 
 import (
 	"errors"
+	"math"
 	"testing"
 
 	"pgregory.net/rapid"
@@ -58,5 +59,23 @@ func TestPCGNotConverged(t *testing.T) {
 	var nc *NotConverged
 	if !errors.As(err, &nc) || nc.Iter != 3 {
 		t.Fatalf("want *NotConverged after 3 iterations, got %v", err)
+	}
+}
+
+// A right side near the bottom of the float64 range: the solution of
+// 0.5·x = b is 2b (checked by hand), which a plain sum of squares would
+// lose to underflow.
+func TestPCGTinyRightSide(t *testing.T) {
+	tr := NewTriplet(2, 2, 2)
+	tr.Add(0, 0, 0.5)
+	tr.Add(1, 1, 2)
+	a := tr.Compress()
+	b := []float64{1e-162, 3e-170}
+	x := make([]float64, 2)
+	if _, _, err := PCG(a, x, b, nil, 1e-12, 10); err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(x[0]-2e-162) > 1e-174 || math.Abs(x[1]-1.5e-170) > 1e-182 {
+		t.Fatalf("x = %g, want [2e-162 1.5e-170]", x)
 	}
 }
