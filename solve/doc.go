@@ -32,10 +32,22 @@
 // The automatic choice (Options.Solver) takes gonum's dense LU for systems
 // of at most AutoDenseMax unknowns; the sparse supernodal Cholesky
 // factorisation for the eliminated equations up to AutoCholeskyMax; beyond
-// that conjugate gradients preconditioned by smoothed-aggregation AMG, which
-// falls back to Cholesky if it does not converge; and the sparse LU for the
-// indefinite MNA equations. The crossovers were measured (see
-// BenchmarkSolverCrossover). In a Newton loop every factorisation keeps its
+// that conjugate gradients preconditioned by smoothed-aggregation AMG; and
+// the sparse LU for the indefinite MNA equations. The crossovers were
+// measured (see BenchmarkSolverCrossover).
+//
+// Networks without small separators (random ones rather than laid-out
+// ones) defeat both the direct solver and the smoothed coarsening, and are
+// caught early: Cholesky's symbolic analysis stops as soon as its column
+// counts pass fillBudget, before the factor is allocated, and the AMG
+// hierarchy stops at the first level that passes maxComplexity, before the
+// product that fills in is held. An automatically chosen Cholesky past its
+// budget hands over to PCG; a smoothed hierarchy past its bound gives way
+// to plain (unsmoothed) aggregation, PCGPlainAMG, whose coarse matrices
+// cannot fill in; past plainMaxComplexity, to the Jacobi preconditioner,
+// PCGJacobi. A PCG that does not converge falls back to Cholesky within
+// its budget, and only then is the design TooLarge. Result.Linear names the
+// solver that produced the solution. In a Newton loop every factorisation keeps its
 // symbolic analysis and refactors numerically; PCG keeps its multigrid
 // hierarchy while it stays effective and starts from the previous solution.
 // A PCG solution is accepted when, beyond its residual norm, every unknown

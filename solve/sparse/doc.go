@@ -73,7 +73,11 @@
 // For very large SPD systems PCG runs the preconditioned conjugate gradient
 // method; NewAMG builds a smoothed-aggregation algebraic multigrid
 // preconditioner (Vaněk, Mandel & Brezina 1996) whose V-cycle is used as
-// the preconditioner.
+// the preconditioner; AMGOptions.Unsmoothed builds plain aggregation
+// instead, and AMGOptions.MaxComplexity bounds the hierarchy level by
+// level. Jacobi and SymGaussSeidel are the point preconditioners.
+// Cholesky.AnalyzeBudget stops the symbolic analysis once nnz(L) passes a
+// budget.
 //
 // # Errors
 //
@@ -92,6 +96,10 @@
 //   - *PivotTooSmall{Col, Pivot, Max}: LU.Refactor's kept pivot failed the
 //     threshold test; factorise again.
 //   - *NotConverged{Iter, RelResidual}: PCG stopped at its iteration limit.
+//   - *FillExceeded{NnzL, Budget, Rows, N}: Cholesky.AnalyzeBudget counted
+//     more than Budget entries of L.
+//   - *ComplexityExceeded{Level, Max}: NewAMG's hierarchy passed
+//     AMGOptions.MaxComplexity.
 //
 // No factorisation returns NaN results for a matrix it accepted: every
 // accepted pivot is finite and non-zero.
