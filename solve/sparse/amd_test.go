@@ -6,20 +6,6 @@ import (
 	"pgregory.net/rapid"
 )
 
-func isPerm(p []int32, n int) bool {
-	if len(p) != n {
-		return false
-	}
-	seen := make([]bool, n)
-	for _, i := range p {
-		if i < 0 || int(i) >= n || seen[i] {
-			return false
-		}
-		seen[i] = true
-	}
-	return true
-}
-
 func identityPerm(n int) []int32 {
 	p := make([]int32, n)
 	for i := range p {
@@ -49,7 +35,7 @@ func TestAMDIsPermutation(t *testing.T) {
 				tr.Add(i, dense, 1)
 			}
 		}
-		if p := AMD(tr.Compress()); !isPerm(p, n) {
+		if p := AMD(tr.Compress()); !isPermutation(p, n) {
 			t.Fatalf("AMD result is not a permutation of 0..%d", n-1)
 		}
 	})
