@@ -179,7 +179,7 @@ func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		}
 		defer idx.Close()
 		read = idx.ReadFile
-		names, status = stagedNames(root, prefix, paths, idx, stderr)
+		names, status = stagedNames(root, prefix, paths, stderr)
 	} else {
 		if len(paths) == 0 {
 			paths = []string{"."}
@@ -414,21 +414,33 @@ func collect(paths []string, stderr io.Writer) ([]string, int) {
 			add(q)
 		}
 	}
-	if len(missing) > 0 {
-		known := gitKnown(".", missing)
-		for _, p := range missing {
-			if !known[p] {
-				fmt.Fprintf(stderr, "nodal: %s: no such file or folder\n", p)
-				status = 2
-			}
-		}
+	if reportUnknown(missing, "no such file or folder", stderr) {
+		status = 2
 	}
 	return out, status
 }
 
+// reportUnknown says which of the missing paths git does not know: those
+// are typos, while a missing path git knows is a deletion a hook passes on,
+// skipped quietly. It reports whether any was a typo.
+func reportUnknown(missing []string, what string, stderr io.Writer) bool {
+	if len(missing) == 0 {
+		return false
+	}
+	typo := false
+	known := gitKnown(".", missing)
+	for _, p := range missing {
+		if !known[p] {
+			fmt.Fprintf(stderr, "nodal: %s: %s\n", p, what)
+			typo = true
+		}
+	}
+	return typo
+}
+
 // stagedNames turns the named paths (relative to the current folder) into
 // repository paths of staged .nodal files, or lists every staged one.
-func stagedNames(root, prefix string, paths []string, idx *index, stderr io.Writer) ([]string, int) {
+func stagedNames(root, prefix string, paths []string, stderr io.Writer) ([]string, int) {
 	if len(paths) == 0 {
 		ps, err := gitStaged(root)
 		if err != nil {
@@ -437,8 +449,7 @@ func stagedNames(root, prefix string, paths []string, idx *index, stderr io.Writ
 		}
 		return ps, 0
 	}
-	status := 0
-	var out, missing []string
+	var named, rps []string
 	seen := map[string]bool{}
 	for _, p := range paths {
 		if !strings.HasSuffix(p, ".nodal") {
@@ -449,20 +460,26 @@ func stagedNames(root, prefix string, paths []string, idx *index, stderr io.Writ
 			continue
 		}
 		seen[rp] = true
-		if _, err := idx.ReadFile(rp); err != nil {
-			missing = append(missing, p)
-			continue
-		}
-		out = append(out, rp)
+		named, rps = append(named, p), append(rps, rp)
 	}
-	if len(missing) > 0 {
-		known := gitKnown(".", missing)
-		for _, p := range missing {
-			if !known[p] {
-				fmt.Fprintf(stderr, "nodal: %s: not in git's index\n", p)
-				status = 2
-			}
+	// One ls-files call says which are staged; their content is read once,
+	// later, when they are checked.
+	in, err := gitInIndex(root, rps)
+	if err != nil {
+		fmt.Fprintf(stderr, "nodal: --staged: %v\n", err)
+		return nil, 2
+	}
+	var out, missing []string
+	for i, rp := range rps {
+		if in[rp] {
+			out = append(out, rp)
+		} else {
+			missing = append(missing, named[i])
 		}
+	}
+	status := 0
+	if reportUnknown(missing, "not in git's index", stderr) {
+		status = 2
 	}
 	return out, status
 }

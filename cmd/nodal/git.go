@@ -84,6 +84,26 @@ func gitKnown(dir string, ps []string) map[string]bool {
 	return known
 }
 
+// gitInIndex reports which of the repository paths rps have an entry in
+// git's index, in one ls-files call and without reading any content.
+func gitInIndex(root string, rps []string) (map[string]bool, error) {
+	if len(rps) == 0 {
+		return nil, nil
+	}
+	args := append([]string{"--literal-pathspecs", "ls-files", "-z", "--full-name", "--"}, rps...)
+	out, err := gitOutput(root, args...)
+	if err != nil {
+		return nil, err
+	}
+	in := map[string]bool{}
+	for _, p := range strings.Split(string(out), "\x00") {
+		if p != "" {
+			in[p] = true
+		}
+	}
+	return in, nil
+}
+
 // gitStaged lists the repository paths of the staged .nodal files that
 // are added, copied, modified or renamed (deleted ones have nothing to
 // check).

@@ -82,3 +82,24 @@ func TestStagedConfigAndSubfolder(t *testing.T) {
 		t.Errorf("exit %d, out %q, err %q", code, out, errs)
 	}
 }
+
+// Named paths with --staged: a staged file is checked, a path git's index
+// has never held is a typo (exit 2), and a file removed with "git rm" is a
+// deletion the hook passes on, skipped quietly.
+func TestStagedNamedPaths(t *testing.T) {
+	dir := gitRepo(t)
+	write(t, filepath.Join(dir, "boards", "psu.nodal"), goodDesign)
+	write(t, filepath.Join(dir, "boards", "old.nodal"), goodDesign)
+	git(t, dir, "add", ".")
+	git(t, dir, "commit", "-q", "-m", "boards")
+	git(t, dir, "rm", "-q", filepath.Join("boards", "old.nodal"))
+	sub := filepath.Join(dir, "boards")
+	code, _, errs := runNodal(t, sub, "", "check", "--staged", "psu.nodal", "old.nodal")
+	if code != 0 || !strings.Contains(errs, "in 1 file") {
+		t.Errorf("staged + deleted: exit %d, stderr %q; want 0 and one file checked", code, errs)
+	}
+	code, _, errs = runNodal(t, sub, "", "check", "--staged", "psu.nodal", "typo.nodal")
+	if code != 2 || !strings.Contains(errs, "typo.nodal: not in git's index") {
+		t.Errorf("typo: exit %d, stderr %q; want 2 and the path named", code, errs)
+	}
+}
