@@ -238,6 +238,17 @@ func equilibratedCond(d []float64, snorm float64, solve func([]float64)) float64
 
 // scaling returns d_i = 1/√(max_j |a_ij|) (1 for an empty row) for the
 // symmetric matrix a in CSC form, and ‖D·A·D‖₁.
+// cond estimates the equilibrated condition number of the matrix last
+// compressed, given a solve with its factors (1 for an empty system). The
+// estimate solves with A and Aᵀ; A is symmetric, so one solve serves both.
+func (m *sparseMatrix) cond(solve func([]float64)) float64 {
+	if m.a == nil || m.a.N == 0 {
+		return 1
+	}
+	d, norm := scaling(m.a)
+	return equilibratedCond(d, norm, solve)
+}
+
 func scaling(a *sparse.CSC) ([]float64, float64) {
 	n := a.M
 	d := make([]float64, n)
@@ -458,13 +469,7 @@ func (c *cholSolver) solve(x []float64) error {
 	return nil
 }
 
-func (c *cholSolver) cond() float64 {
-	if c.m.a == nil || c.m.a.N == 0 {
-		return 1
-	}
-	d, norm := scaling(c.m.a)
-	return equilibratedCond(d, norm, c.ch.Solve)
-}
+func (c *cholSolver) cond() float64 { return c.m.cond(c.ch.Solve) }
 
 // luSolver is the general sparse LU: the ordering is computed once, the
 // first factorisation chooses the pivots and later ones reuse them
@@ -508,13 +513,7 @@ func (l *luSolver) solve(x []float64) error {
 	return nil
 }
 
-func (l *luSolver) cond() float64 {
-	if l.m.a == nil || l.m.a.N == 0 {
-		return 1
-	}
-	d, norm := scaling(l.m.a)
-	return equilibratedCond(d, norm, l.lu.Solve) // A is symmetric: A⁻ᵀ = A⁻¹
-}
+func (l *luSolver) cond() float64 { return l.m.cond(l.lu.Solve) }
 
 // PCGTol is the default relative residual ‖b − A·x‖₂/‖b‖₂ at which PCG
 // stops. Solve tightens it by 1000 and solves again, warm-started, when the
