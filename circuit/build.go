@@ -84,9 +84,12 @@ type builder struct {
 	included  map[string]bool
 	top       *blockDef // the top level, as a block without pins
 
-	sc      *scope // the scope being elaborated
-	count   int64  // parts and instances made so far
-	refused bool   // an instance was refused for the size limit
+	sc *scope // the scope being elaborated
+	// subject is the instance path of the part or instance whose
+	// statement is being elaborated; findings made meanwhile are about it.
+	subject string
+	count   int64 // parts and instances made so far
+	refused bool  // an instance was refused for the size limit
 
 	// Findings inside blocks are made once per instance; they are merged
 	// into one per statement, rule and rank within the statement.
@@ -120,7 +123,7 @@ func clamp(o, n int) int {
 }
 
 func (b *builder) report(rule string, sev diag.Severity, pos, end diag.Pos, format string, args ...any) {
-	d := diag.Diagnostic{Pos: pos, End: end, Rule: rule, Severity: sev, Message: fmt.Sprintf(format, args...)}
+	d := diag.Diagnostic{Pos: pos, End: end, Rule: rule, Severity: sev, Message: fmt.Sprintf(format, args...), Subject: b.subject}
 	if sc := b.sc; sc != nil && (sc.inst >= 0 || b.probing) {
 		nth := 0
 		found := false

@@ -306,9 +306,14 @@ func (b *builder) prepare(bd *blockDef) {
 	localIndex := map[string]int{}
 	names := make(map[string]*bodyStmt, len(bd.body))
 	pinUsed := make([]bool, len(bd.pins))
+	defer func() { b.subject = "" }()
 	for _, st := range bd.body {
 		pt := st.pt
 		st.ok = true
+		b.subject = ""
+		if bd.isTop {
+			b.subject = pt.Name.Text // a block's text has no instance path
+		}
 		if len(pt.Pins) <= len(st.pinNets) {
 			st.nets = st.pinNets[:len(pt.Pins)]
 		} else {
@@ -595,7 +600,9 @@ func (b *builder) measure(bd *blockDef, stack []*blockDef) {
 func (b *builder) stmt(sc *scope, st *bodyStmt) {
 	b.stmtSeen = b.stmtSeen[:0]
 	b.sc = sc
-	defer func() { b.sc = nil }()
+	savedSubject := b.subject
+	b.subject = sc.prefix + st.pt.Name.Text
+	defer func() { b.sc, b.subject = nil, savedSubject }()
 	nets := make([]NetID, len(st.nets))
 	for i := range st.nets {
 		nets[i] = b.net(sc, st, i)

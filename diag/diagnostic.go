@@ -44,14 +44,40 @@ type Related struct {
 	Message string
 }
 
+// Edit replaces the source text from Pos up to End with NewText. An edit
+// with End equal to Pos inserts.
+type Edit struct {
+	Pos, End Pos
+	NewText  string
+}
+
+// Fix is one way to resolve a finding: a message for the person choosing
+// it ("write 10 kΩ") and the edits that make it. Edits of one fix do not
+// overlap.
+type Fix struct {
+	Message string
+	Edits   []Edit
+}
+
 // Diagnostic is one finding.
 type Diagnostic struct {
 	Pos      Pos
 	End      Pos // NoPos when only a point is known
 	Rule     string
 	Severity Severity
+	// Category groups findings of one rule by what they are about, in the
+	// rule's own words ("value", "pins"); it may be empty.
+	Category string
 	Message  string
-	Related  []Related
+	// Subject is the instance path of the part or net the finding is about
+	// ("R1", "ROW2.C4.R", "ROW2.mid"), or empty for a finding about the
+	// file or a block's text. It identifies the finding across revisions of
+	// a design, where positions move.
+	Subject string
+	Related []Related
+	// Fixes are the edits that would resolve the finding, for editors
+	// that offer them; most findings have none.
+	Fixes []Fix
 }
 
 // List is a set of diagnostics that sorts and de-duplicates.

@@ -16,7 +16,10 @@
 //
 // A Diagnostic carries a rule id, a severity, a message that names the parts
 // and nets involved, the range it covers and related locations (the other
-// parts around a loop, the instance of a block). A List sorts by file, line
+// parts around a loop, the instance of a block), in the manner of
+// golang.org/x/tools/go/analysis. Subject names the part or net a finding
+// is about by its instance path, so that tools can match findings across
+// revisions; Fixes carry edits an editor can offer. A List sorts by file, line
 // and column and drops exact duplicates, so that output is deterministic.
 package diag
 

@@ -64,7 +64,7 @@ mean".`,
 			} else {
 				msg += "; connect it, or declare it with port if it leaves the file"
 			}
-			p.Report(diag.Diagnostic{Pos: net.Pos, End: net.End, Message: msg, Related: relatedForNet(p, n)})
+			p.Report(diag.Diagnostic{Pos: net.Pos, End: net.End, Message: msg, Subject: net.Name, Related: relatedForNet(p, n)})
 		}
 		return nil, nil
 	},
@@ -120,7 +120,7 @@ func reportShared(p *Pass, g *floatGroup, owner map[circuit.NetID]pinRef) {
 		msg += ": " + strings.TrimPrefix(part.Name, in.Path+".") + " " + part.Kind.Info().Pins[o.pin]
 	}
 	msg += "; connect it inside the block, or make it a pin of the block"
-	dg := diag.Diagnostic{Pos: first.Pos, End: first.End, Message: msg}
+	dg := diag.Diagnostic{Pos: first.Pos, End: first.End, Message: msg, Subject: first.Name}
 	for i, n := range g.nets {
 		if i == 8 {
 			break

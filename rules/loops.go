@@ -28,7 +28,7 @@ the sources.`,
 		for i := range t.Loops {
 			l := &t.Loops[i]
 			closing := &d.Parts[l.Steps[0].Part]
-			diagn := diag.Diagnostic{Pos: closing.Pos, End: closing.End, Related: relatedForPart(p, l.Steps[0].Part)}
+			diagn := diag.Diagnostic{Pos: closing.Pos, End: closing.End, Subject: closing.Name, Related: relatedForPart(p, l.Steps[0].Part)}
 			path := loopPath(d, l)
 			if l.Balanced() {
 				diagn.Severity = diag.Warning
@@ -45,7 +45,7 @@ the sources.`,
 		}
 		if t.LoopsLeft > 0 {
 			first := &d.Parts[t.Loops[0].Steps[0].Part]
-			p.Report(diag.Diagnostic{Pos: first.Pos, End: first.End, Severity: diag.Error,
+			p.Report(diag.Diagnostic{Pos: first.Pos, End: first.End, Severity: diag.Error, Subject: first.Name,
 				Message: fmt.Sprintf("%d more loops of voltage sources and shorts were found and not listed", t.LoopsLeft)})
 		}
 		return nil, nil

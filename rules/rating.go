@@ -175,7 +175,7 @@ func ratingRule(name, what, doc string, kinds ...circuit.Kind) *Analyzer {
 				}
 				for _, u := range Uses(q, r.V[i], r.I[i], r.P[i]) {
 					if u.What == what && u.Frac > overLimit {
-						p.Reportf(q.Pos, q.End, "%s", describeUse(q, u))
+						p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: q.Name, Message: describeUse(q, u)})
 					}
 				}
 			}
@@ -242,7 +242,7 @@ current 80 %, fuse current 75 %, supply current 90 %.`,
 			for _, u := range Uses(q, r.V[i], r.I[i], r.P[i]) {
 				lim := p.Config.Derating.limit(q.Kind, u.What)
 				if lim > 0 && u.Frac > lim*overLimit && u.Frac <= overLimit { // a part exactly at the limit is not past it
-					p.Reportf(q.Pos, q.End, "%s, past the %s derating limit", describeUse(q, u), units.FormatPercent(lim))
+					p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: q.Name, Message: describeUse(q, u) + ", past the " + units.FormatPercent(lim) + " derating limit"})
 				}
 			}
 		}
