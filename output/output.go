@@ -33,6 +33,16 @@ type Finding struct {
 	Rule      string
 	Message   string
 	Related   []Related
+	// Design is the checked file the finding came from (File may be a
+	// file it includes); Subject the instance path of the part or net the
+	// finding is about, or "". Together with Rule they identify a finding
+	// across revisions (Key).
+	Design  string
+	Subject string
+	// Baseline is the finding's state against an earlier revision in a
+	// comparison ("new", "unchanged", "updated" or "absent"; SARIF 2.1.0
+	// §3.27.24), or "" outside one.
+	Baseline string
 }
 
 // Related is another place a finding names.

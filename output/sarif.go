@@ -72,6 +72,11 @@ type sarifResult struct {
 	Message          sarifText       `json:"message"`
 	Locations        []sarifLocation `json:"locations"`
 	RelatedLocations []sarifLocation `json:"relatedLocations,omitempty"`
+	// PartialFingerprints (§3.27.17) name the finding without its line,
+	// so that code-scanning services keep one alert across line moves.
+	PartialFingerprints map[string]string `json:"partialFingerprints,omitempty"`
+	// BaselineState (§3.27.24) is set in a comparison of two revisions.
+	BaselineState string `json:"baselineState,omitempty"`
 }
 
 type sarifLocation struct {
@@ -137,9 +142,13 @@ func writeSARIF(w io.Writer, r *Report, opt Options) error {
 	}
 	cols := newColumns(r.Source)
 	run := sarifRun{Tool: sarifTool{Driver: driver}, ColumnKind: "unicodeCodePoints", Results: []sarifResult{}}
-	for _, f := range r.Findings {
+	prints := Fingerprints(r.Findings, func(file string) string { return artifact(file, opt).URI })
+
+	for i, f := range r.Findings {
 		res := sarifResult{RuleID: f.Rule, Level: level(f.Severity), Message: sarifText{Text: f.Message},
-			Locations: []sarifLocation{{PhysicalLocation: physical(f.File, f.Line, f.Column, f.EndLine, f.EndColumn, opt, cols)}}}
+			Locations:           []sarifLocation{{PhysicalLocation: physical(f.File, f.Line, f.Column, f.EndLine, f.EndColumn, opt, cols)}},
+			PartialFingerprints: map[string]string{FingerprintName: prints[i]},
+			BaselineState:       f.Baseline}
 		if i, ok := index[f.Rule]; ok {
 			res.RuleIndex = &i
 		}

@@ -333,6 +333,9 @@ func checkOne(u unit, stdinSrc []byte, read reader, loader *configLoader, lim li
 	}
 	if res != nil {
 		out.findings = output.FromDiags(res.Fset, res.Diags)
+		for i := range out.findings {
+			out.findings[i].Design = u.name
+		}
 		if s := res.Solved; s != nil && s.Skipped != nil {
 			out.note = fmt.Sprintf("nodal: %s: note: the DC operating point was not solved, so the rating rules did not run: %v", u.name, s.Skipped)
 		}
