@@ -43,6 +43,15 @@ var kinds = [numKinds]KindInfo{
 	Wire:          {"wire", [2]string{"a", "b"}, units.None, []units.Dim{units.Current}, nil},
 }
 
+// Kinds lists every built-in kind, in a fixed order.
+func Kinds() []Kind {
+	out := make([]Kind, numKinds)
+	for k := range out {
+		out[k] = Kind(k)
+	}
+	return out
+}
+
 // Info returns how k is written.
 func (k Kind) Info() *KindInfo { return &kinds[k] }
 

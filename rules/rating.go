@@ -4,9 +4,6 @@ package rules
 // ratings written on each part.
 
 import (
-	"fmt"
-	"math"
-
 	"nodal/circuit"
 	"nodal/diag"
 	"nodal/units"
@@ -97,66 +94,10 @@ func (d Derating) limit(k circuit.Kind, what string) float64 {
 	return 0
 }
 
-// Use is how much of one rating a part uses at the operating point.
-type Use struct {
-	What   string    // "power", "current", "voltage" or "reverse voltage"
-	Dim    units.Dim // of Value and Rating
-	Value  float64   // the magnitude the rating limits
-	Rating float64
-	Frac   float64 // Value / Rating
-}
-
-// Uses lists every rating of p with the use the operating point (v, i,
-// pw: the part's voltage, current and power) makes of it. A part with no
-// rating has none. A fuse's value is its rated current.
-func Uses(p *circuit.Part, v, i, pw float64) []Use {
-	var out []Use
-	add := func(what string, d units.Dim, val, rating float64) {
-		if rating > 0 {
-			out = append(out, Use{What: what, Dim: d, Value: val, Rating: rating, Frac: val / rating})
-		}
-	}
-	switch p.Kind {
-	case circuit.Diode, circuit.LED:
-		add("current", units.Current, math.Max(i, 0), p.RatedCurrent)
-		add("reverse voltage", units.Voltage, math.Max(-v, 0), p.RatedVoltage)
-		add("power", units.Power, math.Abs(pw), p.RatedPower)
-		return out
-	case circuit.Fuse:
-		add("current", units.Current, math.Abs(i), p.Value)
-	}
-	add("power", units.Power, math.Abs(pw), p.RatedPower)
-	add("current", units.Current, math.Abs(i), p.RatedCurrent)
-	add("voltage", units.Voltage, math.Abs(v), p.RatedVoltage)
-	return out
-}
-
-// overLimit is the use above which a rating counts as exceeded; the
-// margin keeps a part sized exactly at its rating from firing on rounding.
-const overLimit = 1 + 1e-9
-
-// describe says what a use is, e.g. "R3 dissipates 312 mW, 125 % of its
-// 250 mW rating".
-func describeUse(p *circuit.Part, u Use) string {
-	val, rating, frac := units.Format(u.Value, u.Dim), units.Format(u.Rating, u.Dim), units.FormatPercent(u.Frac)
-	switch {
-	case u.What == "power":
-		return fmt.Sprintf("%s dissipates %s, %s of its %s rating", p.Name, val, frac, rating)
-	case u.What == "reverse voltage":
-		return fmt.Sprintf("%s is reverse-biased by %s, %s of its %s reverse rating", p.Name, val, frac, rating)
-	case u.What == "current" && p.Kind == circuit.VoltageSource:
-		return fmt.Sprintf("%s is asked for %s, %s of its %s rating", p.Name, val, frac, rating)
-	case u.What == "current":
-		return fmt.Sprintf("%s carries %s, %s of its %s rating", p.Name, val, frac, rating)
-	case p.Kind == circuit.CurrentSource:
-		return fmt.Sprintf("%s must develop %s, %s of its %s compliance voltage", p.Name, val, frac, rating)
-	}
-	return fmt.Sprintf("%s has %s across it, %s of its %s rating", p.Name, val, frac, rating)
-}
-
-// ratingRule makes a rule that reports uses of a rating above 1 for the
-// given kinds.
-func ratingRule(name, what, doc string, kinds ...circuit.Kind) *Analyzer {
+// ratingRule makes a rule that reports every use of a rating named what
+// (Use.What) past the rating, on any kind: a rating the language accepts
+// is always judged.
+func ratingRule(name, what, doc string) *Analyzer {
 	return &Analyzer{
 		Name:     name,
 		Severity: diag.Error,
@@ -167,15 +108,12 @@ func ratingRule(name, what, doc string, kinds ...circuit.Kind) *Analyzer {
 			if r == nil {
 				return nil, nil
 			}
-			d := p.Design
+			d, pt := p.Design, NewPoint(r)
 			for i := range d.Parts {
 				q := &d.Parts[i]
-				if !hasKind(kinds, q.Kind) {
-					continue
-				}
-				for _, u := range Uses(q, r.V[i], r.I[i], r.P[i]) {
-					if u.What == what && u.Frac > overLimit {
-						p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: q.Name, Message: describeUse(q, u)})
+				for _, u := range Judge(q, pt.Part(circuit.PartID(i)), p.Config.Derating) {
+					if u.What == what && u.Over() {
+						p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: q.Name, Message: Describe(q, u)})
 					}
 				}
 			}
@@ -184,42 +122,31 @@ func ratingRule(name, what, doc string, kinds ...circuit.Kind) *Analyzer {
 	}
 }
 
-func hasKind(ks []circuit.Kind, k circuit.Kind) bool {
-	for _, x := range ks {
-		if x == k {
-			return true
-		}
-	}
-	return false
-}
-
 // OverPower reports parts dissipating more than their rated power.
 var OverPower = ratingRule("over-power", "power", `a part dissipates more than its rated power
-Resistors, diodes and LEDs with a power rating are compared with the power
-they absorb at the DC operating point. A part past its power rating
-overheats: it can char its board, burn, or fail open or short.`,
-	circuit.Resistor, circuit.Diode, circuit.LED)
+Every part with a power rating (resistors, diodes, LEDs) is compared with
+the power it absorbs at the DC operating point. A part past its power
+rating overheats: it can char its board, burn, or fail open or short.`)
 
 // OverCurrent reports parts carrying more than their rated current.
 var OverCurrent = ratingRule("over-current", "current", `a part carries more than its rated current
-LEDs and diodes (forward current), inductors, fuses (their value is their
-rated current), wires and switches with a current rating, and voltage
-sources asked for more than their rated current. Past its current rating a
-part overheats; a fuse may open.`,
-	circuit.LED, circuit.Diode, circuit.Inductor, circuit.Fuse, circuit.Wire, circuit.Switch, circuit.VoltageSource)
+Every part with a current rating: LEDs and diodes (forward current),
+inductors, fuses (their value is their rated current), wires and switches,
+and voltage sources asked for more than their rated current. Past its
+current rating a part overheats; a fuse may open.`)
 
 // OverVoltage reports parts with more than their rated voltage across them.
 var OverVoltage = ratingRule("over-voltage", "voltage", `a part has more than its rated voltage across it
-Capacitors and resistors with a voltage rating, and current sources beyond
-their compliance voltage (rated V on a current source).`,
-	circuit.Capacitor, circuit.Resistor, circuit.CurrentSource)
+Every part with a voltage rating: capacitors, resistors, fuses, switches
+(open or closed), and current sources beyond their compliance voltage
+(rated V on a current source). A diode's or LED's rated voltage is its
+reverse rating, judged by reverse-voltage.`)
 
 // ReverseVoltage reports diodes and LEDs reverse-biased beyond their
 // rated voltage.
 var ReverseVoltage = ratingRule("reverse-voltage", "reverse voltage", `a diode or LED is reverse-biased beyond its rated voltage
 The rated voltage of a diode or LED is its reverse rating: the most it may
-see from cathode to anode.`,
-	circuit.Diode, circuit.LED)
+see from cathode to anode.`)
 
 // NearRating warns when a part is within its rating but past the usual
 // derating limit.
@@ -236,13 +163,12 @@ current 80 %, fuse current 75 %, supply current 90 %.`,
 		if r == nil {
 			return nil, nil
 		}
-		d := p.Design
+		d, pt := p.Design, NewPoint(r)
 		for i := range d.Parts {
 			q := &d.Parts[i]
-			for _, u := range Uses(q, r.V[i], r.I[i], r.P[i]) {
-				lim := p.Config.Derating.limit(q.Kind, u.What)
-				if lim > 0 && u.Frac > lim*overLimit && u.Frac <= overLimit { // a part exactly at the limit is not past it
-					p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: q.Name, Message: describeUse(q, u) + ", past the " + units.FormatPercent(lim) + " derating limit"})
+			for _, u := range Judge(q, pt.Part(circuit.PartID(i)), p.Config.Derating) {
+				if u.Derated() {
+					p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: q.Name, Message: Describe(q, u) + ", past the " + units.FormatPercent(u.Limit) + " derating limit"})
 				}
 			}
 		}

@@ -12,7 +12,7 @@
 // # Use of a rating
 //
 // Every rating written on a part is compared with the operating point the
-// way the rating rules compare it (rules.Uses): a resistor's power, an
+// way the rating rules compare it, by the same function (rules.Judge): a resistor's power, an
 // LED's forward current and reverse voltage, a capacitor's voltage, a
 // fuse's current against its value. A part's use is the largest of those
 // fractions; parts are listed worst first, and parts with no rating last,
@@ -27,7 +27,6 @@ import (
 	"nodal/circuit"
 	"nodal/rules"
 	"nodal/solve"
-	"nodal/units"
 )
 
 // Net is one net's solved voltage (volts, against the design's ground).
@@ -37,17 +36,9 @@ type Net struct {
 }
 
 // Rating is one rating of a part and the use the operating point makes of
-// it.
-type Rating struct {
-	What   string    // "power", "current", "voltage" or "reverse voltage"
-	Dim    units.Dim // of Value and Rating
-	Value  float64   // the magnitude the rating limits
-	Rating float64
-	Use    float64 // Value / Rating
-	// Limit is the derating limit of this rating (a fraction), or 0 when
-	// none applies.
-	Limit float64
-}
+// it, as the rating rules judge it (rules.Judge): Frac is Value / Rating,
+// Limit the derating limit.
+type Rating = rules.Use
 
 // Part is one part at the operating point.
 type Part struct {
@@ -68,7 +59,7 @@ func (p *Part) Use() (float64, bool) {
 	if p.Worst < 0 {
 		return 0, false
 	}
-	return p.Ratings[p.Worst].Use, true
+	return p.Ratings[p.Worst].Frac, true
 }
 
 // Level says how close a use is to its rating.
@@ -81,10 +72,6 @@ const (
 	Over                 // past the rating
 )
 
-// overLimit matches the rating rules: a part sized exactly at its rating
-// (or exactly at its derating limit) is not past it.
-const overLimit = 1 + 1e-9
-
 // Level returns how close the part's worst rating is to being exceeded.
 // The derating limit of every rating counts, not only the worst one's.
 func (p *Part) Level() Level {
@@ -94,9 +81,9 @@ func (p *Part) Level() Level {
 	lv := Within
 	for _, r := range p.Ratings {
 		switch {
-		case r.Use > overLimit:
+		case r.Over():
 			return Over
-		case r.Limit > 0 && r.Use > r.Limit*overLimit:
+		case r.Derated():
 			lv = Derated
 		}
 	}
@@ -121,18 +108,12 @@ type Table struct {
 // limits the colours of the text form follow.
 func New(file string, d *circuit.Design, r *solve.Result, der rules.Derating) *Table {
 	t := &Table{File: file, Design: d.Name, Title: d.Title, Temperature: solve.RoomTemperature}
-	var vs, is float64 // the largest voltage and current
-	for _, v := range r.NetV {
-		vs = math.Max(vs, math.Abs(v))
-	}
-	for i := range d.Parts {
-		is = math.Max(is, math.Abs(r.I[i]))
-	}
+	pt := rules.NewPoint(r)
 	for i := range d.Nets {
 		if d.Nets[i].Pins == 0 {
 			continue // declared but never used: it has no voltage
 		}
-		t.Nets = append(t.Nets, Net{Name: d.Nets[i].Name, Voltage: clean(r.NetV[i], vs, floorV)})
+		t.Nets = append(t.Nets, Net{Name: d.Nets[i].Name, Voltage: pt.Net(circuit.NetID(i))})
 	}
 	t.Undriven = true
 	t.Parts = make([]Part, len(d.Parts))
@@ -141,16 +122,11 @@ func New(file string, d *circuit.Design, r *solve.Result, der rules.Derating) *T
 		if (q.Kind == circuit.VoltageSource || q.Kind == circuit.CurrentSource) && q.Value != 0 {
 			t.Undriven = false
 		}
-		v, c := clean(r.V[i], vs, floorV), clean(r.I[i], is, floorI)
-		pw := v * c
-		p := Part{Name: q.Name, Kind: q.Kind, Voltage: v, Current: c, Power: pw, Worst: -1}
-		for _, u := range rules.Uses(q, v, c, pw) {
-			p.Ratings = append(p.Ratings, Rating{What: u.What, Dim: u.Dim, Value: u.Value, Rating: u.Rating,
-				Use: u.Frac, Limit: der.Limit(q.Kind, u.What)})
-			if p.Worst < 0 || u.Frac > p.Ratings[p.Worst].Use {
-				p.Worst = len(p.Ratings) - 1
-			}
-		}
+		// The values the rating rules judge, by the same function.
+		qs := pt.Part(circuit.PartID(i))
+		p := Part{Name: q.Name, Kind: q.Kind, Voltage: qs.V, Current: qs.I, Power: qs.P}
+		p.Ratings = rules.Judge(q, qs, der)
+		p.Worst = rules.Worst(p.Ratings)
 		t.Parts[i] = p
 	}
 	sort.SliceStable(t.Parts, func(a, b int) bool {
@@ -162,26 +138,6 @@ func New(file string, d *circuit.Design, r *solve.Result, der rules.Derating) *T
 		return ua > ub
 	})
 	return t
-}
-
-// Below these a voltage or current is shown as 0: a picovolt, and a
-// femtoampere (the leakage of a reverse-biased junction, 1 pS per volt, is
-// well above it).
-const (
-	floorV = 1e-12
-	floorI = 1e-15
-)
-
-// clean returns 0 for a value that is rounding noise: below floor, or below
-// 1e-13 of the largest value of its kind in the design (scale), such as a
-// current of 1e-19 A through a wire that carries nothing in a design whose
-// largest current is 1 A. The solver's self-checks hold currents to 1e-9 of
-// the largest, so 1e-13 is well below anything it resolves.
-func clean(v, scale, floor float64) float64 {
-	if math.Abs(v) <= math.Max(1e-13*scale, floor) || v == 0 {
-		return 0 // also turns −0 into 0
-	}
-	return v
 }
 
 // round keeps ten significant figures, far more than any part's tolerance,

@@ -9,6 +9,7 @@ import (
 
 	"github.com/fatih/color"
 
+	"nodal/rules"
 	"nodal/units"
 )
 
@@ -24,7 +25,7 @@ func Bar(use float64) string {
 	if !(use > 0) {
 		return ""
 	}
-	over := use > overLimit
+	over := rules.Use{Frac: use}.Over()
 	if use > 1 {
 		use = 1
 	}
@@ -86,7 +87,7 @@ func (t *Table) WriteText(w io.Writer, opt TextOptions) error {
 			if r.What == "reverse voltage" {
 				rating += " reverse"
 			}
-			use, bar = units.FormatPercent(u), Bar(u)
+			use, bar = rules.FormatUse(u, r.Limit), Bar(u)
 		}
 		lv := p.Level()
 		over = over || lv == Over

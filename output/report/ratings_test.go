@@ -1,0 +1,157 @@
+package report_test
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+	"testing"
+
+	"nodal/check"
+	"nodal/circuit"
+	"nodal/output/report"
+	"nodal/rules"
+	"nodal/units"
+)
+
+// harness is a 10 V supply behind 1 kΩ into net a; the part under test
+// sits between a and gnd, one way round or the other, so that it has a
+// voltage across it, a current through it, or both.
+const harness = "ground gnd\nsource VH (top, gnd) 10 V\nresistor RH (top, a) 1 kΩ\n"
+
+// forms holds, for every kind, statements of a part X with its pins as %s
+// and %s. A kind without an entry fails TestEveryRatingJudged, so a new
+// kind is covered as soon as it is added to the kind table.
+var forms = map[circuit.Kind][]string{
+	circuit.Resistor:      {"resistor X (%s, %s) 1 kΩ"},
+	circuit.Capacitor:     {"capacitor X (%s, %s) 1 µF"},
+	circuit.Inductor:      {"inductor X (%s, %s) 1 mH dcr 2 Ω", "inductor X (%s, %s) 1 mH"},
+	circuit.VoltageSource: {"source X (%s, %s) 4 V"},
+	circuit.CurrentSource: {"source X (%s, %s) 1 mA"},
+	circuit.Diode:         {"diode X (%s, %s) vf 0.7 V at 10 mA"},
+	circuit.LED:           {"led X (%s, %s) vf 2.0 V at 10 mA"},
+	circuit.Fuse:          {"fuse X (%s, %s) 500 mA dcr 100 mΩ", "fuse X (%s, %s) 500 mA"},
+	circuit.Switch:        {"switch X (%s, %s) open", "switch X (%s, %s) closed"},
+	circuit.Wire:          {"wire X (%s, %s)"},
+}
+
+// ratingRules are the rules that judge a use past its rating.
+var ratingRules = map[string]bool{"over-power": true, "over-current": true, "over-voltage": true, "reverse-voltage": true}
+
+// measure is what a rating in dimension dim limits on a part of kind k,
+// as docs/language.md defines "rated": a diode's or LED's rated current is
+// its forward current and its rated voltage its reverse voltage; every
+// other rating limits the magnitude.
+func measure(k circuit.Kind, dim units.Dim, q rules.Quantities) float64 {
+	junction := k == circuit.Diode || k == circuit.LED
+	switch {
+	case dim == units.Power:
+		return math.Abs(q.P)
+	case dim == units.Current && junction:
+		return math.Max(q.I, 0)
+	case dim == units.Current:
+		return math.Abs(q.I)
+	case dim == units.Voltage && junction:
+		return math.Max(-q.V, 0)
+	}
+	return math.Abs(q.V)
+}
+
+// TestEveryRatingJudged enumerates every kind and every unit "rated"
+// accepts on it, from the kind table, and requires a finding from a rating
+// rule just over the rating (by one part in a million) and none just
+// under it; nodal report must judge the same part the same way.
+func TestEveryRatingJudged(t *testing.T) {
+	for _, k := range circuit.Kinds() {
+		fs, ok := forms[k]
+		if !ok {
+			t.Errorf("kind %s has no statement in forms: add one", k)
+			continue
+		}
+		for _, dim := range k.Info().Ratings {
+			seen := false // some form and orientation gives the quantity
+			for _, form := range fs {
+				for _, pins := range [][2]string{{"a", "gnd"}, {"gnd", "a"}} {
+					stmt := fmt.Sprintf(form, pins[0], pins[1])
+					q := quantities(t, harness+stmt+"\n")
+					m := measure(k, dim, q)
+					if !(m > 0) {
+						continue
+					}
+					seen = true
+					for _, c := range []struct {
+						scale float64
+						over  bool
+					}{{1 - 1e-6, true}, {1 + 1e-6, false}} {
+						rating := strconv.FormatFloat(m*c.scale, 'e', 12, 64) + " " + dim.Symbol()
+						src := harness + stmt + " rated " + rating + "\n"
+						found, level := judge(t, src)
+						if found != c.over {
+							t.Errorf("%s rated %s with %s: rating finding %v, want %v\n%s", stmt, rating, units.Format(m, dim), found, c.over, src)
+						}
+						if (level == report.Over) != c.over {
+							t.Errorf("%s rated %s: report level %d, check says over=%v", stmt, rating, level, found)
+						}
+					}
+				}
+			}
+			if !seen {
+				t.Errorf("kind %s, rated %s: no form puts a %s on it; add one to forms", k, dim.Symbol(), dim.Noun())
+			}
+		}
+	}
+}
+
+// quantities checks src and returns part X's quantities, as the rules see
+// them.
+func quantities(t *testing.T, src string) rules.Quantities {
+	t.Helper()
+	res, err := check.Source("t.nodal", []byte(src), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.Solved == nil || res.Solved.OP == nil {
+		t.Fatalf("no operating point for\n%s%v", src, res.Diags)
+	}
+	pt := rules.NewPoint(res.Solved.OP)
+	for i, p := range res.Build.Design.Parts {
+		if p.Name == "X" {
+			return pt.Part(circuit.PartID(i))
+		}
+	}
+	t.Fatalf("no part X in\n%s", src)
+	return rules.Quantities{}
+}
+
+// judge checks src and returns whether a rating rule fired on line 4 (the
+// part under test) and the level nodal report gives part X.
+func judge(t *testing.T, src string) (bool, report.Level) {
+	t.Helper()
+	res, err := check.Source("t.nodal", []byte(src), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	found := false
+	for _, d := range res.Diags {
+		if ratingRules[d.Rule] {
+			if pos := res.Fset.Position(d.Pos); pos.Line != 4 {
+				t.Errorf("%s finding on line %d, not the part's: %s", d.Rule, pos.Line, d.Message)
+			}
+			if !strings.HasPrefix(d.Message, "X ") {
+				t.Errorf("finding does not name X: %s", d.Message)
+			}
+			found = true
+		}
+	}
+	if res.Solved == nil || res.Solved.OP == nil {
+		t.Fatalf("no operating point for\n%s", src)
+	}
+	tb := report.New("t.nodal", res.Build.Design, res.Solved.OP, rules.DefaultDerating())
+	for i := range tb.Parts {
+		if tb.Parts[i].Name == "X" {
+			return found, tb.Parts[i].Level()
+		}
+	}
+	t.Fatal("no part X in the report")
+	return found, 0
+}

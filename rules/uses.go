@@ -1,0 +1,202 @@
+package rules
+
+// uses.go: the one place that judges a part's operating point against its
+// ratings. The rating rules, near-rating and "nodal report" all read it.
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+
+	"nodal/circuit"
+	"nodal/solve"
+	"nodal/units"
+)
+
+// Quantities are one part's values at an operating point, in package
+// solve's sign convention: V is V(first pin) − V(second pin), I flows from
+// the first pin to the second through the part, P is positive when
+// absorbed.
+type Quantities struct {
+	V, I, P float64
+	// Uncertified says that the solver could not certify the accuracy of
+	// these values; every use judged from them says so.
+	Uncertified bool
+}
+
+// Point reads parts' quantities from a solved operating point, with
+// rounding noise cleared, so that the rules and the report judge and show
+// the same values.
+type Point struct {
+	r      *solve.Result
+	vs, is float64 // the largest voltage and current in the design
+}
+
+// NewPoint prepares to read r.
+func NewPoint(r *solve.Result) *Point {
+	pt := &Point{r: r}
+	for _, v := range r.NetV {
+		pt.vs = math.Max(pt.vs, math.Abs(v))
+	}
+	for _, c := range r.I {
+		pt.is = math.Max(pt.is, math.Abs(c))
+	}
+	return pt
+}
+
+// Part returns part i's quantities. A voltage or current that is rounding
+// noise reads 0 (see Clean); the power is the product of the two.
+func (pt *Point) Part(i circuit.PartID) Quantities {
+	v, c := Clean(pt.r.V[i], pt.vs, FloorV), Clean(pt.r.I[i], pt.is, FloorI)
+	return Quantities{V: v, I: c, P: v * c}
+}
+
+// Net returns net n's voltage, cleaned as Part cleans a part's.
+func (pt *Point) Net(n circuit.NetID) float64 { return Clean(pt.r.NetV[n], pt.vs, FloorV) }
+
+// Below these a voltage or current reads 0: a picovolt, and a femtoampere
+// (the leakage of a reverse-biased junction, 1 pS per volt, is well above
+// it).
+const (
+	FloorV = 1e-12
+	FloorI = 1e-15
+)
+
+// Clean returns 0 for a value that is rounding noise: below floor, or below
+// 1e-13 of the largest value of its kind in the design (scale), such as a
+// current of 1e-19 A through a wire that carries nothing in a design whose
+// largest current is 1 A. The solver's self-checks hold currents to 1e-9 of
+// the largest, so 1e-13 is well below anything it resolves.
+func Clean(v, scale, floor float64) float64 {
+	if math.Abs(v) <= math.Max(1e-13*scale, floor) || v == 0 {
+		return 0 // also turns −0 into 0
+	}
+	return v
+}
+
+// Use is how much of one rating a part uses at an operating point.
+type Use struct {
+	What   string    // "power", "current", "voltage" or "reverse voltage"
+	Dim    units.Dim // of Value and Rating
+	Value  float64   // the magnitude the rating limits
+	Rating float64
+	Frac   float64 // Value / Rating
+	// Limit is the derating limit of this rating (a fraction of it), or
+	// 0 when none applies.
+	Limit float64
+	// Uncertified is copied from the quantities the use was judged on.
+	Uncertified bool
+}
+
+// overLimit is the use above which a rating counts as exceeded; the
+// margin keeps a part sized exactly at its rating (or at its derating
+// limit) from firing on rounding.
+const overLimit = 1 + 1e-9
+
+// Over reports whether the use is past the rating.
+func (u Use) Over() bool { return u.Frac > overLimit }
+
+// Derated reports whether the use is past its derating limit but within
+// the rating.
+func (u Use) Derated() bool { return u.Limit > 0 && u.Frac > u.Limit*overLimit && !u.Over() }
+
+// Judge lists every rating written on p with the use the quantities q make
+// of it, each with the derating limit der sets for it. It is the only
+// place that decides which measure of the operating point a rating
+// limits:
+//
+//   - power: |P|, for every kind;
+//   - current: |I|, but a diode's or LED's forward current max(I, 0); a
+//     fuse's value is its rated current;
+//   - voltage: |V|, but a diode's or LED's "rated V" is its reverse rating,
+//     max(−V, 0), named "reverse voltage".
+//
+// A part with no rating has no use.
+func Judge(p *circuit.Part, q Quantities, der Derating) []Use {
+	var out []Use
+	add := func(what string, d units.Dim, val, rating float64) {
+		if rating > 0 {
+			out = append(out, Use{What: what, Dim: d, Value: val, Rating: rating, Frac: val / rating,
+				Limit: der.limit(p.Kind, what), Uncertified: q.Uncertified})
+		}
+	}
+	switch p.Kind {
+	case circuit.Diode, circuit.LED:
+		add("current", units.Current, math.Max(q.I, 0), p.RatedCurrent)
+		add("reverse voltage", units.Voltage, math.Max(-q.V, 0), p.RatedVoltage)
+		add("power", units.Power, math.Abs(q.P), p.RatedPower)
+		return out
+	case circuit.Fuse:
+		add("current", units.Current, math.Abs(q.I), p.Value)
+	}
+	add("power", units.Power, math.Abs(q.P), p.RatedPower)
+	add("current", units.Current, math.Abs(q.I), p.RatedCurrent)
+	add("voltage", units.Voltage, math.Abs(q.V), p.RatedVoltage)
+	return out
+}
+
+// Worst returns the index of the use with the largest fraction, or -1 when
+// there is none.
+func Worst(us []Use) int {
+	w := -1
+	for i, u := range us {
+		if w < 0 || u.Frac > us[w].Frac {
+			w = i
+		}
+	}
+	return w
+}
+
+// FormatUse formats a fraction of a rating as a percentage that never
+// hides which side of the rating it is on, nor that it is past limit (a
+// derating limit, or 0 for none): 1.0016 is "100.16 %", not "100 %", and
+// 0.9996 is "99.96 %". Other values get units.FormatPercent's figures.
+func FormatUse(f, limit float64) string {
+	s := units.FormatPercent(f)
+	if math.IsNaN(f) || math.IsInf(f, 0) {
+		return s
+	}
+	for digits := 1; digits <= 12 && !faithful(s, f, limit); digits++ {
+		s = strconv.FormatFloat(f*100, 'f', digits, 64) + " %"
+	}
+	return s
+}
+
+// faithful reports whether the percentage s sits on the same side of 1 as
+// f does, and past limit when f is, by the tests the rules apply.
+func faithful(s string, f, limit float64) bool {
+	p, err := strconv.ParseFloat(s[:len(s)-2], 64)
+	if err != nil {
+		return true
+	}
+	if f > overLimit && !(p > 100) || f < 1 && !(p < 100) {
+		return false
+	}
+	// Past a derating limit, the figure must be past it too.
+	return !(limit > 0 && f > limit*overLimit && !(p > limit*100))
+}
+
+// Describe says what a use is, e.g. "R3 dissipates 312 mW, 125 % of its
+// 250 mW rating".
+func Describe(p *circuit.Part, u Use) string {
+	val, rating, frac := units.Format(u.Value, u.Dim), units.Format(u.Rating, u.Dim), FormatUse(u.Frac, u.Limit)
+	var s string
+	switch {
+	case u.What == "power":
+		s = fmt.Sprintf("%s dissipates %s, %s of its %s rating", p.Name, val, frac, rating)
+	case u.What == "reverse voltage":
+		s = fmt.Sprintf("%s is reverse-biased by %s, %s of its %s reverse rating", p.Name, val, frac, rating)
+	case u.What == "current" && p.Kind == circuit.VoltageSource:
+		s = fmt.Sprintf("%s is asked for %s, %s of its %s rating", p.Name, val, frac, rating)
+	case u.What == "current":
+		s = fmt.Sprintf("%s carries %s, %s of its %s rating", p.Name, val, frac, rating)
+	case p.Kind == circuit.CurrentSource:
+		s = fmt.Sprintf("%s must develop %s, %s of its %s compliance voltage", p.Name, val, frac, rating)
+	default:
+		s = fmt.Sprintf("%s has %s across it, %s of its %s rating", p.Name, val, frac, rating)
+	}
+	if u.Uncertified {
+		s += " (the solver could not certify the accuracy of this operating point)"
+	}
+	return s
+}

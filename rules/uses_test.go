@@ -1,0 +1,40 @@
+package rules
+
+import "testing"
+
+func TestClean(t *testing.T) {
+	if Clean(1e-19, 1, FloorI) != 0 || Clean(-1e-14, 1, FloorV) != 0 {
+		t.Error("noise kept")
+	}
+	if Clean(5e-12, 0.066, FloorI) != 5e-12 {
+		t.Error("a 5 pA leakage is not noise")
+	}
+	if v := Clean(-0.0, 1, FloorV); v != 0 || 1/v < 0 {
+		t.Error("−0 kept")
+	}
+}
+
+// TestFormatUse: a printed use never hides which side of its rating, or
+// of a derating limit it is past, the part is on.
+func TestFormatUse(t *testing.T) {
+	cases := []struct {
+		f, limit float64
+		want     string
+	}{
+		{1.0016, 0, "100.2 %"}, // over: not "100 %"
+		{1.000004, 0, "100.0004 %"},
+		{0.9996, 0, "99.96 %"},   // within: not "100 %"
+		{1, 0, "100 %"},          // exactly at the rating
+		{1 + 1e-10, 0, "100 %"},  // within the rules' rounding margin: not over
+		{1.25, 0, "125 %"},       // far from 100 %: the usual figures
+		{0.597, 0.6, "60 %"},     // under a derating limit: the usual figures
+		{0.6004, 0.6, "60.04 %"}, // past the limit: shown past it
+		{0.724, 0.6, "72 %"},
+		{0.005, 0, "0.5 %"},
+	}
+	for _, c := range cases {
+		if got := FormatUse(c.f, c.limit); got != c.want {
+			t.Errorf("FormatUse(%v, %v) = %q, want %q", c.f, c.limit, got, c.want)
+		}
+	}
+}
