@@ -11,7 +11,7 @@ import (
 func hierDesign(rows int) []byte {
 	var b strings.Builder
 	b.WriteString(`block ch (s, k) [i = 10 mA] {
-  resistor R (s, a) {(12 V - 2 V) / i} rated 250 mW
+  resistor R (s, a) ((12 V - 2 V) / i) rated 250 mW
   led      D (a, m) vf 2.0 V at 20 mA
   resistor S (m, k) 10 Ω
   capacitor C (a, k) 100 nF
@@ -19,7 +19,7 @@ func hierDesign(rows int) []byte {
 block row (s, k) [i = 10 mA] {
 `)
 	for i := 0; i < 10; i++ {
-		fmt.Fprintf(&b, "  ch C%d (s, k) [i = {i + %d mA}]\n", i, i)
+		fmt.Fprintf(&b, "  ch C%d (s, k) [i = (i + %d mA)]\n", i, i)
 	}
 	b.WriteString("}\nground gnd\nsource V (vin, gnd) 12 V\n")
 	for r := 0; r < rows; r++ {

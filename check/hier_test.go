@@ -334,14 +334,14 @@ func TestLibraryAlone(t *testing.T) {
 		t.Errorf("a library of blocks needs no ground and should be clean:\n%s", strings.Join(lines(r), "\n"))
 	}
 	// An error inside an unused block is still found, once.
-	r = checkMem(t, map[string]string{"lib.nodal": "block a (p, n) [r = 1 kΩ] {\n  capacitor C (p, n) {r}\n}\n"}, "lib.nodal", nil)
-	wantOne(t, r, "param-unit", "{r}", "capacitance")
+	r = checkMem(t, map[string]string{"lib.nodal": "block a (p, n) [r = 1 kΩ] {\n  capacitor C (p, n) r\n}\n"}, "lib.nodal", nil)
+	wantOne(t, r, "param-unit", "(r = 1.00 kΩ)", "capacitance")
 }
 
 func TestBlockRules(t *testing.T) {
 	const lib = `block divider (top, tap, bottom) [rtop = 10 kΩ, rbot] {
-  resistor RT (top, tap)    {rtop}
-  resistor RB (tap, bottom) {rbot}
+  resistor RT (top, tap)    rtop
+  resistor RB (tap, bottom) rbot
 }
 `
 	cases := []struct {
@@ -356,8 +356,8 @@ func TestBlockRules(t *testing.T) {
 		{"unknown param", "divider D (a, b, gnd) [rbot = 1 kΩ, rtp = 1 kΩ]\n", "unknown-param", []string{"no parameter rtp", "did you mean rtop?"}, 6},
 		{"missing param", "divider D (a, b, gnd)\n", "missing-param", []string{"needs parameter rbot", "no default"}, 6},
 		{"param unit", "divider D (a, b, gnd) [rbot = 1 kΩ, rtop = 5 V]\n", "param-unit", []string{"rtop", "is given 5 V, a voltage"}, 6},
-		{"param unit in expression", "divider D (a, b, gnd) [rbot = {1 kΩ + 1 mA}]\n", "param-unit", []string{"cannot add a resistance (1.00 kΩ) and a current (1.00 mA)"}, 6},
-		{"division by zero", "divider D (a, b, gnd) [rbot = {1 V / (2 mA - 2 mA)}]\n", "bad-value", []string{"division by zero"}, 6},
+		{"param unit in expression", "divider D (a, b, gnd) [rbot = (1 kΩ + 1 mA)]\n", "param-unit", []string{"cannot add a resistance (1.00 kΩ) and a current (1.00 mA)"}, 6},
+		{"division by zero", "divider D (a, b, gnd) [rbot = (1 V / (2 mA - 2 mA))]\n", "bad-value", []string{"division by zero"}, 6},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -373,7 +373,7 @@ func TestBlockRules(t *testing.T) {
 		})
 	}
 	// Near miss: a correct instance is clean.
-	r := checkMem(t, map[string]string{"t.nodal": lib + "ground gnd\ndivider D (a, b, gnd) [rbot = {2 * 2.2 kΩ}]\nsource V (a, gnd) 1 V\nresistor L (b, gnd) 1 kΩ\n"}, "t.nodal", nil)
+	r := checkMem(t, map[string]string{"t.nodal": lib + "ground gnd\ndivider D (a, b, gnd) [rbot = (2 * 2.2 kΩ)]\nsource V (a, gnd) 1 V\nresistor L (b, gnd) 1 kΩ\n"}, "t.nodal", nil)
 	if len(r.Diags) != 0 {
 		t.Errorf("want clean:\n%s", strings.Join(lines(r), "\n"))
 	}
@@ -384,14 +384,14 @@ func TestBlockRules(t *testing.T) {
 
 func TestResultOfWrongUnit(t *testing.T) {
 	src := `block chan (s, k) [r = 10 kΩ, i = 2 mA] {
-  resistor R (s, k) {r / i}
+  resistor R (s, k) (r / i)
 }
 ground gnd
 source V (s, gnd) 1 V
 chan C (s, gnd)
 `
 	r := checkMem(t, map[string]string{"t.nodal": src}, "t.nodal", nil)
-	d := wantOne(t, r, "param-unit", "C.R", "{r / i}", "V/A²")
+	d := wantOne(t, r, "param-unit", "C.R", "(r / i)", "V/A²")
 	if r.Fset.Position(d.Pos).Line != 2 || len(d.Related) != 1 {
 		t.Errorf("at %s related %v", r.Fset.Position(d.Pos), d.Related)
 	}
@@ -525,13 +525,13 @@ func TestUnusedBlock(t *testing.T) {
 
 func TestMergedAcrossInstances(t *testing.T) {
 	src := `block ch (s, k) [r = 1 kΩ] {
-  resistor R (s, k) {r}
+  resistor R (s, k) r
 }
 ground gnd
 source V (s, gnd) 1 V
-ch A (s, gnd) [r = {0 * 1 kΩ}]
-ch B (s, gnd) [r = {0 * 2 kΩ}]
-ch C (s, gnd) [r = {0 * 3 kΩ}]
+ch A (s, gnd) [r = (0 * 1 kΩ)]
+ch B (s, gnd) [r = (0 * 2 kΩ)]
+ch C (s, gnd) [r = (0 * 3 kΩ)]
 `
 	r := checkMem(t, map[string]string{"t.nodal": src}, "t.nodal", nil)
 	d := wantOne(t, r, "bad-value", "A.R is 0 Ω", "and in 2 more instances")
@@ -541,12 +541,12 @@ ch C (s, gnd) [r = {0 * 3 kΩ}]
 }
 
 func TestTopLevelExpression(t *testing.T) {
-	src := "ground gnd\nsource V (v, gnd) 1 V\nresistor R (v, gnd) {2 * 4.7 kΩ}\nresistor Q (v, gnd) {x}\n"
+	src := "ground gnd\nsource V (v, gnd) 1 V\nresistor R (v, gnd) (2 * 4.7 kΩ)\nresistor Q (v, gnd) x\n"
 	r := checkMem(t, map[string]string{"t.nodal": src}, "t.nodal", nil)
 	if got := r.Build.Design.Parts[1].Value; got != 9400 {
 		t.Errorf("R = %g, want 9400", got)
 	}
-	wantOne(t, r, "unknown-param", "{x}: no parameter named x", "only a block's statements")
+	wantOne(t, r, "unknown-param", "no parameter named x", "only a block's statements")
 }
 
 func TestBlockSyntaxErrors(t *testing.T) {

@@ -352,10 +352,72 @@ func TestSyntaxErrorKeepsTheRest(t *testing.T) {
 }
 
 func TestReservedWords(t *testing.T) {
-	for _, w := range []string{"block", "include", "param", "design", "ground", "port"} {
+	for _, w := range []string{"block", "include", "design", "ground", "port"} {
 		res := run(t, "ground gnd\nsource V1 (a, gnd) 1 V\nresistor "+w+" (a, gnd) 1 kΩ\n")
 		if len(res.Diags) == 0 {
 			t.Errorf("%s accepted as a part name", w)
+		}
+	}
+	// param is no statement word: it is a name like any other.
+	if res := run(t, "ground gnd\nsource V1 (a, gnd) 1 V\nresistor param (a, gnd) 1 kΩ\n"); len(res.Diags) != 0 {
+		t.Errorf("param refused as a part name: %v", lines(res))
+	}
+}
+
+// Values in a block: a lone parameter name, an expression in parentheses,
+// in the part's value, an attribute, an instance's parameter and a
+// header's default. The numbers follow from Ohm's law, R = V / I (Ohm,
+// Die galvanische Kette, mathematisch bearbeitet, 1827).
+func TestParameterNotation(t *testing.T) {
+	src := `block led_channel (supply, sink) [vs = 12 V, i = 10 mA, vdrop = 2.0 V, p = (2 * 250 mW)] {
+  resistor R (supply, a) ((vs - vdrop) / i)  rated p
+  led      D (a, sink)   vf vdrop at 20 mA  rated 30 mA
+}
+ground gnd
+source      V  (vin, gnd) 9 V
+led_channel C1 (vin, gnd) [vs = 9 V, i = (10 mA / 2)]
+resistor    R9 (vin, gnd) (2 * 4.7 kΩ)
+`
+	res := run(t, src)
+	if len(res.Diags) != 0 {
+		t.Fatalf("findings on a valid design: %v", lines(res))
+	}
+	want := map[string]float64{"C1.R": (9 - 2.0) / 5e-3, "R9": 9400}
+	for name, v := range want {
+		if p := part(t, res.Build.Design, name); math.Abs(p.Value-v) > 1e-9*v {
+			t.Errorf("%s = %g Ω, want %g Ω", name, p.Value, v)
+		}
+	}
+	if p := part(t, res.Build.Design, "C1.R"); math.Abs(p.RatedPower-0.5) > 1e-12 {
+		t.Errorf("C1.R rated %g W, want 0.5 W", p.RatedPower)
+	}
+	if p := part(t, res.Build.Design, "C1.D"); math.Abs(p.VF-2.0) > 1e-12 {
+		t.Errorf("C1.D vf %g V, want 2.0 V", p.VF)
+	}
+}
+
+// The braces of another notation are refused where a value goes, and the
+// message shows the value written the language's way; an attribute word,
+// a unit or a keyword cannot name a parameter.
+func TestParameterNotationMistakes(t *testing.T) {
+	cases := []struct{ src, want string }{
+		{"block b (p, n) [r = 1 kΩ] {\n  resistor R (p, n) {r}\n}\n",
+			`2:21: error: braces do not hold values: write r; a quantity or a lone parameter stands as it is, and an expression is written in parentheses [syntax]`},
+		{"block b (p, n) [r = 1 kΩ] {\n  resistor R (p, n) {2 * r} tol 1%\n}\n",
+			`2:21: error: braces do not hold values: write (2 * r); a quantity or a lone parameter stands as it is`},
+		{"block b (p, n) [r = {1 kΩ}] {\n  resistor R (p, n) r\n}\n",
+			`1:21: error: braces do not hold values: write 1 kΩ`},
+		{"block b (p, n) [vf = 2 V] {\n  resistor R (p, n) 1 kΩ\n}\n",
+			`1:17: error: parameter vf of block b: vf is an attribute word, so it cannot stand for a value; rename it (for example vdrop) [syntax]`},
+		{"block b (p, n) [mA = 2 mA] {\n  resistor R (p, n) 1 kΩ\n}\n",
+			`1:17: error: parameter mA of block b: mA reads as a unit`},
+		{"block b (p, n) [ground = 2 V] {\n  resistor R (p, n) 1 kΩ\n}\n",
+			`1:17: error: unexpected "ground"; expected a parameter name; ground is a statement word: choose another name [syntax]`},
+	}
+	for _, c := range cases {
+		got := lines(run(t, c.src))
+		if !strings.Contains(strings.Join(got, "\n"), "t.nodal:"+c.want) {
+			t.Errorf("%q:\n  got  %s\n  want t.nodal:%s", c.src, strings.Join(got, "\n       "), c.want)
 		}
 	}
 }

@@ -392,7 +392,7 @@ func (b *builder) quantity(v *grammar.Value) (units.Quantity, error) {
 		return q, nil
 	case v.Word != "":
 		return units.Quantity{}, &units.Error{Text: v.Word, Msg: fmt.Sprintf("%q is a switch state, not a quantity", v.Word)}
-	case v.Expr != nil:
+	case v.Expr != nil, v.Param != nil:
 		return b.eval(v)
 	}
 	// Large designs repeat a few values millions of times ("10 mΩ" on
@@ -429,6 +429,9 @@ const maxQuantities = 4096
 func (b *builder) describe(v *grammar.Value) string {
 	if v.Expr != nil {
 		return b.exprText(v)
+	}
+	if v.Param != nil {
+		return v.Param.Text
 	}
 	s := v.Num
 	if v.Unit != "" {
@@ -781,7 +784,7 @@ func errRule(err error) (string, bool) {
 // value was computed by an expression, unit-mismatch when it was written.
 func (b *builder) unitRule(vs ...*grammar.Value) string {
 	for _, v := range vs {
-		if v != nil && v.Expr != nil {
+		if v != nil && (v.Expr != nil || v.Param != nil) {
 			return "param-unit"
 		}
 	}
@@ -790,8 +793,8 @@ func (b *builder) unitRule(vs ...*grammar.Value) string {
 
 // describeQ is describe, with the computed value of an expression.
 func (b *builder) describeQ(v *grammar.Value, q units.Quantity) string {
-	if v.Expr != nil {
-		return b.exprText(v) + " = " + q.String()
+	if v.Expr != nil || v.Param != nil {
+		return b.describe(v) + " = " + q.String()
 	}
 	return b.describe(v)
 }

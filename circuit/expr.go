@@ -40,6 +40,15 @@ func Eval(e *grammar.Expr, look Lookup) (units.Quantity, error) {
 	return q, nil
 }
 
+// EvalValue evaluates a value that names a parameter (rtop) or holds an
+// expression ((2 * rtop)); other values are read by the builder itself.
+func EvalValue(v *grammar.Value, look Lookup) (units.Quantity, error) {
+	if v.Param != nil {
+		return evalRef(v.Param, look)
+	}
+	return Eval(v.Expr, look)
+}
+
 func evalExpr(e *grammar.Expr, look Lookup) (units.Quantity, error) {
 	acc, err := evalTerm(e.First, look)
 	if err != nil {
@@ -118,20 +127,29 @@ func evalFactor(f *grammar.Factor, look Lookup) (units.Quantity, error) {
 	case f.Sub != nil:
 		return evalExpr(f.Sub, look)
 	case f.Param != nil:
-		name := f.Param.Text
-		if look != nil {
-			if q, ok := look(name); ok {
-				return q, nil
-			}
+		return evalRef(f.Param, look)
+	case f.Code != "":
+		q, ok := units.ParseCode(f.Code)
+		if !ok {
+			return q, &ExprError{Rule: "bad-value", Offset: f.Pos.Offset, Msg: fmt.Sprintf("%q is not a resistor code", f.Code)}
 		}
-		return units.Quantity{}, &ExprError{Rule: "unknown-param", Offset: f.Param.Pos.Offset, Name: name,
-			Msg: fmt.Sprintf("no parameter named %s", name)}
+		return q, nil
 	}
 	q, err := units.Parse(f.Num, f.Unit)
 	if err != nil {
 		return q, &ExprError{Rule: "param-unit", Offset: f.Pos.Offset, Msg: err.Error()}
 	}
 	return q, nil
+}
+
+func evalRef(r *grammar.Ref, look Lookup) (units.Quantity, error) {
+	if look != nil {
+		if q, ok := look(r.Text); ok {
+			return q, nil
+		}
+	}
+	return units.Quantity{}, &ExprError{Rule: "unknown-param", Offset: r.Pos.Offset, Name: r.Text,
+		Msg: fmt.Sprintf("no parameter named %s", r.Text)}
 }
 
 func termPos(t *grammar.Term) int { return t.First.Pos.Offset }

@@ -11,7 +11,7 @@ import (
 
 func parseExpr(t *testing.T, text string) *grammar.Expr {
 	t.Helper()
-	f := grammar.Parse("t", []byte("resistor R (a, b) {"+text+"}"))
+	f := grammar.Parse("t", []byte("resistor R (a, b) ("+text+")"))
 	if len(f.Errors) > 0 || len(f.Stmts) != 1 || f.Stmts[0].Part.Value.Expr == nil {
 		t.Fatalf("%s does not parse: %v", text, f.Errors)
 	}
@@ -20,10 +20,10 @@ func parseExpr(t *testing.T, text string) *grammar.Expr {
 
 func TestEval(t *testing.T) {
 	params := map[string]units.Quantity{
-		"vf": {Value: 2, Dim: units.Voltage},
-		"i":  {Value: 0.01, Dim: units.Current},
-		"r":  {Value: 10e3, Dim: units.Resistance},
-		"t":  {Value: 0.05, Percent: true},
+		"vdrop": {Value: 2, Dim: units.Voltage},
+		"i":     {Value: 0.01, Dim: units.Current},
+		"r":     {Value: 10e3, Dim: units.Resistance},
+		"t":     {Value: 0.05, Percent: true},
 	}
 	look := func(n string) (units.Quantity, bool) { q, ok := params[n]; return q, ok }
 	cases := []struct {
@@ -38,7 +38,7 @@ func TestEval(t *testing.T) {
 		// bearbeitet, 1827), and P = V·I = I²·R (Joule, On the Heat evolved
 		// by Metallic Conductors of Electricity, 1841).
 		{expr: "12 V / 10 mA", value: 1200, dim: units.Resistance},
-		{expr: "(12 V - vf) / i", value: 1000, dim: units.Resistance},
+		{expr: "(12 V - vdrop) / i", value: 1000, dim: units.Resistance},
 		{expr: "12 V * 10 mA", value: 0.12, dim: units.Power},
 		{expr: "i * i * r", value: 1, dim: units.Power},
 		// τ = R·C is a time.
@@ -50,7 +50,7 @@ func TestEval(t *testing.T) {
 		{expr: "2 * (3 + 4)", value: 14, dim: units.None},
 		{expr: "12 / 4 / 3", value: 1, dim: units.None},
 		{expr: "-(3 V) + 5 V", value: 2, dim: units.Voltage},
-		{expr: "- -vf", value: 2, dim: units.Voltage},
+		{expr: "- -vdrop", value: 2, dim: units.Voltage},
 		{expr: "4k7 + 300 Ω", value: 5000, dim: units.Resistance},
 		{expr: "t * 2", value: 0.1, percent: true},
 		{expr: "t + 1%", value: 0.06, percent: true},
@@ -59,15 +59,18 @@ func TestEval(t *testing.T) {
 		// language names, but is a valid intermediate.
 		{expr: "r / i", value: 1e6, dim: units.Dim{V: 1, A: -2}},
 		{expr: "1 V + 1 A", rule: "param-unit", msg: "cannot add a voltage (1.00 V) and a current (1.00 A)"},
-		{expr: "r - vf", rule: "param-unit", msg: "cannot subtract a resistance"},
+		{expr: "r - vdrop", rule: "param-unit", msg: "cannot subtract a resistance"},
 		{expr: "t + 1", rule: "param-unit", msg: "percentage"},
 		{expr: "t * 1 V", rule: "param-unit", msg: "a percentage combines only with plain numbers"},
 		{expr: "t * t", rule: "param-unit", msg: "cannot multiply two percentages"},
 		{expr: "1 V / 0 A", rule: "bad-value", msg: "division by zero"},
-		{expr: "vf / (i - 10 mA)", rule: "bad-value", msg: "division by zero"},
+		{expr: "vdrop / (i - 10 mA)", rule: "bad-value", msg: "division by zero"},
 		{expr: "1e300 V * 1e300", rule: "bad-value", msg: "too large"},
 		{expr: "rr * 2", rule: "unknown-param", msg: "no parameter named rr"},
 		{expr: "1 kΩ / 1 Ω", value: 1000, dim: units.None},
+		// Resistor codes of IEC 60062: R47 is 0.47 Ω, 4k7 is 4.7 kΩ.
+		{expr: "2 * R47", value: 0.94, dim: units.Resistance},
+		{expr: "4k7 / R47", value: 1e4, dim: units.None},
 	}
 	for _, c := range cases {
 		t.Run(c.expr, func(t *testing.T) {
@@ -89,5 +92,27 @@ func TestEval(t *testing.T) {
 				t.Errorf("= %g %v percent %v, want %g %v percent %v", q.Value, q.Dim, q.Percent, c.value, c.dim, c.percent)
 			}
 		})
+	}
+}
+
+// A value that is a lone parameter name evaluates to the parameter; at a
+// place with no parameters it is an unknown-param error naming it.
+func TestEvalValueLoneParameter(t *testing.T) {
+	f := grammar.Parse("t", []byte("resistor R (a, b) rtop tol 1%\n"))
+	if len(f.Errors) > 0 || len(f.Stmts) != 1 {
+		t.Fatalf("does not parse: %v", f.Errors)
+	}
+	v := f.Stmts[0].Part.Value
+	if v.Param == nil || v.Param.Text != "rtop" || len(f.Stmts[0].Part.Attrs) != 1 {
+		t.Fatalf("rtop is not read as a lone parameter before tol: %+v", f.Stmts[0].Part)
+	}
+	want := units.Quantity{Value: 10e3, Dim: units.Resistance}
+	q, err := EvalValue(v, func(n string) (units.Quantity, bool) { return want, n == "rtop" })
+	if err != nil || q != want {
+		t.Errorf("EvalValue = %v, %v; want %v", q, err, want)
+	}
+	_, err = EvalValue(v, nil)
+	if ee, ok := err.(*ExprError); !ok || ee.Rule != "unknown-param" || ee.Name != "rtop" {
+		t.Errorf("without parameters: %v, want an unknown-param error naming rtop", err)
 	}
 }

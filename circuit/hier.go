@@ -290,11 +290,46 @@ func (b *builder) prepareHeader(bd *blockDef) {
 				b.report("duplicate-name", diag.Error, b.pos(a.Pos), b.pos(a.EndPos), "block %s lists parameter %s twice", bd.name, name)
 				continue
 			}
+			if why := grammar.ParamNameTrouble(name); why != "" {
+				// Kept as a parameter, so that instances setting it are
+				// not reported again; the block's statements cannot name it.
+				b.report("syntax", diag.Error, b.pos(a.Pos), b.nameEnd(a.Name), "parameter %s of block %s: %s, so it cannot stand for a value; rename it (for example %s)", name, bd.name, why, paramRename(name))
+			}
 			bd.parIndex[name] = len(bd.params)
 			bd.params = append(bd.params, paramDef{name: name, def: a.Value, pos: b.pos(a.Pos), end: b.pos(a.EndPos)})
 		}
 		b.defaultUnits(bd)
 	}
+}
+
+// paramRename suggests a name for a parameter whose name is refused: the
+// parameters of this language's own examples where one fits, otherwise the
+// name with a suffix.
+func paramRename(name string) string {
+	switch name {
+	case "vf":
+		return "vdrop"
+	case "tol":
+		return "tolerance"
+	case "rated":
+		return "rating"
+	case "dcr":
+		return "rdc"
+	}
+	var b strings.Builder
+	for _, r := range name {
+		if r == '_' || r < utf8.RuneSelf && (r >= 'a' && r <= 'z' || r >= 'A' && r <= 'Z' || r >= '0' && r <= '9') {
+			b.WriteRune(r)
+		}
+	}
+	s := b.String()
+	if s == "" || s[0] >= '0' && s[0] <= '9' {
+		s = "p" + s
+	}
+	if grammar.ParamNameTrouble(s) != "" {
+		s += "_value"
+	}
+	return s
 }
 
 // prepare resolves a block's statements once; every block's header is
@@ -772,7 +807,7 @@ func (b *builder) eval(v *grammar.Value) (units.Quantity, error) {
 			return sc.env[j].q, true
 		}
 	}
-	q, err := evalGuarded(v.Expr, look)
+	q, err := evalGuarded(v, look)
 	if err == nil {
 		return q, nil
 	}
@@ -795,7 +830,7 @@ func (b *builder) eval(v *grammar.Value) (units.Quantity, error) {
 			}
 		}
 	}
-	if ee.Rule != "" {
+	if ee.Rule != "" && v.Expr != nil {
 		ee.Msg = b.exprText(v) + ": " + ee.Msg
 	}
 	return q, ee
@@ -805,7 +840,7 @@ func (b *builder) eval(v *grammar.Value) (units.Quantity, error) {
 // was already reported as wrong.
 type unboundParam struct{}
 
-func evalGuarded(e *grammar.Expr, look Lookup) (q units.Quantity, err error) {
+func evalGuarded(v *grammar.Value, look Lookup) (q units.Quantity, err error) {
 	defer func() {
 		if r := recover(); r != nil {
 			if _, ok := r.(unboundParam); !ok {
@@ -814,22 +849,29 @@ func evalGuarded(e *grammar.Expr, look Lookup) (q units.Quantity, err error) {
 			err = &ExprError{}
 		}
 	}()
-	return Eval(e, look)
+	return EvalValue(v, look)
 }
 
-// exprText quotes an expression value as written: "{(12 V - vf) / i}".
+// exprText quotes an expression value as written, from its opening
+// parenthesis to the one that closes it: "((12 V - vdrop) / i)".
 func (b *builder) exprText(v *grammar.Value) string {
 	src := b.srcs[b.file]
 	o := v.Pos.Offset
-	if src == nil || o < 0 || o >= len(src) {
-		return "{…}"
+	if src == nil || o < 0 || o >= len(src) || src[o] != '(' {
+		return "(…)"
 	}
-	end := o
-	for end < len(src) && src[end] != '}' && src[end] != '\n' {
+	end, depth := o, 0
+	for end < len(src) && src[end] != '\n' {
+		switch src[end] {
+		case '(':
+			depth++
+		case ')':
+			depth--
+		}
 		end++
-	}
-	if end < len(src) && src[end] == '}' {
-		end++
+		if depth == 0 {
+			break
+		}
 	}
 	return string(src[o:end])
 }

@@ -105,16 +105,28 @@ type Assign struct {
 	Value  *Value `parser:"( \"=\" @@ )?"`
 }
 
-// Value is a quantity (12 V, 4.7kΩ, 4k7, R47), a switch state, or an
-// expression in braces.
+// Value is a quantity (12 V, 4.7kΩ, 4k7, R47), a switch state, a
+// parameter name standing alone (rtop), or an expression in parentheses
+// ((vs - vdrop) / i). A quantity starts with a digit, a sign or the R of a
+// code, so a lone name cannot be mistaken for one; attribute words are no
+// parameter names, so it cannot be mistaken for the next attribute either.
 type Value struct {
+	Pos   lexer.Position
+	Neg   bool   `parser:"( @\"-\"?"`
+	Num   string `parser:"  @Number"`
+	Unit  string `parser:"  @Unit? )"`
+	Code  string `parser:"| @Code"`
+	Word  string `parser:"| @(\"open\" | \"closed\")"`
+	Param *Ref   `parser:"| @@"`
+	Expr  *Expr  `parser:"| \"(\" @@ \")\""`
+}
+
+// Ref is a parameter name used as a value or inside an expression. Only a
+// plain name (an Ident token) can be one: a word that reads as a unit, a
+// resistor code or an attribute word means that, not a parameter.
+type Ref struct {
 	Pos  lexer.Position
-	Neg  bool   `parser:"( @\"-\"?"`
-	Num  string `parser:"  @Number"`
-	Unit string `parser:"  @Unit? )"`
-	Code string `parser:"| @Code"`
-	Word string `parser:"| @(\"open\" | \"closed\")"`
-	Expr *Expr  `parser:"| \"{\" @@ \"}\""`
+	Text string `parser:"@Ident"`
 }
 
 // Attr is an attribute: a word, values separated by commas, and for vf an
@@ -152,14 +164,15 @@ type OpFactor struct {
 	Factor *Factor `parser:"@@"`
 }
 
-// Factor is a quantity, a parameter name, a negation or a parenthesised
-// expression.
+// Factor is a quantity, a resistor code, a parameter name, a negation or
+// a parenthesised expression.
 type Factor struct {
 	Pos    lexer.Position
 	EndPos lexer.Position
 	Neg    *Factor `parser:"  \"-\" @@"`
 	Num    string  `parser:"| ( @Number"`
 	Unit   string  `parser:"    @Unit? )"`
-	Param  *Name   `parser:"| @@"`
+	Code   string  `parser:"| @Code"`
+	Param  *Ref    `parser:"| @@"`
 	Sub    *Expr   `parser:"| \"(\" @@ \")\""`
 }

@@ -91,8 +91,8 @@ func explain(toks []lexer.Token) (at int, expect string, ok bool) {
 			return fail("end of line after the file name")
 		}
 		return 0, "", false
-	case t.Type == TokKeyword:
-		return 0, "", false // block and param: the hierarchy's grammar
+	case t.Type == TokKeyword && t.Value == "block":
+		return w.blockHeader()
 	case punctIs(t, "}"):
 		w.i++
 		if !w.eol() {
@@ -193,8 +193,78 @@ func (w *walker) part() (int, string, bool) {
 
 func (w *walker) startsValue() bool {
 	t := w.peek()
-	return t.Type == TokNumber || t.Type == TokCode || punctIs(t, "-") || punctIs(t, "{") ||
+	return t.Type == TokNumber || t.Type == TokCode || t.Type == TokIdent || punctIs(t, "-") || punctIs(t, "(") ||
 		t.Type == TokAttrWord && (t.Value == "open" || t.Value == "closed")
+}
+
+// blockHeader walks block NAME (PIN, ...) [PARAM = VALUE, ...] {
+func (w *walker) blockHeader() (int, string, bool) {
+	fail := func(e string) (int, string, bool) { return w.i, e, true }
+	w.i++
+	if !nameLike(w.peek()) || w.peek().Type == TokString {
+		return fail("the block's name (block NAME (PIN, ...) {)")
+	}
+	w.i++
+	if !punctIs(w.peek(), "(") {
+		return fail("( and the block's pins")
+	}
+	w.i++
+	if punctIs(w.peek(), ")") {
+		w.i++
+	} else {
+		for {
+			if !nameLike(w.peek()) {
+				return fail("a pin name")
+			}
+			w.i++
+			if punctIs(w.peek(), ")") {
+				w.i++
+				break
+			}
+			if !punctIs(w.peek(), ",") {
+				return fail(", or )")
+			}
+			w.i++
+		}
+	}
+	if punctIs(w.peek(), "[") {
+		w.i++
+		for !punctIs(w.peek(), "]") {
+			t := w.peek()
+			if t.Type == TokKeyword {
+				return fail("a parameter name; " + ParamNameTrouble(t.Value) + ": choose another name")
+			}
+			if !nameLike(t) {
+				return fail("a parameter name")
+			}
+			w.i++
+			if punctIs(w.peek(), "=") {
+				w.i++
+				if !w.startsValue() {
+					return fail("a value after = (a quantity, a parameter or an expression in parentheses)")
+				}
+				if at, e, ok := w.value(true); ok {
+					return at, e, ok
+				}
+			}
+			if punctIs(w.peek(), "]") {
+				break
+			}
+			if !punctIs(w.peek(), ",") {
+				return fail(", or ]")
+			}
+			w.i++
+		}
+		w.i++
+	}
+	if !punctIs(w.peek(), "{") {
+		return fail("{ at the end of the block's header line")
+	}
+	w.i++
+	if !w.eol() {
+		return fail("end of line after {: the block's statements go on the lines below")
+	}
+	return 0, "", false
 }
 
 // value walks an optional value; with required set the value must be there.
@@ -217,15 +287,24 @@ func (w *walker) value(required bool) (int, string, bool) {
 		if w.peek().Type == TokUnit {
 			w.i++
 		}
-	case t.Type == TokCode, t.Type == TokAttrWord && (t.Value == "open" || t.Value == "closed"):
+	case t.Type == TokCode, t.Type == TokIdent, t.Type == TokAttrWord && (t.Value == "open" || t.Value == "closed"):
 		w.i++
-	case punctIs(t, "{"):
-		// an expression: leave it to participle
-		for !w.eol() && !punctIs(w.peek(), "}") {
+	case punctIs(t, "("):
+		// an expression: its inside is left to participle
+		depth := 0
+		for !w.eol() {
+			if punctIs(w.peek(), "(") {
+				depth++
+			} else if punctIs(w.peek(), ")") {
+				depth--
+				if depth == 0 {
+					break
+				}
+			}
 			w.i++
 		}
 		if w.eol() {
-			return fail("} to close the expression")
+			return fail(") to close the expression")
 		}
 		w.i++
 	default:

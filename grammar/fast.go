@@ -11,7 +11,7 @@ package grammar
 //   - one participle call reads as many consecutive part lines as it can,
 //     through the Parseable fastRun, each line by readPart, a hand-written
 //     reader of the subset of Part
-//     that has no parameters and no braces. It builds exactly the tree the
+//     that has no expressions in parentheses. It builds exactly the tree the
 //     grammar builds (the same nodes, values and positions: see
 //     TestFastPathMatchesGrammar) and gives up with participle.NextMatch on
 //     anything else;
@@ -83,11 +83,12 @@ func isNameTok(t *lexer.Token) bool {
 
 func isPunctTok(t *lexer.Token, p string) bool { return t.Type == TokPunct && t.Value == p }
 
-// startsValue reports whether t can begin a Value the fast path reads. A
-// brace (an expression) is left to the grammar.
+// startsValue reports whether t can begin a Value the fast path reads: a
+// quantity, a code, a switch state or a lone parameter name. An expression
+// in parentheses is left to the grammar.
 func startsValue(t *lexer.Token) bool {
 	switch t.Type {
-	case TokNumber, TokCode:
+	case TokNumber, TokCode, TokIdent:
 		return true
 	case TokPunct:
 		return t.Value == "-"
@@ -143,11 +144,14 @@ func readName(lex *lexer.PeekingLexer, n *Name) bool {
 }
 
 // readValue reads a Value that startsValue accepted, as the grammar reads
-// it: "-"? Number Unit? | Code | open | closed.
+// it: "-"? Number Unit? | Code | open | closed | a parameter name.
 func readValue(lex *lexer.PeekingLexer, v *Value) bool {
 	t := lex.Peek()
 	v.Pos = t.Pos
 	switch {
+	case t.Type == TokIdent:
+		lex.Next()
+		v.Param = &Ref{Pos: t.Pos, Text: t.Value}
 	case t.Type == TokCode:
 		lex.Next()
 		v.Code = t.Value
@@ -174,7 +178,7 @@ func readValue(lex *lexer.PeekingLexer, v *Value) bool {
 }
 
 // readPart reads a Part as the grammar does, for the subset without
-// expressions in braces, and reports whether it could.
+// expressions in parentheses, and reports whether it could.
 func readPart(lex *lexer.PeekingLexer, p *Part, nodes *partNodes) bool {
 	p.Pos = lex.Peek().Pos
 	if !readName(lex, &nodes.kind) || !readName(lex, &nodes.name) {
@@ -241,7 +245,7 @@ func readPart(lex *lexer.PeekingLexer, p *Part, nodes *partNodes) bool {
 			break
 		}
 		if !isNameTok(t) {
-			return false // braces, stray punctuation: the grammar's
+			return false // expressions, stray punctuation: the grammar's
 		}
 		an := &attrNodes{}
 		a := &an.attr
@@ -337,7 +341,7 @@ func (tb *tokenBuffer) lexer(toks []lexer.Token) (*lexer.PeekingLexer, error) {
 
 // readParams reads an instance's parameter list as the grammar does:
 // "[" ( Assign ( "," Assign )* )? "]", each Assign a name with an
-// optional "=" and plain value.
+// optional "=" and a value that is no expression.
 func readParams(lex *lexer.PeekingLexer, p *Part) bool {
 	lex.Next() // [
 	if !isPunctTok(lex.Peek(), "]") {

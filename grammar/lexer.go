@@ -18,7 +18,7 @@ const (
 	TokNewline
 	TokComment
 	TokIdent    // a name: [A-Za-z_][A-Za-z0-9_]*
-	TokKeyword  // a statement keyword: design ground port include block param
+	TokKeyword  // a statement keyword: design ground port include block
 	TokAttrWord // an attribute word: tol rated vf at ideality series dcr open closed
 	TokUnit     // a unit with optional prefix standing alone: Ω kΩ mA V %
 	TokCode     // an IEC 60062 resistor code starting with R: R47
@@ -34,10 +34,10 @@ var symbols = map[string]lexer.TokenType{
 	"Number": TokNumber, "String": TokString, "Punct": TokPunct, "Invalid": TokInvalid,
 }
 
-// Keywords that begin statements. "block", "include" and "param" belong to
-// the hierarchy; they are reserved so no design can use them as names.
+// Keywords that begin statements. "block" and "include" belong to the
+// hierarchy; all are reserved so no design can use them as names.
 var keywords = map[string]bool{
-	"design": true, "ground": true, "port": true, "include": true, "block": true, "param": true,
+	"design": true, "ground": true, "port": true, "include": true, "block": true,
 }
 
 // Attribute words, and the two switch states.
@@ -316,4 +316,26 @@ func classifyWord(w string) lexer.TokenType {
 		}
 	}
 	return TokIdent
+}
+
+// ParamNameTrouble says why name cannot be a block parameter's name, or
+// returns "" when it can. A parameter is used by writing its name alone
+// where a value goes, so its name must read as a plain name there: not as
+// a statement keyword, an attribute word, a unit or a resistor code.
+func ParamNameTrouble(name string) string {
+	switch classifyWord(name) {
+	case TokIdent:
+		if name != "" && (name[0] < '0' || name[0] > '9') {
+			return ""
+		}
+	case TokKeyword:
+		return name + " is a statement word"
+	case TokAttrWord:
+		return name + " is an attribute word"
+	case TokUnit:
+		return name + " reads as a unit"
+	case TokCode:
+		return name + " reads as a resistor code"
+	}
+	return name + " is not a plain name (A-Z, a-z, 0-9 and _, not starting with a digit)"
 }

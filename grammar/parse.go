@@ -221,6 +221,9 @@ func parseLine(toks []lexer.Token) (*Statement, *SyntaxError) {
 
 // syntaxError words a participle error in the project's terms.
 func syntaxError(err error, toks []lexer.Token) *SyntaxError {
+	if se := bracedValue(toks); se != nil {
+		return se
+	}
 	if at, expect, ok := explain(toks); ok && at < len(toks) {
 		t := toks[at]
 		return &SyntaxError{Offset: t.Pos.Offset, End: t.Pos.Offset + len(t.Value), Line: t.Pos.Line, Msg: describeUnexpected(t, expect)}
@@ -281,4 +284,77 @@ func describeUnexpected(t lexer.Token, expect string) string {
 		msg += "; write M for mega (1 MΩ) and m for milli (1 mA)"
 	}
 	return msg
+}
+
+// bracedValue finds a value written in braces ({rtop}, {2 * rtop}), which
+// the language does not have: braces only open and close a block. The
+// message shows the value as it is written instead. It returns nil when
+// every brace on the line is in its place.
+func bracedValue(toks []lexer.Token) *SyntaxError {
+	n := len(toks)
+	if n > 0 && toks[n-1].Type == TokEOF {
+		n--
+	}
+	if n > 0 && toks[0].Type == TokKeyword && toks[0].Value == "block" && punctIs(toks[n-1], "{") {
+		n-- // the brace that opens the block
+	}
+	for i := 0; i < n; i++ {
+		if !punctIs(toks[i], "{") || i == 0 {
+			continue
+		}
+		j, depth := i+1, 1
+		for ; j < n; j++ {
+			if punctIs(toks[j], "{") {
+				depth++
+			} else if punctIs(toks[j], "}") {
+				depth--
+				if depth == 0 {
+					break
+				}
+			}
+		}
+		inner := toks[i+1 : min(j, n)]
+		end := toks[min(j, n-1)]
+		text := joinTokens(inner)
+		const how = "a quantity or a lone parameter stands as it is, and an expression is written in parentheses"
+		var msg string
+		switch {
+		case len(inner) == 0:
+			msg = "braces do not hold values: " + how
+		case standsAlone(inner):
+			msg = "braces do not hold values: write " + text + "; " + how
+		default:
+			msg = "braces do not hold values: write (" + text + "); " + how
+		}
+		return &SyntaxError{Offset: toks[i].Pos.Offset, End: end.Pos.Offset + len(end.Value), Line: toks[i].Pos.Line, Msg: msg}
+	}
+	return nil
+}
+
+// standsAlone reports whether toks are one value that needs no
+// parentheses: a parameter name, a code, or a number with its unit.
+func standsAlone(toks []lexer.Token) bool {
+	if len(toks) > 0 && punctIs(toks[0], "-") {
+		toks = toks[1:]
+	}
+	switch {
+	case len(toks) == 1:
+		return toks[0].Type == TokIdent || toks[0].Type == TokCode || toks[0].Type == TokNumber
+	case len(toks) == 2:
+		return toks[0].Type == TokNumber && toks[1].Type == TokUnit
+	}
+	return false
+}
+
+// joinTokens writes tokens back as text, with a space wherever the source
+// had blanks between them.
+func joinTokens(toks []lexer.Token) string {
+	var b strings.Builder
+	for i, t := range toks {
+		if i > 0 && t.Pos.Offset > toks[i-1].Pos.Offset+len(toks[i-1].Value) {
+			b.WriteByte(' ')
+		}
+		b.WriteString(t.Value)
+	}
+	return b.String()
 }
