@@ -11,7 +11,7 @@ import (
 func TestSubject(t *testing.T) {
 	src := `ground gnd
 block stage (in, out) [r = 1 kΩ] {
-  resistor R (in, mid) {r}
+  resistor R (in, mid) r
   resistor S (mid, out) 0 Ω
 }
 source V1 (vin, gnd) 5 V
