@@ -11,11 +11,31 @@ import (
 // randomLaplacian returns the grounded weighted Laplacian of a random graph
 // on n nodes with about deg·n/2 edges whose conductances span spread
 // decades, plus a conductance to ground at every tenth node: a network with
-// no small separators, like the random designs.
+// no small separators, like the random designs. A random graph of this
+// degree also has a few small components (isolated nodes and pairs); one
+// that holds no tenth node is grounded by a unit conductance at its first
+// node, so that every component has a real path to ground. (A floor of
+// 1e-9 S on every node, used before, left such components nearly
+// floating: a pair joined by 50 S and grounded only by the floor has
+// solutions near 1e9 V, and the rounding of A·x alone, ε·‖|A|·|x|‖, is
+// then about 4e-8 of ‖b‖, so that no float64 vector, the exactly rounded
+// solution included, meets a relative residual of 1e-10; see
+// TestPCGReportsUnattainableResidual.)
 func randomLaplacian(n, deg int, spread float64, seed uint64) *CSC {
 	r := rand.New(rand.NewPCG(seed, 1))
 	t := NewTriplet(n, n, 2*deg*n+n)
 	diag := make([]float64, n)
+	comp := make([]int, n) // union–find over the edges
+	for i := range comp {
+		comp[i] = i
+	}
+	find := func(i int) int {
+		for comp[i] != i {
+			comp[i] = comp[comp[i]]
+			i = comp[i]
+		}
+		return i
+	}
 	for e := 0; e < deg*n/2; e++ {
 		i, j := r.IntN(n), r.IntN(n)
 		if i == j {
@@ -29,14 +49,47 @@ func randomLaplacian(n, deg int, spread float64, seed uint64) *CSC {
 		t.Add(j, i, -g)
 		diag[i] += g
 		diag[j] += g
+		comp[find(i)] = find(j)
+	}
+	grounded := make([]bool, n)
+	for i := 0; i < n; i += 10 {
+		diag[i]++
+		grounded[find(i)] = true
 	}
 	for i := range diag {
-		if i%10 == 0 {
-			diag[i] += 1
+		if c := find(i); !grounded[c] {
+			diag[i]++ // i is the first node of an ungrounded component
+			grounded[c] = true
 		}
-		t.Add(i, i, diag[i]+1e-9)
+		t.Add(i, i, diag[i])
 	}
 	return t.Compress()
+}
+
+// PCG does not claim a residual that float64 cannot hold. Two nodes joined
+// by 50 S and tied to ground by 1 nS each solve to about 5e8 V (for
+// b = (0.3, 0.7) the two equations sum to 1e-9·(x₁ + x₂) = 1, by hand);
+// computing A·x then rounds by about ε·50·5e8 ≈ 6e-6 A, so a relative residual of 1e-12 is out of reach
+// (attainable accuracy of recursive-residual methods: Greenbaum, SIAM J.
+// Matrix Anal. Appl. 18(3), 1997, from memory), and PCG must say
+// *NotConverged rather than stop on its drifting recursive residual.
+func TestPCGReportsUnattainableResidual(t *testing.T) {
+	tr := NewTriplet(2, 2, 4)
+	tr.Add(0, 0, 50+1e-9)
+	tr.Add(1, 1, 50+1e-9)
+	tr.Add(0, 1, -50)
+	tr.Add(1, 0, -50)
+	a := tr.Compress()
+	b := []float64{0.3, 0.7}
+	x := make([]float64, 2)
+	_, res, err := PCG(a, x, b, nil, 1e-12, 1000)
+	var nc *NotConverged
+	if !errors.As(err, &nc) {
+		t.Fatalf("want *NotConverged, got %v (relative residual %g, x %g)", err, res, x)
+	}
+	if !(res > 1e-12) || nc.RelResidual != res {
+		t.Fatalf("reported residual %g (error says %g), want the true one above 1e-12", res, nc.RelResidual)
+	}
 }
 
 // The AMG complexity guard fires while the first coarse level is built on a
@@ -147,6 +200,11 @@ func TestCheapPreconditionersMatchCholesky(t *testing.T) {
 		}
 		x := make([]float64, n)
 		const tol = 1e-10
+		// The draw must admit the tolerance: the Cholesky solution meets
+		// it (see randomLaplacian for draws that cannot).
+		if r := relRes2(a, want, b); r > tol {
+			t.Fatalf("the Cholesky solution's relative residual %g is above %g: the draw is not solvable to it in float64", r, tol)
+		}
 		it, res, err := PCG(a, x, b, m, tol, 20*n+100)
 		if err != nil {
 			t.Fatalf("PCG: %v", err)

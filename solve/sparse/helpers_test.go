@@ -112,3 +112,13 @@ func relResidual(a *CSC, x, b []float64) float64 {
 	}
 	return inf(r) / (a.T().Norm1()*inf(x) + inf(b))
 }
+
+// relRes2 returns ‖b − A·x‖₂ / ‖b‖₂, the quantity PCG stops on.
+func relRes2(a *CSC, x, b []float64) float64 {
+	r := make([]float64, a.N)
+	a.MulVec(r, x)
+	for i := range r {
+		r[i] = b[i] - r[i]
+	}
+	return norm2(r) / math.Max(norm2(b), 1e-300)
+}
