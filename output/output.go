@@ -88,7 +88,7 @@ func FromDiags(fset *diag.FileSet, l diag.List) []Finding {
 		}
 		f := Finding{File: start.Filename, Line: start.Line, Column: start.Column,
 			EndLine: end.Line, EndColumn: end.Column,
-			Severity: d.Severity, Rule: d.Rule, Message: d.Message}
+			Severity: d.Severity, Rule: d.Rule, Message: d.Message, Subject: d.Subject}
 		for _, r := range d.Related {
 			p := fset.Position(r.Pos)
 			e := fset.Position(r.End)
