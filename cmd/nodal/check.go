@@ -37,6 +37,14 @@ does not exist is skipped quietly when git knows it (it is tracked in HEAD
 or the index, so the change deletes it); otherwise it is a typo and an
 error (exit 2).
 
+A change reaches the designs that include the changed file: every design
+that includes a named (or, with --staged, staged) file, directly or
+through other files, is checked too, and so is every design below the
+folder of a named or staged nodal.toml. A deleted library brings in its
+includers the same way. The include graph is read from git's index with
+--staged and from the work tree otherwise, over the files git tracks or
+would track; outside a git repository only the named files are checked.
+
 The text form is one finding per line, the form editors parse:
 
   path:line:col: severity: message [rule-id]
@@ -180,11 +188,15 @@ func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		defer idx.Close()
 		read = idx.ReadFile
 		names, status = stagedNames(root, prefix, paths, stderr)
+		if names, err = stagedDependents(root, prefix, names, paths, read, stderr); err != nil {
+			return usageErr(stderr, "--staged: %v", err)
+		}
 	} else {
 		if len(paths) == 0 {
 			paths = []string{"."}
 		}
 		names, status = collect(paths, stderr)
+		names = worktreeDependents(names, paths, stderr)
 	}
 
 	// Each file's configuration: --config, or the nearest nodal.toml.

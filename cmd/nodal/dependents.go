@@ -1,0 +1,210 @@
+package main
+
+// dependents.go: hooks follow includes. A changed file — staged, or named
+// on the command line as a hook's file list names it — brings in every
+// design that includes it, directly or through other files, and a changed
+// nodal.toml brings in every design it may govern (those in its folder and
+// below). The reverse include graph is built from git's index with
+// --staged and from the work tree otherwise, over the .nodal files git
+// tracks or would track; outside a git repository only the named files are
+// checked.
+
+import (
+	"fmt"
+	"io"
+	"os"
+	"path"
+	"path/filepath"
+	"sort"
+	"strings"
+
+	"nodal/check"
+	"nodal/output"
+)
+
+// changed is what a change touches: .nodal files (still there or deleted)
+// and nodal.toml files. Paths are in one namespace: absolute in the work
+// tree, repository paths in the index.
+type changed struct {
+	files   []string
+	configs []string
+}
+
+// dependents returns the files of all, other than names, that include a
+// changed file directly or transitively, or that lie below the folder of a
+// changed nodal.toml. read reads a file of all; a file it cannot read
+// includes nothing (checking it reports why).
+func dependents(ch changed, names, all []string, read reader) []string {
+	checked := map[string]bool{}
+	for _, n := range names {
+		checked[n] = true
+	}
+	var others []string
+	for _, f := range all {
+		if !checked[f] {
+			others = append(others, f)
+		}
+	}
+	targets := append(append([]string(nil), names...), ch.files...)
+	out := check.Dependents(targets, others, func(f string) []string {
+		src, err := read(f)
+		if err != nil {
+			return nil
+		}
+		return check.Includes(f, src)
+	})
+	seen := map[string]bool{}
+	for _, f := range out {
+		seen[f] = true
+	}
+	for _, c := range ch.configs {
+		dir := filepath.Dir(c)
+		for _, f := range others {
+			if !seen[f] && (dir == "." || strings.HasPrefix(f, dir+string(filepath.Separator))) {
+				seen[f] = true
+				out = append(out, f)
+			}
+		}
+	}
+	sort.Strings(out)
+	return out
+}
+
+// sayDependents notes on standard error which designs were added.
+func sayDependents(stderr io.Writer, deps []string) {
+	if len(deps) == 0 {
+		return
+	}
+	list := deps
+	if len(list) > 5 {
+		list = list[:5]
+	}
+	more := ""
+	if len(deps) > len(list) {
+		more = fmt.Sprintf(" and %d more", len(deps)-len(list))
+	}
+	fmt.Fprintf(stderr, "nodal: also checking %s that the changed files reach through includes or a nodal.toml: %s%s\n",
+		output.Plural(len(deps), "design"), strings.Join(list, ", "), more)
+}
+
+// isConfigName reports whether a path names a nodal.toml.
+func isConfigName(p string) bool { return filepath.Base(p) == "nodal.toml" }
+
+// worktreeDependents adds to names (paths as the user gave them) the
+// designs of the work tree that depend on them or on the named paths
+// (deleted .nodal files and nodal.toml files among them).
+func worktreeDependents(names, paths []string, stderr io.Writer) []string {
+	root, _, err := gitRoot(".")
+	if err != nil {
+		return names // no repository: no graph to follow
+	}
+	cwd, err := os.Getwd()
+	if err != nil {
+		return names
+	}
+	out, err := gitOutput(root, "ls-files", "-z", "--full-name", "--cached", "--others", "--exclude-standard", "--", "*.nodal")
+	if err != nil {
+		return names
+	}
+	abs := func(p string) string {
+		if filepath.IsAbs(p) {
+			return filepath.Clean(p)
+		}
+		return filepath.Join(cwd, p)
+	}
+	seen := map[string]bool{}
+	var all []string
+	for _, p := range strings.Split(string(out), "\x00") {
+		if p == "" {
+			continue
+		}
+		a := filepath.Join(root, filepath.FromSlash(p))
+		if !seen[a] {
+			seen[a] = true
+			all = append(all, a)
+		}
+	}
+	var ch changed
+	var absNames []string
+	for _, n := range names {
+		if n != "-" {
+			absNames = append(absNames, abs(n))
+		}
+	}
+	for _, p := range paths {
+		switch {
+		case isConfigName(p):
+			ch.configs = append(ch.configs, abs(p))
+		case strings.HasSuffix(p, ".nodal"):
+			if _, err := os.Lstat(p); err != nil {
+				ch.files = append(ch.files, abs(p)) // deleted: its includers change
+			}
+		}
+	}
+	deps := dependents(ch, absNames, all, readDisk)
+	rel := make([]string, 0, len(deps))
+	for _, d := range deps {
+		if r, err := filepath.Rel(cwd, d); err == nil {
+			d = r
+		}
+		rel = append(rel, d)
+	}
+	sayDependents(stderr, rel)
+	return append(names, rel...)
+}
+
+// stagedDependents adds to names (repository paths of staged files) the
+// staged designs that depend on them, on the other named paths, or — when
+// no path is named — on every staged change, deletions and nodal.toml
+// files among them.
+func stagedDependents(root, prefix string, names, paths []string, read reader, stderr io.Writer) ([]string, error) {
+	out, err := gitOutput(root, "ls-files", "-z", "--full-name", "--", "*.nodal")
+	if err != nil {
+		return names, err
+	}
+	seen := map[string]bool{}
+	var all []string
+	for _, p := range strings.Split(string(out), "\x00") {
+		if p != "" && !seen[p] {
+			seen[p] = true
+			all = append(all, filepath.FromSlash(p))
+		}
+	}
+	var ch changed
+	if len(paths) == 0 {
+		// Every staged change, deletions and renames' old names too.
+		out, err := gitOutput(root, "diff", "--cached", "--name-only", "-z", "--no-renames", "--", "*.nodal", "*nodal.toml")
+		if err != nil {
+			return names, err
+		}
+		for _, p := range strings.Split(string(out), "\x00") {
+			switch {
+			case p == "":
+			case isConfigName(p):
+				ch.configs = append(ch.configs, filepath.FromSlash(p))
+			case strings.HasSuffix(p, ".nodal"):
+				ch.files = append(ch.files, filepath.FromSlash(p))
+			}
+		}
+	} else {
+		for _, p := range paths {
+			rp := filepath.FromSlash(path.Clean(prefix + filepath.ToSlash(p)))
+			switch {
+			case isConfigName(p):
+				ch.configs = append(ch.configs, rp)
+			case strings.HasSuffix(p, ".nodal") && !seen[filepath.ToSlash(rp)]:
+				ch.files = append(ch.files, rp) // not in the index: deleted
+			}
+		}
+	}
+	local := make([]string, len(names))
+	for i, n := range names {
+		local[i] = filepath.FromSlash(n)
+	}
+	deps := dependents(ch, local, all, func(f string) ([]byte, error) { return read(filepath.ToSlash(f)) })
+	for i := range deps {
+		deps[i] = filepath.ToSlash(deps[i])
+	}
+	sayDependents(stderr, deps)
+	return append(names, deps...), nil
+}

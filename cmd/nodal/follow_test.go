@@ -1,0 +1,214 @@
+package main
+
+import (
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// An invented library of one block and a board that uses it. libRenamed
+// renames the block, so the board's instance names a block that no longer
+// exists: an error in the board, while the library alone is clean.
+const (
+	libLoad = `# shared load stages
+block load (a, b) {
+  resistor R (a, b) 1 kΩ
+}
+`
+	libRenamed = `# shared load stages
+block dummy_load (a, b) {
+  resistor R (a, b) 1 kΩ
+}
+`
+	boardUsingLib = `include "../lib/loads.nodal"
+ground gnd
+source V1 (vin, gnd) 5 V
+load L1 (vin, gnd)
+`
+	// middle.nodal includes the library; top.nodal includes middle.nodal.
+	libMiddle = `include "loads.nodal"
+`
+)
+
+// libRepo makes a repository with a library, a board that includes it
+// directly, a board that reaches it through another library, and an
+// unrelated board, all committed.
+func libRepo(t *testing.T) string {
+	t.Helper()
+	dir := gitRepo(t)
+	write(t, filepath.Join(dir, "lib", "loads.nodal"), libLoad)
+	write(t, filepath.Join(dir, "lib", "middle.nodal"), libMiddle)
+	write(t, filepath.Join(dir, "boards", "direct.nodal"), boardUsingLib)
+	write(t, filepath.Join(dir, "boards", "deep", "top.nodal"), strings.Replace(boardUsingLib, "../lib/loads.nodal", "../../lib/middle.nodal", 1))
+	write(t, filepath.Join(dir, "boards", "other.nodal"), goodDesign)
+	write(t, filepath.Join(dir, "lib", "unused.nodal"), libLoad)
+	git(t, dir, "add", ".")
+	git(t, dir, "commit", "-qm", "boards")
+	return dir
+}
+
+// A library change staged alone is caught through the designs that
+// include it, directly and through another file.
+func TestStagedLibraryChangeChecksIncluders(t *testing.T) {
+	dir := libRepo(t)
+	write(t, filepath.Join(dir, "lib", "loads.nodal"), libRenamed)
+	git(t, dir, "add", "lib/loads.nodal")
+	// The work tree goes back to the old library: --staged must read the
+	// index, for the library and for the graph alike.
+	write(t, filepath.Join(dir, "lib", "loads.nodal"), libLoad)
+	for _, args := range [][]string{
+		{"check", "--staged"},
+		{"check", "--staged", "lib/loads.nodal"},
+	} {
+		code, out, errs := runNodal(t, dir, "", args...)
+		if code != 1 {
+			t.Errorf("%v: exit %d, want 1 (the boards use a block that is gone)\n%s%s", args, code, out, errs)
+		}
+		for _, want := range []string{"boards/direct.nodal:4:1: error: ", "boards/deep/top.nodal:4:1: error: "} {
+			if !strings.Contains(out, want) {
+				t.Errorf("%v: output lacks %q:\n%s", args, want, out)
+			}
+		}
+		// loads.nodal, middle.nodal, direct.nodal and top.nodal; not
+		// other.nodal or unused.nodal.
+		if strings.Contains(out, "other.nodal") || !strings.Contains(errs, "in 4 files") {
+			t.Errorf("%v: wrong files checked: %s", args, errs)
+		}
+		if !strings.Contains(errs, "also checking") {
+			t.Errorf("%v: no note of the designs added: %s", args, errs)
+		}
+	}
+	// A library that no design includes is checked on its own, as before.
+	write(t, filepath.Join(dir, "lib", "unused.nodal"), libRenamed)
+	git(t, dir, "add", "lib/unused.nodal")
+	code, out, errs := runNodal(t, dir, "", "check", "--staged", "lib/unused.nodal")
+	if code != 0 || !strings.Contains(errs, "in 1 file") || strings.Contains(errs, "also checking") {
+		t.Errorf("unused library: exit %d\n%s%s", code, out, errs)
+	}
+}
+
+// A library deleted in the index leaves its includers with an include that
+// cannot be followed; they are checked and fail.
+func TestStagedLibraryDeletionChecksIncluders(t *testing.T) {
+	dir := libRepo(t)
+	git(t, dir, "rm", "-q", "lib/loads.nodal")
+	code, out, errs := runNodal(t, dir, "", "check", "--staged")
+	if code != 1 || !strings.Contains(out, "boards/direct.nodal:1:1: error: ") || !strings.Contains(out, "[bad-include]") {
+		t.Errorf("exit %d\n%s%s", code, out, errs)
+	}
+}
+
+// A staged nodal.toml brings in the designs below its folder.
+func TestStagedConfigChecksDesignsBelow(t *testing.T) {
+	dir := libRepo(t)
+	write(t, filepath.Join(dir, "boards", "other.nodal"), badDesign)
+	write(t, filepath.Join(dir, "boards", "nodal.toml"), "[rules]\nsource-loop = \"note\"\n")
+	git(t, dir, "add", ".")
+	git(t, dir, "commit", "-qm", "loop accepted as a note")
+	git(t, dir, "rm", "-q", "boards/nodal.toml")
+	code, out, errs := runNodal(t, dir, "", "check", "--staged")
+	if code != 1 || !strings.Contains(out, "boards/other.nodal:4:1: error: ") {
+		t.Errorf("removing the nodal.toml that made the loop a note: exit %d\n%s%s", code, out, errs)
+	}
+}
+
+// In the work tree, a named library brings in its includers, with paths
+// relative to the current folder.
+func TestNamedLibraryChecksIncluders(t *testing.T) {
+	dir := libRepo(t)
+	write(t, filepath.Join(dir, "lib", "loads.nodal"), libRenamed)
+	code, out, errs := runNodal(t, filepath.Join(dir, "lib"), "", "check", "loads.nodal")
+	if code != 1 || !strings.Contains(out, "../boards/direct.nodal:4:1: error: ") || !strings.Contains(out, "../boards/deep/top.nodal:4:1: error: ") {
+		t.Errorf("exit %d\n%s%s", code, out, errs)
+	}
+	code, out, errs = runNodal(t, dir, "", "check", "lib/unused.nodal")
+	if code != 0 || !strings.Contains(errs, "in 1 file") {
+		t.Errorf("unused library: exit %d\n%s%s", code, out, errs)
+	}
+}
+
+// The pre-commit framework, with a local hook of language system running
+// this package's binary with the entry and file pattern of
+// .pre-commit-hooks.yaml: committing a library change alone is blocked
+// because a board that includes it breaks.
+func TestPreCommitFrameworkFollowsIncludes(t *testing.T) {
+	if testing.Short() {
+		t.Skip("builds the binary and runs pre-commit")
+	}
+	if _, err := exec.LookPath("pre-commit"); err != nil {
+		t.Skip("pre-commit is not installed (Debian: apt-get install pre-commit; .ci/run installs it where it can)")
+	}
+	entry, files := hookDefinition(t)
+	dir := libRepo(t)
+	bin := filepath.Join(t.TempDir(), "nodal")
+	if out, err := exec.Command("go", "build", "-o", bin, ".").CombinedOutput(); err != nil {
+		t.Fatalf("go build: %v\n%s", err, out)
+	}
+	entry = strings.Replace(entry, "nodal", bin, 1)
+	cfg := "repos:\n  - repo: local\n    hooks:\n      - id: nodal-check\n        name: nodal check\n" +
+		"        entry: " + entry + "\n        language: system\n        files: '" + files + "'\n        require_serial: true\n"
+	write(t, filepath.Join(dir, ".pre-commit-config.yaml"), cfg)
+	env := append(os.Environ(), "GIT_CONFIG_GLOBAL=/dev/null", "GIT_CONFIG_NOSYSTEM=1",
+		"PRE_COMMIT_HOME="+filepath.Join(t.TempDir(), "cache"), "PRE_COMMIT_COLOR=never")
+	run := func(args ...string) (string, error) {
+		cmd := exec.Command(args[0], args[1:]...)
+		cmd.Dir = dir
+		cmd.Env = env
+		out, err := cmd.CombinedOutput()
+		return string(out), err
+	}
+	git(t, dir, "add", ".pre-commit-config.yaml")
+	git(t, dir, "commit", "-qm", "hook config")
+	if out, err := run("pre-commit", "install"); err != nil {
+		t.Fatalf("pre-commit install: %v\n%s", err, out)
+	}
+
+	// Only the library is staged; the framework passes only its name.
+	write(t, filepath.Join(dir, "lib", "loads.nodal"), libRenamed)
+	git(t, dir, "add", "lib/loads.nodal")
+	out, err := run("git", "commit", "-m", "rename the load block")
+	if err == nil {
+		t.Fatalf("the hook let a library change through that breaks its includers:\n%s", out)
+	}
+	if !strings.Contains(out, "boards/direct.nodal:4:1: error: ") || !strings.Contains(out, "boards/deep/top.nodal:4:1: error: ") {
+		t.Errorf("hook output does not name the broken boards:\n%s", out)
+	}
+
+	// A change to a library nobody includes passes, checked alone.
+	git(t, dir, "reset", "-q", "lib/loads.nodal")
+	write(t, filepath.Join(dir, "lib", "loads.nodal"), libLoad)
+	write(t, filepath.Join(dir, "lib", "unused.nodal"), libRenamed)
+	git(t, dir, "add", "lib/unused.nodal")
+	if out, err := run("git", "commit", "-m", "rename an unused block"); err != nil {
+		t.Fatalf("hook blocked a change to an unused library: %v\n%s", err, out)
+	}
+}
+
+// hookDefinition reads the entry and the file pattern of the hook this
+// repository offers the pre-commit framework.
+func hookDefinition(t *testing.T) (entry, files string) {
+	t.Helper()
+	src, err := os.ReadFile(filepath.Join("..", "..", ".pre-commit-hooks.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, line := range strings.Split(string(src), "\n") {
+		k, v, ok := strings.Cut(strings.TrimSpace(line), ":")
+		if !ok {
+			continue
+		}
+		v = strings.Trim(strings.TrimSpace(v), `'"`)
+		switch k {
+		case "entry":
+			entry = v
+		case "files":
+			files = v
+		}
+	}
+	if entry == "" || files == "" {
+		t.Fatalf(".pre-commit-hooks.yaml has no entry or files:\n%s", src)
+	}
+	return entry, files
+}
