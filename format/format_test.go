@@ -74,7 +74,7 @@ func TestLayout(t *testing.T) {
 		{"\n\n\nground gnd\n\n\n\nport a\n\n\n", "ground gnd\n\nport a\n"},
 		{"ground gnd   # ref  \nport a,b # out\n", "ground gnd # ref\nport a, b  # out\n"},
 		{"block b (x, y) {\nresistor R (x, y) 1 kΩ\n}\n", "block b (x, y) {\n  resistor R (x, y) 1 kΩ\n}\n"},
-		{"   resistor R1 (a  b\n", "resistor R1 (a  b\n"},                 // broken: kept as written
+		{"   resistor R1 (a  b\n", "resistor R1 (a  b\n"},                                      // broken: kept as written
 		{"resistor R1 (a, b) 1 kΩ\r\nground gnd\r\n", "resistor R1 (a, b) 1 kΩ\nground gnd\n"}, // CRLF
 		{"", ""},
 		{"# only\n", "# only\n"},
