@@ -71,6 +71,8 @@ func TestLayout(t *testing.T) {
 		{"led D1 (anode = a, cathode= k) vf 2 V at 10 mA\n", "led D1 (anode=a, cathode=k) vf 2 V at 10 mA\n"},
 		{"led_row ROW (a, b) [i=15 mA,vs = 12 V]\n", "led_row ROW (a, b) [i = 15 mA, vs = 12 V]\n"},
 		{"source V1 (a, b) - 5 V\n", "source V1 (a, b) -5 V\n"},
+		{"resistor R (a, b) (2*rtop - - 1 kΩ)\n", "resistor R (a, b) (2 * rtop - -1 kΩ)\n"},
+		{"resistor R (a, b) ( -(vs-vd)/ i )  rated p\n", "resistor R (a, b) (-(vs - vd) / i) rated p\n"},
 		{"\n\n\nground gnd\n\n\n\nport a\n\n\n", "ground gnd\n\nport a\n"},
 		{"ground gnd   # ref  \nport a,b # out\n", "ground gnd # ref\nport a, b  # out\n"},
 		{"block b (x, y) {\nresistor R (x, y) 1 kΩ\n}\n", "block b (x, y) {\n  resistor R (x, y) 1 kΩ\n}\n"},
