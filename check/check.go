@@ -1,7 +1,8 @@
 // Package check runs the whole pipeline on one design: parse, build the
-// circuit model (with the files it includes), run the rules. It is what the
-// command line, the tests and the benchmarks call; all the I/O it does goes
-// through Options.ReadFile.
+// circuit model (with the files it includes), run the rules and their last
+// pass (package rules: merging, suppression, severities, sorting). It adds
+// no step of its own; it is what the command line, the tests and the
+// benchmarks call, and all the I/O it does goes through Options.ReadFile.
 package check
 
 import (
@@ -34,7 +35,7 @@ const collectAfterBuild = 8 << 20
 type Options struct {
 	Rules  []*rules.Analyzer // nil: rules.All
 	Config *rules.Config
-	// NoSuppress ignores allow comments (rules.Suppress) and reports
+	// NoSuppress ignores accept comments (rules.Suppress) and reports
 	// every finding.
 	NoSuppress bool
 	// ReadFile reads the checked file (for File) and every included file,
@@ -78,13 +79,11 @@ func Source(name string, src []byte, opt *Options) (*Result, error) {
 	fset := diag.NewFileSet()
 	file := fset.AddFile(name, src)
 	ast := grammar.ParseShared(name, src)
-	// The suppression pass needs only the comments; the tree itself (most
-	// of the memory a large design takes) is dropped once it is
-	// elaborated, before the rules and the solve run.
-	comments := ast.Comments
 	b := circuit.BuildFile(fset, file, src, ast, &circuit.Options{
 		ReadFile: opt.readFile(), MaxDepth: opt.MaxDepth, MaxParts: opt.MaxParts,
 	})
+	// The rules need only the comments (kept in b.Files); the tree itself,
+	// most of the memory a large design takes, is dropped here.
 	ast = nil
 	if len(src) >= collectAfterBuild {
 		// The tree is now garbage, but the collector paced itself on it:
@@ -97,16 +96,12 @@ func Source(name string, src []byte, opt *Options) (*Result, error) {
 	if as == nil {
 		as = rules.All
 	}
-	diags, results, err := rules.RunResults(fset, b, as, opt.Config)
-	solved, _ := results[rules.Solve].(*rules.SolveResult)
-	diags.Sort(fset)
-	diags = diags.Dedup()
-	if !opt.NoSuppress {
-		srcs := []rules.Source{{File: file, Src: src, Comments: comments}}
-		for _, f := range b.Included {
-			srcs = append(srcs, rules.Source{File: f.File, Src: f.Src, Comments: f.Comments})
-		}
-		diags = rules.Suppress(fset, srcs, diags, opt.Config, nil)
+	cfg := rules.Config{}
+	if opt.Config != nil {
+		cfg = *opt.Config
 	}
+	cfg.NoSuppress = cfg.NoSuppress || opt.NoSuppress
+	diags, results, err := rules.RunResults(fset, b, as, &cfg)
+	solved, _ := results[rules.Solve].(*rules.SolveResult)
 	return &Result{Fset: fset, Build: b, Diags: diags, Solved: solved}, err
 }

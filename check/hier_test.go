@@ -487,8 +487,8 @@ ch B (s, gnd)
 ch C (s, gnd)
 `
 	r := checkMem(t, map[string]string{"t.nodal": src}, "t.nodal", nil)
-	d := wantOne(t, r, "floating-net", "net spare of block ch touches only one pin in every instance (A.spare, B.spare, C.spare)", "C b")
-	if r.Fset.Position(d.Pos).Line != 4 || len(d.Related) != 3 {
+	d := wantOne(t, r, "floating-net", "net A.spare touches only one pin (pin b of A.C)", "inside block ch", "(and in 2 more instances)")
+	if r.Fset.Position(d.Pos).Line != 4 || len(d.Related) != 3 || d.Related[2].Message != "also in C (block ch)" {
 		t.Errorf("at %s with %d related, want line 4 and three instances", r.Fset.Position(d.Pos), len(d.Related))
 	}
 	// Near miss: one instance connects the net through a pin, so each of
@@ -535,7 +535,7 @@ ch C (s, gnd) [r = (0 * 3 kΩ)]
 `
 	r := checkMem(t, map[string]string{"t.nodal": src}, "t.nodal", nil)
 	d := wantOne(t, r, "bad-value", "A.R is 0 Ω", "and in 2 more instances")
-	if len(d.Related) != 1 {
+	if len(d.Related) != 3 || d.Related[0].Message != "in A (block ch)" || d.Related[1].Message != "also in B (block ch)" {
 		t.Errorf("related %v", d.Related)
 	}
 }

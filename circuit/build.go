@@ -15,23 +15,25 @@ import (
 // Result is a built design with what elaboration found.
 type Result struct {
 	Design *Design
-	Diags  diag.List
+	// Findings are the findings of elaboration, repeats across instances
+	// merged; package rules finishes them with the rules' own.
+	Findings []Finding
 	// Incomplete is set when a statement could not be placed in the design
 	// at all (unknown kind, wrong pins): connectivity is then not fully
 	// known and rules that reason about whole islands stay quiet.
 	Incomplete bool
 	// Invalid is set when a part has a value the solver cannot use.
 	Invalid bool
-	// Included lists the files brought in by include, in the order they
-	// were first read, each once.
-	Included []SourceFile
+	// Files lists the checked file and then the files brought in by
+	// include, in the order they were first read, each once.
+	Files []SourceFile
 	// Unsure holds the net names that a line which did not parse may have
 	// used: such a net may have more pins than the design shows.
 	Unsure map[string]bool
 }
 
-// SourceFile is an included file with its text and comments (for allow
-// comments and for quoting source lines).
+// SourceFile is a file of the design with its text and comments (for
+// accept comments and for quoting source lines).
 type SourceFile struct {
 	File     *diag.File
 	Src      []byte
@@ -63,7 +65,10 @@ func BuildFile(fset *diag.FileSet, file *diag.File, src []byte, ast *grammar.Fil
 	if b.opt.MaxParts <= 0 {
 		b.opt.MaxParts = DefaultMaxParts
 	}
+	b.found.Use(b.r.Design)
+	b.r.Files = append(b.r.Files, SourceFile{File: file, Src: src, Comments: ast.Comments})
 	b.run(ast)
+	b.r.Findings = b.found.All()
 	return b.r
 }
 
@@ -91,23 +96,10 @@ type builder struct {
 	count   int64 // parts and instances made so far
 	refused bool  // an instance was refused for the size limit
 
-	// Findings inside blocks are made once per instance; they are merged
-	// into one per statement, rule and rank within the statement.
-	merged   map[mergeKey]int
-	more     map[int]int
-	stmtSeen []ruleCount
-	probing  bool
-}
-
-type mergeKey struct {
-	pos  diag.Pos
-	rule string
-	nth  int
-}
-
-type ruleCount struct {
-	rule string
-	n    int
+	// Findings inside blocks are made once per instance; the collector
+	// merges the repeats as they come.
+	found   Findings
+	probing bool
 }
 
 func (b *builder) pos(p lexer.Position) diag.Pos { return b.file.Pos(clamp(p.Offset, b.file.Size())) }
@@ -122,36 +114,26 @@ func clamp(o, n int) int {
 	return o
 }
 
-func (b *builder) report(rule string, sev diag.Severity, pos, end diag.Pos, format string, args ...any) {
-	d := diag.Diagnostic{Pos: pos, End: end, Rule: rule, Severity: sev, Message: fmt.Sprintf(format, args...), Subject: b.subject}
+// report records a finding of elaboration with its rule's default
+// severity.
+func (b *builder) report(code Code, pos, end diag.Pos, format string, args ...any) {
+	b.reportSev(code, diag.Off, pos, end, format, args...)
+}
+
+// reportSev records a finding with the given severity (Off: the rule's
+// default). A finding made inside an instance (or while probing an unused
+// block) carries the instance's path, so that the collector merges its
+// repeats across instances.
+func (b *builder) reportSev(code Code, sev diag.Severity, pos, end diag.Pos, format string, args ...any) {
+	f := Finding{Diagnostic: diag.Diagnostic{Pos: pos, End: end, Rule: code.String(), Severity: sev,
+		Message: fmt.Sprintf(format, args...), Subject: b.subject}, Code: code, Inst: -1}
 	if sc := b.sc; sc != nil && (sc.inst >= 0 || b.probing) {
-		nth := 0
-		found := false
-		for i := range b.stmtSeen {
-			if b.stmtSeen[i].rule == rule {
-				b.stmtSeen[i].n++
-				nth = b.stmtSeen[i].n
-				found = true
-				break
-			}
-		}
-		if !found {
-			b.stmtSeen = append(b.stmtSeen, ruleCount{rule, 0})
-		}
-		key := mergeKey{pos, rule, nth}
-		if b.merged == nil {
-			b.merged, b.more = map[mergeKey]int{}, map[int]int{}
-		}
-		if i, ok := b.merged[key]; ok {
-			b.more[i]++
-			return
-		}
-		b.merged[key] = len(b.r.Diags)
+		f.Path = strings.TrimSuffix(sc.prefix, ".")
 		if !b.probing {
-			d.Related = b.r.Design.InstanceRelated(sc.inst)
+			f.Inst = sc.inst // the scratch design's instances are not kept
 		}
 	}
-	b.r.Diags.Add(d)
+	b.found.Add(f)
 }
 
 // where names a position for a message: "line 4" in the same file,
@@ -173,7 +155,7 @@ func (b *builder) syntaxErrors(ast *grammar.File) {
 		if end <= e.Offset {
 			end = e.Offset
 		}
-		b.report("syntax", diag.Error, b.file.Pos(clamp(e.Offset, b.file.Size())), b.file.Pos(clamp(end, b.file.Size())), "%s", e.Msg)
+		b.report(CodeSyntax, b.file.Pos(clamp(e.Offset, b.file.Size())), b.file.Pos(clamp(end, b.file.Size())), "%s", e.Msg)
 		b.r.Incomplete = true
 		for _, w := range e.Words {
 			if b.r.Unsure == nil {
@@ -237,7 +219,7 @@ func (b *builder) run(ast *grammar.File) {
 		switch {
 		case st.Design != nil:
 			if b.designPos.IsValid() {
-				b.report("duplicate-name", diag.Error, pos, end, "second design header; the file already has one (line %d)", b.file.Position(b.designPos).Line)
+				b.report(CodeDuplicateName, pos, end, "second design header; the file already has one (line %d)", b.file.Position(b.designPos).Line)
 				continue
 			}
 			b.designPos = pos
@@ -250,9 +232,9 @@ func (b *builder) run(ast *grammar.File) {
 			name := netName(n.Text)
 			if d.Ground != NoNet {
 				if d.Nets[d.Ground].Name == name {
-					b.report("extra-ground", diag.Warning, pos, end, "ground %s is already declared (line %d)", name, b.file.Position(b.groundStmt).Line)
+					b.reportSev(CodeExtraGround, diag.Warning, pos, end, "ground %s is already declared (line %d)", name, b.file.Position(b.groundStmt).Line)
 				} else {
-					b.report("extra-ground", diag.Error, pos, end, "second ground %s: the design already takes %s (line %d) as its 0 V reference; join the two with a wire if they are the same net", name, d.Nets[d.Ground].Name, b.file.Position(b.groundStmt).Line)
+					b.report(CodeExtraGround, pos, end, "second ground %s: the design already takes %s (line %d) as its 0 V reference; join the two with a wire if they are the same net", name, d.Nets[d.Ground].Name, b.file.Position(b.groundStmt).Line)
 				}
 				continue
 			}
@@ -274,10 +256,9 @@ func (b *builder) run(ast *grammar.File) {
 	}
 	b.probeUnused()
 	b.unusedBlocks()
-	b.finishMerged()
 	if d.Ground == NoNet && len(d.Parts) > 0 || d.Ground == NoNet && b.firstPart.IsValid() {
 		p := b.firstPart
-		b.report("no-ground", diag.Error, p, p, "the design has parts but no ground net; add a line such as \"ground gnd\" naming its 0 V reference")
+		b.report(CodeNoGround, p, p, "the design has parts but no ground net; add a line such as \"ground gnd\" naming its 0 V reference")
 	}
 }
 
@@ -307,7 +288,7 @@ func (b *builder) part(sc *scope, st *bodyStmt, nets []NetID) {
 	word := pt.Kind.Text
 	kind := st.kind
 	if len(pt.Params) > 0 {
-		b.report("syntax", diag.Error, b.pos(pt.Params[0].Pos), end, "%s %s: parameters in [ ] are for block instances, not built-in parts", word, name)
+		b.report(CodeSyntax, b.pos(pt.Params[0].Pos), end, "%s %s: parameters in [ ] are for block instances, not built-in parts", word, name)
 		b.countOnly(nets)
 		return
 	}
@@ -349,7 +330,7 @@ func (b *builder) countOnly(nets []NetID) {
 func (b *builder) pins(p *Part, pt *grammar.Part, nets []NetID, info *KindInfo) bool {
 	word := pt.Kind.Text
 	if len(pt.Pins) != 2 {
-		b.report("pin-count", diag.Error, p.Pos, p.End, "%s %s has %d pin(s); %s has two: (%s, %s)", word, p.Name, len(pt.Pins), article(p.Kind.String()), info.Pins[0], info.Pins[1])
+		b.report(CodePinCount, p.Pos, p.End, "%s %s has %d pin(s); %s has two: (%s, %s)", word, p.Name, len(pt.Pins), article(p.Kind.String()), info.Pins[0], info.Pins[1])
 		return false
 	}
 	var set [2]bool
@@ -363,15 +344,15 @@ func (b *builder) pins(p *Part, pt *grammar.Part, nets []NetID, info *KindInfo) 
 				}
 			}
 			if slot < 0 {
-				b.report("pin-count", diag.Error, p.Pos, p.End, "%s %s has no pin named %q; its pins are %s and %s", word, p.Name, pin.Label.Text, info.Pins[0], info.Pins[1])
+				b.report(CodePinCount, p.Pos, p.End, "%s %s has no pin named %q; its pins are %s and %s", word, p.Name, pin.Label.Text, info.Pins[0], info.Pins[1])
 				return false
 			}
 		} else if i > 0 && pt.Pins[0].Label != nil {
-			b.report("pin-count", diag.Error, p.Pos, p.End, "%s %s mixes named and positional pins; name both (%s=…, %s=…) or neither", word, p.Name, info.Pins[0], info.Pins[1])
+			b.report(CodePinCount, p.Pos, p.End, "%s %s mixes named and positional pins; name both (%s=…, %s=…) or neither", word, p.Name, info.Pins[0], info.Pins[1])
 			return false
 		}
 		if set[slot] {
-			b.report("pin-count", diag.Error, p.Pos, p.End, "%s %s binds pin %s twice", word, p.Name, info.Pins[slot])
+			b.report(CodePinCount, p.Pos, p.End, "%s %s binds pin %s twice", word, p.Name, info.Pins[slot])
 			return false
 		}
 		set[slot] = true
@@ -455,16 +436,16 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 	switch p.Kind {
 	case Wire:
 		if v != nil {
-			b.report("bad-value", diag.Error, p.Pos, p.End, "wire %s takes no value; a wire is a zero-ohm link (use a resistor for a resistance)", p.Name)
+			b.report(CodeBadValue, p.Pos, p.End, "wire %s takes no value; a wire is a zero-ohm link (use a resistor for a resistance)", p.Name)
 			return false
 		}
 		return true
 	case Switch:
 		if v == nil || v.Word == "" {
 			if v == nil {
-				b.report("missing-value", diag.Error, p.Pos, p.End, "switch %s needs its state: open or closed", p.Name)
+				b.report(CodeMissingValue, p.Pos, p.End, "switch %s needs its state: open or closed", p.Name)
 			} else {
-				b.report("bad-value", diag.Error, p.Pos, p.End, "switch %s: %s is not a switch state; write open or closed", p.Name, b.describe(v))
+				b.report(CodeBadValue, p.Pos, p.End, "switch %s: %s is not a switch state; write open or closed", p.Name, b.describe(v))
 			}
 			return false
 		}
@@ -472,7 +453,7 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 		return true
 	case Diode, LED:
 		if v != nil {
-			b.report("bad-value", diag.Error, p.Pos, p.End, "%s %s takes no plain value; give its forward voltage as \"vf 0.7 V at 10 mA\"", word, p.Name)
+			b.report(CodeBadValue, p.Pos, p.End, "%s %s takes no plain value; give its forward voltage as \"vf 0.7 V at 10 mA\"", word, p.Name)
 			return false
 		}
 		return true
@@ -487,11 +468,11 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 		default:
 			hint = " in " + info.Value.Symbol()
 		}
-		b.report("missing-value", diag.Error, p.Pos, p.End, "%s %s needs a value%s", word, p.Name, hint)
+		b.report(CodeMissingValue, p.Pos, p.End, "%s %s needs a value%s", word, p.Name, hint)
 		return false
 	}
 	if v.Word != "" {
-		b.report("bad-value", diag.Error, p.Pos, p.End, "%s %s: %s is a switch state, not a %s", word, p.Name, v.Word, info.Value.Noun())
+		b.report(CodeBadValue, p.Pos, p.End, "%s %s: %s is a switch state, not a %s", word, p.Name, v.Word, info.Value.Noun())
 		return false
 	}
 	if w := unitWord(pt); w != "" {
@@ -501,20 +482,20 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 		if err == nil {
 			err = &units.Error{Msg: fmt.Sprintf("%q is not a unit", v.Num+" "+w)}
 		}
-		b.report("unit-mismatch", diag.Error, p.Pos, p.End, "%s %s: %s", word, p.Name, err)
+		b.report(CodeUnitMismatch, p.Pos, p.End, "%s %s: %s", word, p.Name, err)
 		return false
 	}
 	q, err := b.quantity(v)
 	if err != nil {
 		rule, silent := errRule(err)
 		if !silent {
-			b.report(rule, diag.Error, p.Pos, p.End, "%s %s: %s", word, p.Name, err)
+			b.report(rule, p.Pos, p.End, "%s %s: %s", word, p.Name, err)
 		}
 		return false
 	}
 	um := b.unitRule(v)
 	if q.Percent {
-		b.report(um, diag.Error, p.Pos, p.End, "%s %s: %s is a percentage; %% belongs to tol", word, p.Name, b.describe(v))
+		b.report(um, p.Pos, p.End, "%s %s: %s is a percentage; %% belongs to tol", word, p.Name, b.describe(v))
 		return false
 	}
 	if p.Kind == VoltageSource {
@@ -523,10 +504,10 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 		case units.Current:
 			p.Kind = CurrentSource
 		case units.None:
-			b.report(um, diag.Error, p.Pos, p.End, "source %s: %s has no unit; write %s V for a voltage source or %s A for a current source", p.Name, b.describe(v), b.describe(v), b.describe(v))
+			b.report(um, p.Pos, p.End, "source %s: %s has no unit; write %s V for a voltage source or %s A for a current source", p.Name, b.describe(v), b.describe(v), b.describe(v))
 			return false
 		default:
-			b.report(um, diag.Error, p.Pos, p.End, "source %s: %s is a %s; a source is given in V (voltage source) or A (current source)", p.Name, b.describe(v), q.Dim.Noun())
+			b.report(um, p.Pos, p.End, "source %s: %s is a %s; a source is given in V (voltage source) or A (current source)", p.Name, b.describe(v), q.Dim.Noun())
 			return false
 		}
 		p.Value = q.Value
@@ -534,9 +515,9 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 	}
 	if q.Dim != info.Value {
 		if q.Dim == units.None {
-			b.report(um, diag.Error, p.Pos, p.End, "%s %s: %s has no unit; write %s %s", word, p.Name, b.describe(v), b.describe(v), info.Value.Symbol())
+			b.report(um, p.Pos, p.End, "%s %s: %s has no unit; write %s %s", word, p.Name, b.describe(v), b.describe(v), info.Value.Symbol())
 		} else {
-			b.report(um, diag.Error, p.Pos, p.End, "%s %s is given as a %s (%s); %s takes a %s in %s", word, p.Name, q.Dim.Noun(), b.describeQ(v, q), article(word), info.Value.Noun(), info.Value.Symbol())
+			b.report(um, p.Pos, p.End, "%s %s is given as a %s (%s); %s takes a %s in %s", word, p.Name, q.Dim.Noun(), b.describeQ(v, q), article(word), info.Value.Noun(), info.Value.Symbol())
 		}
 		return false
 	}
@@ -544,9 +525,9 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 	if q.Value <= 0 {
 		switch {
 		case p.Kind == Resistor && q.Value == 0:
-			b.report("bad-value", diag.Error, p.Pos, p.End, "resistor %s is 0 Ω; use a wire for a zero-ohm link", p.Name)
+			b.report(CodeBadValue, p.Pos, p.End, "resistor %s is 0 Ω; use a wire for a zero-ohm link", p.Name)
 		default:
-			b.report("bad-value", diag.Error, p.Pos, p.End, "%s %s: %s %s must be positive", word, p.Name, info.Value.Noun(), units.Format(q.Value, q.Dim))
+			b.report(CodeBadValue, p.Pos, p.End, "%s %s: %s %s must be positive", word, p.Name, info.Value.Noun(), units.Format(q.Value, q.Dim))
 		}
 		return false
 	}
@@ -582,8 +563,8 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
 	word := pt.Kind.Text
 	ok := true
 	seen := map[string]bool{}
-	bad := func(rule, format string, args ...any) {
-		b.report(rule, diag.Error, p.Pos, p.End, "%s %s: %s", word, p.Name, fmt.Sprintf(format, args...))
+	bad := func(rule Code, format string, args ...any) {
+		b.report(rule, p.Pos, p.End, "%s %s: %s", word, p.Name, fmt.Sprintf(format, args...))
 		ok = false
 	}
 	attrs := pt.Attrs
@@ -595,28 +576,28 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
 		kinds, knownAttr := attrKinds[key]
 		if !knownAttr {
 			msg := fmt.Sprintf("unknown attribute %q; attributes are tol, rated, vf … at, ideality, series, dcr", key)
-			bad("bad-attribute", "%s", msg)
+			bad(CodeBadAttribute, "%s", msg)
 			continue
 		}
 		if key != "rated" && !contains(info.Attrs, key) {
-			bad("bad-attribute", "%s takes no %s (%s is for: %s)", article(p.Kind.String()), key, key, kinds)
+			bad(CodeBadAttribute, "%s takes no %s (%s is for: %s)", article(p.Kind.String()), key, key, kinds)
 			continue
 		}
 		if seen[key] {
-			bad("bad-attribute", "%s is given twice", key)
+			bad(CodeBadAttribute, "%s is given twice", key)
 			continue
 		}
 		seen[key] = true
 		if a.At != nil && key != "vf" {
-			bad("bad-attribute", "only vf takes \"at\" (vf 2.0 V at 20 mA)")
+			bad(CodeBadAttribute, "only vf takes \"at\" (vf 2.0 V at 20 mA)")
 			continue
 		}
 		if len(a.Values) == 0 {
-			bad("missing-value", "%s needs a value", key)
+			bad(CodeMissingValue, "%s needs a value", key)
 			continue
 		}
 		if key != "rated" && len(a.Values) > 1 {
-			bad("bad-attribute", "%s takes one value", key)
+			bad(CodeBadAttribute, "%s takes one value", key)
 			continue
 		}
 		qs := make([]units.Quantity, len(a.Values))
@@ -647,7 +628,7 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
 			if !q.Percent {
 				bad(um, "tol %s must be a percentage, e.g. tol 5%%", b.describe(a.Values[0]))
 			} else if q.Value < 0 || q.Value > 1 {
-				bad("bad-value", "tol %s is outside 0 %% … 100 %%", units.FormatPercent(q.Value))
+				bad(CodeBadValue, "tol %s is outside 0 %% … 100 %%", units.FormatPercent(q.Value))
 			} else {
 				p.Tol = q.Value
 			}
@@ -655,7 +636,7 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
 			if q.Dim != units.Resistance || q.Percent {
 				bad(um, "%s %s must be a resistance in Ω", key, b.describe(a.Values[0]))
 			} else if q.Value < 0 {
-				bad("bad-value", "%s %s must not be negative", key, units.Format(q.Value, q.Dim))
+				bad(CodeBadValue, "%s %s must not be negative", key, units.Format(q.Value, q.Dim))
 			} else if key == "dcr" {
 				p.DCR = q.Value
 			} else {
@@ -665,7 +646,7 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
 			if q.Dim != units.None || q.Percent {
 				bad(um, "ideality is a plain number (1 to 2 for most junctions), not %s", b.describe(a.Values[0]))
 			} else if q.Value <= 0 {
-				bad("bad-value", "ideality %g must be positive", q.Value)
+				bad(CodeBadValue, "ideality %g must be positive", q.Value)
 			} else {
 				p.Ideality = q.Value
 			}
@@ -675,7 +656,7 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
 				continue
 			}
 			if a.At == nil {
-				bad("missing-value", "vf needs the current it is measured at: vf %s at 10 mA", b.describe(a.Values[0]))
+				bad(CodeMissingValue, "vf needs the current it is measured at: vf %s at 10 mA", b.describe(a.Values[0]))
 				continue
 			}
 			at, err := b.quantity(a.At)
@@ -692,7 +673,7 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
 				continue
 			}
 			if q.Value <= 0 || at.Value <= 0 {
-				bad("bad-value", "vf %s at %s: both must be positive", units.Format(q.Value, units.Voltage), units.Format(at.Value, units.Current))
+				bad(CodeBadValue, "vf %s at %s: both must be positive", units.Format(q.Value, units.Voltage), units.Format(at.Value, units.Current))
 				continue
 			}
 			p.VF, p.VFAt = q.Value, at.Value
@@ -703,7 +684,7 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
 					continue
 				}
 				if r.Value <= 0 {
-					bad("bad-value", "rated %s must be positive", units.Format(r.Value, r.Dim))
+					bad(CodeBadValue, "rated %s must be positive", units.Format(r.Value, r.Dim))
 					continue
 				}
 				var slot *float64
@@ -716,7 +697,7 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
 					slot = &p.RatedCurrent
 				}
 				if *slot != 0 {
-					bad("bad-attribute", "rated gives two %s ratings", r.Dim.Noun())
+					bad(CodeBadAttribute, "rated gives two %s ratings", r.Dim.Noun())
 					continue
 				}
 				*slot = r.Value
@@ -724,7 +705,7 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
 		}
 	}
 	if (p.Kind == Diode || p.Kind == LED) && p.VF == 0 && !seen["vf"] {
-		bad("missing-value", "needs its forward voltage: vf 0.7 V at 10 mA")
+		bad(CodeMissingValue, "needs its forward voltage: vf 0.7 V at 10 mA")
 	}
 	return ok
 }
@@ -770,25 +751,25 @@ func dimList(list []units.Dim) string {
 // errRule returns the rule an evaluation error is reported under, and
 // whether it is to be kept quiet (a parameter that already has a finding of
 // its own).
-func errRule(err error) (string, bool) {
+func errRule(err error) (Code, bool) {
 	if ee, ok := err.(*ExprError); ok {
-		return ee.Rule, ee.Rule == ""
+		return ee.Code, ee.Code == NoCode
 	}
 	if ue, ok := err.(*units.Error); ok && (strings.Contains(ue.Msg, "unit") || strings.Contains(ue.Msg, "prefix")) {
-		return "unit-mismatch", false
+		return CodeUnitMismatch, false
 	}
-	return "bad-value", false
+	return CodeBadValue, false
 }
 
 // unitRule is the rule for a value in the wrong unit: param-unit when the
 // value was computed by an expression, unit-mismatch when it was written.
-func (b *builder) unitRule(vs ...*grammar.Value) string {
+func (b *builder) unitRule(vs ...*grammar.Value) Code {
 	for _, v := range vs {
 		if v != nil && (v.Expr != nil || v.Param != nil) {
-			return "param-unit"
+			return CodeParamUnit
 		}
 	}
-	return "unit-mismatch"
+	return CodeUnitMismatch
 }
 
 // describeQ is describe, with the computed value of an expression.

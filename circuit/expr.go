@@ -8,12 +8,13 @@ import (
 	"nodal/units"
 )
 
-// ExprError is an expression that cannot be evaluated. Rule is the rule id
-// it is reported under: param-unit for units that do not fit together,
-// bad-value for a division by zero or a result too large to represent,
-// unknown-param for a name that is not a parameter in scope.
+// ExprError is an expression that cannot be evaluated. Code is the rule it
+// is reported under: CodeParamUnit for units that do not fit together,
+// CodeBadValue for a division by zero or a result too large to represent,
+// CodeUnknownParam for a name that is not a parameter in scope; NoCode
+// when the trouble has been reported already.
 type ExprError struct {
-	Rule   string
+	Code   Code
 	Msg    string
 	Offset int // byte offset of the offending part of the expression
 	Name   string
@@ -35,7 +36,7 @@ func Eval(e *grammar.Expr, look Lookup) (units.Quantity, error) {
 		return q, err
 	}
 	if math.IsInf(q.Value, 0) || math.IsNaN(q.Value) {
-		return q, &ExprError{Rule: "bad-value", Msg: "the result is too large to represent", Offset: e.Pos.Offset}
+		return q, &ExprError{Code: CodeBadValue, Msg: "the result is too large to represent", Offset: e.Pos.Offset}
 	}
 	return q, nil
 }
@@ -64,7 +65,7 @@ func evalExpr(e *grammar.Expr, look Lookup) (units.Quantity, error) {
 			if ot.Op == "-" {
 				verb = "subtract"
 			}
-			return acc, &ExprError{Rule: "param-unit", Offset: termPos(ot.Term),
+			return acc, &ExprError{Code: CodeParamUnit, Offset: termPos(ot.Term),
 				Msg: fmt.Sprintf("cannot %s a %s (%s) and a %s (%s)", verb, noun(acc), acc, noun(r), r)}
 		}
 		if ot.Op == "+" {
@@ -87,11 +88,11 @@ func evalTerm(t *grammar.Term, look Lookup) (units.Quantity, error) {
 			return r, err
 		}
 		if acc.Percent && r.Percent && of.Op == "*" {
-			return acc, &ExprError{Rule: "param-unit", Offset: of.Factor.Pos.Offset,
+			return acc, &ExprError{Code: CodeParamUnit, Offset: of.Factor.Pos.Offset,
 				Msg: fmt.Sprintf("cannot multiply two percentages (%s × %s); write one of them as a plain number", acc, r)}
 		}
 		if (acc.Percent || r.Percent) && (acc.Dim != units.None || r.Dim != units.None) {
-			return acc, &ExprError{Rule: "param-unit", Offset: of.Factor.Pos.Offset,
+			return acc, &ExprError{Code: CodeParamUnit, Offset: of.Factor.Pos.Offset,
 				Msg: fmt.Sprintf("a percentage combines only with plain numbers, not with %s (%s)", noun(pick(acc, r)), pick(acc, r))}
 		}
 		if of.Op == "*" {
@@ -101,7 +102,7 @@ func evalTerm(t *grammar.Term, look Lookup) (units.Quantity, error) {
 			continue
 		}
 		if r.Value == 0 {
-			return acc, &ExprError{Rule: "bad-value", Offset: of.Factor.Pos.Offset,
+			return acc, &ExprError{Code: CodeBadValue, Offset: of.Factor.Pos.Offset,
 				Msg: fmt.Sprintf("division by zero: the divisor is %s", r)}
 		}
 		acc.Value /= r.Value
@@ -131,13 +132,13 @@ func evalFactor(f *grammar.Factor, look Lookup) (units.Quantity, error) {
 	case f.Code != "":
 		q, ok := units.ParseCode(f.Code)
 		if !ok {
-			return q, &ExprError{Rule: "bad-value", Offset: f.Pos.Offset, Msg: fmt.Sprintf("%q is not a resistor code", f.Code)}
+			return q, &ExprError{Code: CodeBadValue, Offset: f.Pos.Offset, Msg: fmt.Sprintf("%q is not a resistor code", f.Code)}
 		}
 		return q, nil
 	}
 	q, err := units.Parse(f.Num, f.Unit)
 	if err != nil {
-		return q, &ExprError{Rule: "param-unit", Offset: f.Pos.Offset, Msg: err.Error()}
+		return q, &ExprError{Code: CodeParamUnit, Offset: f.Pos.Offset, Msg: err.Error()}
 	}
 	return q, nil
 }
@@ -148,7 +149,7 @@ func evalRef(r *grammar.Ref, look Lookup) (units.Quantity, error) {
 			return q, nil
 		}
 	}
-	return units.Quantity{}, &ExprError{Rule: "unknown-param", Offset: r.Pos.Offset, Name: r.Text,
+	return units.Quantity{}, &ExprError{Code: CodeUnknownParam, Offset: r.Pos.Offset, Name: r.Text,
 		Msg: fmt.Sprintf("no parameter named %s", r.Text)}
 }
 

@@ -31,7 +31,7 @@ func TestEval(t *testing.T) {
 		value   float64
 		dim     units.Dim
 		percent bool
-		rule    string // expected error rule, "" for none
+		code    Code // expected error code, NoCode for none
 		msg     string
 	}{
 		// Ohm's law, V = I·R (Ohm, Die galvanische Kette, mathematisch
@@ -58,15 +58,15 @@ func TestEval(t *testing.T) {
 		// A resistance divided by a current is no electrical quantity the
 		// language names, but is a valid intermediate.
 		{expr: "r / i", value: 1e6, dim: units.Dim{V: 1, A: -2}},
-		{expr: "1 V + 1 A", rule: "param-unit", msg: "cannot add a voltage (1.00 V) and a current (1.00 A)"},
-		{expr: "r - vdrop", rule: "param-unit", msg: "cannot subtract a resistance"},
-		{expr: "t + 1", rule: "param-unit", msg: "percentage"},
-		{expr: "t * 1 V", rule: "param-unit", msg: "a percentage combines only with plain numbers"},
-		{expr: "t * t", rule: "param-unit", msg: "cannot multiply two percentages"},
-		{expr: "1 V / 0 A", rule: "bad-value", msg: "division by zero"},
-		{expr: "vdrop / (i - 10 mA)", rule: "bad-value", msg: "division by zero"},
-		{expr: "1e300 V * 1e300", rule: "bad-value", msg: "too large"},
-		{expr: "rr * 2", rule: "unknown-param", msg: "no parameter named rr"},
+		{expr: "1 V + 1 A", code: CodeParamUnit, msg: "cannot add a voltage (1.00 V) and a current (1.00 A)"},
+		{expr: "r - vdrop", code: CodeParamUnit, msg: "cannot subtract a resistance"},
+		{expr: "t + 1", code: CodeParamUnit, msg: "percentage"},
+		{expr: "t * 1 V", code: CodeParamUnit, msg: "a percentage combines only with plain numbers"},
+		{expr: "t * t", code: CodeParamUnit, msg: "cannot multiply two percentages"},
+		{expr: "1 V / 0 A", code: CodeBadValue, msg: "division by zero"},
+		{expr: "vdrop / (i - 10 mA)", code: CodeBadValue, msg: "division by zero"},
+		{expr: "1e300 V * 1e300", code: CodeBadValue, msg: "too large"},
+		{expr: "rr * 2", code: CodeUnknownParam, msg: "no parameter named rr"},
 		{expr: "1 kΩ / 1 Ω", value: 1000, dim: units.None},
 		// Resistor codes of IEC 60062: R47 is 0.47 Ω, 4k7 is 4.7 kΩ.
 		{expr: "2 * R47", value: 0.94, dim: units.Resistance},
@@ -75,13 +75,13 @@ func TestEval(t *testing.T) {
 	for _, c := range cases {
 		t.Run(c.expr, func(t *testing.T) {
 			q, err := Eval(parseExpr(t, c.expr), look)
-			if c.rule != "" {
+			if c.code != NoCode {
 				ee, ok := err.(*ExprError)
 				if !ok {
-					t.Fatalf("want a %s error, got %v (%v)", c.rule, err, q)
+					t.Fatalf("want a %s error, got %v (%v)", c.code, err, q)
 				}
-				if ee.Rule != c.rule || !strings.Contains(ee.Msg, c.msg) {
-					t.Errorf("got [%s] %q, want [%s] containing %q", ee.Rule, ee.Msg, c.rule, c.msg)
+				if ee.Code != c.code || !strings.Contains(ee.Msg, c.msg) {
+					t.Errorf("got [%s] %q, want [%s] containing %q", ee.Code, ee.Msg, c.code, c.msg)
 				}
 				return
 			}
@@ -112,7 +112,7 @@ func TestEvalValueLoneParameter(t *testing.T) {
 		t.Errorf("EvalValue = %v, %v; want %v", q, err, want)
 	}
 	_, err = EvalValue(v, nil)
-	if ee, ok := err.(*ExprError); !ok || ee.Rule != "unknown-param" || ee.Name != "rtop" {
+	if ee, ok := err.(*ExprError); !ok || ee.Code != CodeUnknownParam || ee.Name != "rtop" {
 		t.Errorf("without parameters: %v, want an unknown-param error naming rtop", err)
 	}
 }

@@ -145,13 +145,13 @@ func (b *builder) collect(ast *grammar.File, stack []string) []*grammar.Statemen
 		switch {
 		case st.Block != nil:
 			if open != nil {
-				b.report("syntax", diag.Error, open.pos, open.end, "block %s is not closed before block %s starts (line %d); blocks do not nest: add a line with } after its last statement", open.name, st.Block.Name.Text, b.file.Position(pos).Line)
+				b.report(CodeSyntax, open.pos, open.end, "block %s is not closed before block %s starts (line %d); blocks do not nest: add a line with } after its last statement", open.name, st.Block.Name.Text, b.file.Position(pos).Line)
 				b.r.Incomplete = true
 			}
 			open = b.define(st.Block, pos, end, lib)
 		case st.Close != nil:
 			if open == nil {
-				b.report("syntax", diag.Error, pos, end, "} closes no block")
+				b.report(CodeSyntax, pos, end, "} closes no block")
 				b.r.Incomplete = true
 				continue
 			}
@@ -159,7 +159,7 @@ func (b *builder) collect(ast *grammar.File, stack []string) []*grammar.Statemen
 			open = nil
 		case st.Include != nil:
 			if open != nil {
-				b.report("syntax", diag.Error, pos, end, "include belongs at the top level of a file, not inside block %s", open.name)
+				b.report(CodeSyntax, pos, end, "include belongs at the top level of a file, not inside block %s", open.name)
 				continue
 			}
 			b.include(st.Include, pos, end, stack)
@@ -179,13 +179,13 @@ func (b *builder) collect(ast *grammar.File, stack []string) []*grammar.Statemen
 			} else if what == "port" {
 				msg += "; a block's pins are its ports"
 			}
-			b.report("syntax", diag.Error, pos, end, "%s", msg)
+			b.report(CodeSyntax, pos, end, "%s", msg)
 		default:
 			top = append(top, st)
 		}
 	}
 	if open != nil {
-		b.report("syntax", diag.Error, open.pos, open.end, "block %s is not closed; add a line with } after its last statement", open.name)
+		b.report(CodeSyntax, open.pos, open.end, "block %s is not closed; add a line with } after its last statement", open.name)
 		b.r.Incomplete = true
 	}
 	return top
@@ -195,11 +195,11 @@ func (b *builder) collect(ast *grammar.File, stack []string) []*grammar.Statemen
 func (b *builder) define(h *grammar.Block, pos, end diag.Pos, lib bool) *blockDef {
 	bd := &blockDef{name: h.Name.Text, file: b.file, pos: pos, end: end, nameEnd: b.nameEnd(h.Name), header: h, lib: lib}
 	if _, builtin := kindOf(bd.name); builtin {
-		b.report("duplicate-name", diag.Error, pos, end, "block %s has the name of a built-in kind; choose another name", bd.name)
+		b.report(CodeDuplicateName, pos, end, "block %s has the name of a built-in kind; choose another name", bd.name)
 		return bd // defined, but never found by name
 	}
 	if prev, dup := b.blocks[bd.name]; dup {
-		b.report("duplicate-name", diag.Error, pos, end, "block %s is already defined at %s", bd.name, b.where(prev.pos))
+		b.report(CodeDuplicateName, pos, end, "block %s is already defined at %s", bd.name, b.where(prev.pos))
 		return bd
 	}
 	b.blocks[bd.name] = bd
@@ -211,7 +211,7 @@ func (b *builder) define(h *grammar.Block, pos, end diag.Pos, lib bool) *blockDe
 func (b *builder) include(inc *grammar.Include, pos, end diag.Pos, stack []string) {
 	rel := unquote(inc.Path.Text)
 	if strings.TrimSpace(rel) == "" {
-		b.report("bad-include", diag.Error, pos, end, "include needs a file name")
+		b.report(CodeBadInclude, pos, end, "include needs a file name")
 		b.r.Incomplete = true
 		return
 	}
@@ -223,7 +223,7 @@ func (b *builder) include(inc *grammar.Include, pos, end diag.Pos, stack []strin
 	for i, s := range stack {
 		if s == path {
 			chain := append(append([]string{}, stack[i:]...), path)
-			b.report("bad-include", diag.Error, pos, end, "include cycle: %s", strings.Join(chain, " → "))
+			b.report(CodeBadInclude, pos, end, "include cycle: %s", strings.Join(chain, " → "))
 			b.r.Incomplete = true
 			return
 		}
@@ -232,7 +232,7 @@ func (b *builder) include(inc *grammar.Include, pos, end diag.Pos, stack []strin
 		return // already brought in by another include
 	}
 	if b.opt.ReadFile == nil || b.fset == nil {
-		b.report("bad-include", diag.Error, pos, end, "cannot include %s: this check reads no files", showPath(rel))
+		b.report(CodeBadInclude, pos, end, "cannot include %s: this check reads no files", showPath(rel))
 		b.r.Incomplete = true
 		return
 	}
@@ -242,15 +242,15 @@ func (b *builder) include(inc *grammar.Include, pos, end diag.Pos, stack []strin
 		if errors.Is(err, fs.ErrNotExist) {
 			msg = fmt.Sprintf("included file %s does not exist (an include path is relative to the file that includes it)", showPath(path))
 		}
-		b.report("bad-include", diag.Error, pos, end, "%s", msg)
+		b.report(CodeBadInclude, pos, end, "%s", msg)
 		b.r.Incomplete = true
 		return
 	}
 	b.included[path] = true
 	file := b.fset.AddFile(path, src)
 	b.srcs[file] = src
-	ast := grammar.ParseShared(path, src) // src is kept unchanged in b.r.Included
-	b.r.Included = append(b.r.Included, SourceFile{File: file, Src: src, Comments: ast.Comments})
+	ast := grammar.ParseShared(path, src) // src is kept unchanged in b.r.Files
+	b.r.Files = append(b.r.Files, SourceFile{File: file, Src: src, Comments: ast.Comments})
 	saved := b.file
 	b.file = file
 	b.syntaxErrors(ast)
@@ -276,7 +276,7 @@ func (b *builder) prepareHeader(bd *blockDef) {
 		for _, pn := range h.Pins {
 			name := netName(pn.Text)
 			if _, dup := bd.pinIndex[name]; dup {
-				b.report("block-pin", diag.Error, b.pos(pn.Pos), b.nameEnd(pn), "block %s lists pin %s twice", bd.name, name)
+				b.report(CodeBlockPin, b.pos(pn.Pos), b.nameEnd(pn), "block %s lists pin %s twice", bd.name, name)
 				continue
 			}
 			bd.pinIndex[name] = len(bd.pins)
@@ -287,13 +287,13 @@ func (b *builder) prepareHeader(bd *blockDef) {
 		for _, a := range h.Params {
 			name := a.Name.Text
 			if _, dup := bd.parIndex[name]; dup {
-				b.report("duplicate-name", diag.Error, b.pos(a.Pos), b.pos(a.EndPos), "block %s lists parameter %s twice", bd.name, name)
+				b.report(CodeDuplicateName, b.pos(a.Pos), b.pos(a.EndPos), "block %s lists parameter %s twice", bd.name, name)
 				continue
 			}
 			if why := grammar.ParamNameTrouble(name); why != "" {
 				// Kept as a parameter, so that instances setting it are
 				// not reported again; the block's statements cannot name it.
-				b.report("syntax", diag.Error, b.pos(a.Pos), b.nameEnd(a.Name), "parameter %s of block %s: %s, so it cannot stand for a value; rename it (for example %s)", name, bd.name, why, paramRename(name))
+				b.report(CodeSyntax, b.pos(a.Pos), b.nameEnd(a.Name), "parameter %s of block %s: %s, so it cannot stand for a value; rename it (for example %s)", name, bd.name, why, paramRename(name))
 			}
 			bd.parIndex[name] = len(bd.params)
 			bd.params = append(bd.params, paramDef{name: name, def: a.Value, pos: b.pos(a.Pos), end: b.pos(a.EndPos)})
@@ -391,7 +391,7 @@ func (b *builder) prepare(bd *blockDef) {
 			if prev.blk == nil {
 				what = prev.kind.String()
 			}
-			b.report("duplicate-name", diag.Error, st.pos, st.end, "part name %s is already used by the %s on line %d", pt.Name.Text, what, b.file.Position(prev.pos).Line)
+			b.report(CodeDuplicateName, st.pos, st.end, "part name %s is already used by the %s on line %d", pt.Name.Text, what, b.file.Position(prev.pos).Line)
 			st.ok = false
 			continue
 		}
@@ -402,7 +402,7 @@ func (b *builder) prepare(bd *blockDef) {
 	}
 	for j, used := range pinUsed {
 		if !used {
-			b.report("floating-net", diag.Warning, bd.pinPos[j], bd.pinPos[j]+diag.Pos(len(bd.pins[j])), "pin %s of block %s is connected to nothing inside the block; connect it, or remove it from the pin list", bd.pins[j], bd.name)
+			b.reportSev(CodeFloatingNet, diag.Warning, bd.pinPos[j], bd.pinPos[j]+diag.Pos(len(bd.pins[j])), "pin %s of block %s is connected to nothing inside the block; connect it, or remove it from the pin list", bd.pins[j], bd.name)
 		}
 	}
 }
@@ -422,13 +422,13 @@ func (b *builder) defaultUnits(bd *blockDef) {
 			continue
 		}
 		if pd.def.Word != "" {
-			b.report("param-unit", diag.Error, pd.pos, pd.end, "parameter %s of block %s: %s is a switch state; parameters are quantities", pd.name, bd.name, pd.def.Word)
+			b.report(CodeParamUnit, pd.pos, pd.end, "parameter %s of block %s: %s is a switch state; parameters are quantities", pd.name, bd.name, pd.def.Word)
 			continue
 		}
 		q, err := b.quantity(pd.def)
 		if err != nil {
 			if rule, silent := errRule(err); !silent {
-				b.report(rule, diag.Error, pd.pos, pd.end, "parameter %s of block %s: %s", pd.name, bd.name, err)
+				b.report(rule, pd.pos, pd.end, "parameter %s of block %s: %s", pd.name, bd.name, err)
 			}
 			continue
 		}
@@ -446,11 +446,11 @@ func (b *builder) unknownKind(bd *blockDef, st *bodyStmt) {
 		blockNames = append(blockNames, c.name)
 	}
 	if s := diag.Suggest(word, blockNames); s != "" {
-		b.report("unknown-block", diag.Error, st.pos, st.end, "unknown block %q for %s; did you mean block %s?", word, name, s)
+		b.report(CodeUnknownBlock, st.pos, st.end, "unknown block %q for %s; did you mean block %s?", word, name, s)
 		return
 	}
 	if s := diag.Suggest(word, KindWords); s != "" {
-		b.report("unknown-kind", diag.Error, st.pos, st.end, "unknown part kind %q for %s; did you mean %q?", word, name, s)
+		b.report(CodeUnknownKind, st.pos, st.end, "unknown part kind %q for %s; did you mean %q?", word, name, s)
 		return
 	}
 	if len(blockNames) > 0 || len(st.pt.Params) > 0 {
@@ -460,10 +460,10 @@ func (b *builder) unknownKind(bd *blockDef, st *bodyStmt) {
 		} else {
 			msg += "; no block is defined or included"
 		}
-		b.report("unknown-block", diag.Error, st.pos, st.end, "%s", msg)
+		b.report(CodeUnknownBlock, st.pos, st.end, "%s", msg)
 		return
 	}
-	b.report("unknown-kind", diag.Error, st.pos, st.end, "unknown part kind %q for %s; kinds are %s", word, name, strings.Join(KindWords, ", "))
+	b.report(CodeUnknownKind, st.pos, st.end, "unknown part kind %q for %s; kinds are %s", word, name, strings.Join(KindWords, ", "))
 }
 
 func listWords(ws []string, max int) string {
@@ -481,7 +481,7 @@ func (b *builder) bindInstance(bd *blockDef, st *bodyStmt) bool {
 	ok := true
 	pinList := "(" + strings.Join(c.pins, ", ") + ")"
 	if len(pt.Pins) != len(c.pins) {
-		b.report("block-pin", diag.Error, st.pos, st.end, "instance %s binds %d net(s); block %s has %d pin(s): %s", inst, len(pt.Pins), c.name, len(c.pins), pinList)
+		b.report(CodeBlockPin, st.pos, st.end, "instance %s binds %d net(s); block %s has %d pin(s): %s", inst, len(pt.Pins), c.name, len(c.pins), pinList)
 		return false
 	}
 	st.bind = make([]int, len(c.pins))
@@ -492,7 +492,7 @@ func (b *builder) bindInstance(bd *blockDef, st *bodyStmt) bool {
 	for i, pin := range pt.Pins {
 		slot := i
 		if (pin.Label != nil) != named {
-			b.report("block-pin", diag.Error, st.pos, st.end, "instance %s mixes named and positional pins; name every pin (%s=…) or none", inst, c.pins[0])
+			b.report(CodeBlockPin, st.pos, st.end, "instance %s mixes named and positional pins; name every pin (%s=…) or none", inst, c.pins[0])
 			return false
 		}
 		if pin.Label != nil {
@@ -502,19 +502,19 @@ func (b *builder) bindInstance(bd *blockDef, st *bodyStmt) bool {
 				if s := diag.Suggest(pin.Label.Text, c.pins); s != "" {
 					msg += fmt.Sprintf("; did you mean %s?", s)
 				}
-				b.report("block-pin", diag.Error, st.pos, st.end, "instance %s: %s", inst, msg)
+				b.report(CodeBlockPin, st.pos, st.end, "instance %s: %s", inst, msg)
 				return false
 			}
 			slot = j
 		}
 		if st.bind[slot] >= 0 {
-			b.report("block-pin", diag.Error, st.pos, st.end, "instance %s binds pin %s of block %s twice", inst, c.pins[slot], c.name)
+			b.report(CodeBlockPin, st.pos, st.end, "instance %s binds pin %s of block %s twice", inst, c.pins[slot], c.name)
 			return false
 		}
 		st.bind[slot] = i
 	}
 	if pt.Value != nil || len(pt.Attrs) > 0 {
-		b.report("unknown-param", diag.Error, st.pos, st.end, "instance %s of block %s takes no value or attributes after its pins; give its parameters in [ ]: %s", inst, c.name, paramList(c))
+		b.report(CodeUnknownParam, st.pos, st.end, "instance %s of block %s takes no value or attributes after its pins; give its parameters in [ ]: %s", inst, c.name, paramList(c))
 		st.valueErr = true
 	}
 	st.assign = make([]int, len(c.params))
@@ -539,18 +539,18 @@ func (b *builder) bindInstance(bd *blockDef, st *bodyStmt) bool {
 			} else {
 				msg += "; it takes none"
 			}
-			b.report("unknown-param", diag.Error, apos, aend, "instance %s: %s", inst, msg)
+			b.report(CodeUnknownParam, apos, aend, "instance %s: %s", inst, msg)
 		case st.assign[j] >= 0:
-			b.report("duplicate-name", diag.Error, apos, aend, "instance %s gives parameter %s twice", inst, name)
+			b.report(CodeDuplicateName, apos, aend, "instance %s gives parameter %s twice", inst, name)
 		case a.Value == nil:
-			b.report("missing-param", diag.Error, apos, aend, "instance %s: parameter %s needs a value (%s = …)", inst, name, name)
+			b.report(CodeMissingParam, apos, aend, "instance %s: parameter %s needs a value (%s = …)", inst, name, name)
 		default:
 			st.assign[j] = i
 		}
 	}
 	for j := range c.params {
 		if st.assign[j] < 0 && c.params[j].def == nil {
-			b.report("missing-param", diag.Error, st.pos, st.end, "instance %s of block %s needs parameter %s, which has no default: add [%s = …]", inst, c.name, c.params[j].name, c.params[j].name)
+			b.report(CodeMissingParam, st.pos, st.end, "instance %s of block %s needs parameter %s, which has no default: add [%s = …]", inst, c.name, c.params[j].name, c.params[j].name)
 		}
 	}
 	return ok
@@ -611,7 +611,7 @@ func (b *builder) measure(bd *blockDef, stack []*blockDef) {
 			if len(chain) > 2 {
 				what = "instantiates itself through " + strings.Join(chain[1:len(chain)-1], ", ")
 			}
-			b.report("recursive-block", diag.Error, st.pos, st.end, "block %s %s (%s): its expansion would never end", c.name, what, strings.Join(chain, " → "))
+			b.report(CodeRecursiveBlock, st.pos, st.end, "block %s %s (%s): its expansion would never end", c.name, what, strings.Join(chain, " → "))
 			b.file = saved
 			st.ok = false
 			b.r.Incomplete = true
@@ -633,7 +633,6 @@ func (b *builder) measure(bd *blockDef, stack []*blockDef) {
 
 // stmt elaborates one prepared statement in scope sc.
 func (b *builder) stmt(sc *scope, st *bodyStmt) {
-	b.stmtSeen = b.stmtSeen[:0]
 	b.sc = sc
 	savedSubject := b.subject
 	b.subject = sc.prefix + st.pt.Name.Text
@@ -680,7 +679,7 @@ func (b *builder) instance(parent *scope, st *bodyStmt, nets []NetID) {
 	c := st.blk
 	path := parent.prefix + st.pt.Name.Text
 	if parent.depth+c.depth > b.opt.MaxDepth {
-		b.report("expansion-limit", diag.Error, st.pos, st.end, "instance %s of block %s nests blocks %d deep, over the limit of %d (--max-depth)", path, c.name, parent.depth+c.depth, b.opt.MaxDepth)
+		b.report(CodeExpansionLimit, st.pos, st.end, "instance %s of block %s nests blocks %d deep, over the limit of %d (--max-depth)", path, c.name, parent.depth+c.depth, b.opt.MaxDepth)
 		b.countOnly(nets)
 		return
 	}
@@ -690,7 +689,7 @@ func (b *builder) instance(parent *scope, st *bodyStmt, nets []NetID) {
 	}
 	if addSat(b.count, c.size) > b.opt.MaxParts {
 		b.refused = true
-		b.report("expansion-limit", diag.Error, st.pos, st.end, "instance %s of block %s expands to %s parts and instances; with the %s before it that is over the limit of %s (--max-parts)", path, c.name, count(c.size), count(b.count), count(b.opt.MaxParts))
+		b.report(CodeExpansionLimit, st.pos, st.end, "instance %s of block %s expands to %s parts and instances; with the %s before it that is over the limit of %s (--max-parts)", path, c.name, count(c.size), count(b.count), count(b.opt.MaxParts))
 		b.countOnly(nets)
 		return
 	}
@@ -730,7 +729,7 @@ func (b *builder) params(parent *scope, st *bodyStmt, c *blockDef) []binding {
 			b.sc = parent
 			q, ok := b.paramValue(a.Value, b.pos(a.Pos), b.pos(a.EndPos), st.pt.Name.Text, pd)
 			if ok && pd.dimKnown && (q.Dim != pd.dim || q.Percent != pd.percent) {
-				b.report("param-unit", diag.Error, b.pos(a.Pos), b.pos(a.EndPos), "instance %s: parameter %s of block %s is a %s (default %s), but is given %s, a %s", parent.prefix+st.pt.Name.Text, pd.name, c.name, nounOf(pd.dim, pd.percent), b.describe(pd.def), b.describe(a.Value), nounOf(q.Dim, q.Percent))
+				b.report(CodeParamUnit, b.pos(a.Pos), b.pos(a.EndPos), "instance %s: parameter %s of block %s is a %s (default %s), but is given %s, a %s", parent.prefix+st.pt.Name.Text, pd.name, c.name, nounOf(pd.dim, pd.percent), b.describe(pd.def), b.describe(a.Value), nounOf(q.Dim, q.Percent))
 				ok = false
 			}
 			env[j] = binding{q, ok}
@@ -754,13 +753,13 @@ func (b *builder) params(parent *scope, st *bodyStmt, c *blockDef) []binding {
 // paramValue evaluates a parameter value given at an instance.
 func (b *builder) paramValue(v *grammar.Value, pos, end diag.Pos, inst string, pd *paramDef) (units.Quantity, bool) {
 	if v.Word != "" {
-		b.report("param-unit", diag.Error, pos, end, "instance %s: parameter %s: %s is a switch state; parameters are quantities", inst, pd.name, v.Word)
+		b.report(CodeParamUnit, pos, end, "instance %s: parameter %s: %s is a switch state; parameters are quantities", inst, pd.name, v.Word)
 		return units.Quantity{}, false
 	}
 	q, err := b.quantity(v)
 	if err != nil {
 		if rule, silent := errRule(err); !silent {
-			b.report(rule, diag.Error, pos, end, "instance %s: parameter %s: %s", inst, pd.name, err)
+			b.report(rule, pos, end, "instance %s: parameter %s: %s", inst, pd.name, err)
 		}
 		return q, false
 	}
@@ -815,7 +814,7 @@ func (b *builder) eval(v *grammar.Value) (units.Quantity, error) {
 	if !ok {
 		return q, err
 	}
-	if ee.Rule == "unknown-param" {
+	if ee.Code == CodeUnknownParam {
 		if sc == nil || sc.blk == nil || sc.blk.isTop {
 			ee.Msg += "; only a block's statements can use parameters"
 		} else {
@@ -830,7 +829,7 @@ func (b *builder) eval(v *grammar.Value) (units.Quantity, error) {
 			}
 		}
 	}
-	if ee.Rule != "" && v.Expr != nil {
+	if ee.Code != NoCode && v.Expr != nil {
 		ee.Msg = b.exprText(v) + ": " + ee.Msg
 	}
 	return q, ee
@@ -931,20 +930,8 @@ func (b *builder) unusedBlocks() {
 	}
 	for _, c := range b.blockList {
 		if !c.lib && !c.used {
-			b.report("unused-block", diag.Note, c.pos, c.nameEnd, "block %s is defined but no instance uses it", c.name)
+			b.reportSev(CodeUnusedBlock, diag.Note, c.pos, c.nameEnd, "block %s is defined but no instance uses it", c.name)
 		}
-	}
-}
-
-// finishMerged tells, on each finding made in several instances, how many.
-func (b *builder) finishMerged() {
-	for i, n := range b.more {
-		d := &b.r.Diags[i]
-		what := "instance"
-		if n > 1 {
-			what = "instances"
-		}
-		d.Message += fmt.Sprintf(" (and in %d more %s)", n, what)
 	}
 }
 

@@ -14,6 +14,7 @@ import (
 	"sort"
 	"strings"
 
+	"nodal/circuit"
 	"nodal/diag"
 	"nodal/grammar"
 )
@@ -49,12 +50,9 @@ it cannot read suppresses nothing; the message suggests the closest rule id.
 Reported by the suppression pass, after every other rule has run.`,
 }
 
-// Source is one file's text and comments, for the suppression pass.
-type Source struct {
-	File     *diag.File
-	Src      []byte
-	Comments []grammar.Comment
-}
+// Source is one file's text and comments, for the suppression pass: the
+// model's own record of a file.
+type Source = circuit.SourceFile
 
 // allowDirective is one parsed allow comment.
 type allowDirective struct {
@@ -68,22 +66,17 @@ type allowDirective struct {
 const allowPrefix = "nodal:"
 
 // Suppress drops the findings that allow comments in srcs cover and adds
-// the findings of the suppression rules themselves. known reports whether
-// a rule id exists (nil: the registered rules). The result is sorted.
+// the findings of the suppression rules themselves, at severity Off (the
+// rule's default, set with the rest in the runner's last pass). known
+// reports whether a rule id exists (nil: the registered rules). The result
+// is not sorted.
 func Suppress(fset *diag.FileSet, srcs []Source, diags diag.List, cfg *Config, known func(string) bool) diag.List {
 	if known == nil {
 		known = func(id string) bool { return Lookup(id) != nil }
 	}
 	var extra diag.List
 	report := func(a *Analyzer, d diag.Diagnostic) {
-		sev := a.Severity
-		if s, ok := cfg.severity(a); ok {
-			sev = s
-		}
-		if sev == diag.Off {
-			return
-		}
-		d.Rule, d.Severity = a.Name, sev
+		d.Rule, d.Severity = a.Name, diag.Off // the runner's last pass sets it
 		extra = append(extra, d)
 	}
 	type key struct {
@@ -139,9 +132,7 @@ func Suppress(fset *diag.FileSet, srcs []Source, diags diag.List, cfg *Config, k
 				Message: "allow " + r + " suppresses nothing: no " + r + " finding starts on this statement's line; delete it"})
 		}
 	}
-	out = append(out, extra...)
-	out.Sort(fset)
-	return out.Dedup()
+	return append(out, extra...)
 }
 
 // parseAllow reads one comment. It returns ok only for a usable allow

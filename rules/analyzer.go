@@ -31,7 +31,12 @@ type Analyzer struct {
 	Doc      string
 	Severity diag.Severity // default; Off for analyzers that only compute
 	Requires []*Analyzer
-	// Run is nil for rules that a later pass reports (see Suppress).
+	// Codes lists the findings of elaboration (circuit.Code) that are this
+	// rule's; the runner hands them on. Every code has exactly one
+	// analyzer in All.
+	Codes []circuit.Code
+	// Run is nil for rules whose findings only elaboration or a later
+	// pass (see Suppress) makes.
 	Run func(*Pass) (any, error)
 }
 
@@ -57,7 +62,8 @@ type Pass struct {
 }
 
 // Report records a finding of the running analyzer. A zero Severity means
-// the analyzer's default.
+// the analyzer's default. A finding about a part or a net names it in
+// Subject; the runner's last pass finds its instance from that.
 func (p *Pass) Report(d diag.Diagnostic) {
 	d.Rule = p.Analyzer.Name
 	if d.Severity == diag.Off {
@@ -78,6 +84,8 @@ type Config struct {
 	// Derating holds the limits of near-rating; zero fields take their
 	// defaults.
 	Derating Derating
+	// NoSuppress ignores accept comments: every finding is reported.
+	NoSuppress bool
 }
 
 func (c *Config) severity(a *Analyzer) (diag.Severity, bool) {
@@ -89,19 +97,35 @@ func (c *Config) severity(a *Analyzer) (diag.Severity, bool) {
 }
 
 // Run runs the analyzers (and whatever they require) on a built design and
-// returns every finding, with configured severities applied.
+// returns every finding after the last pass (see RunResults).
 func Run(fset *diag.FileSet, b *circuit.Result, analyzers []*Analyzer, cfg *Config) (diag.List, error) {
 	out, _, err := RunResults(fset, b, analyzers, cfg)
 	return out, err
 }
 
-// RunResults is Run that also returns the result of every analyzer that
-// ran, such as the *SolveResult of Solve.
+// RunResults runs the analyzers (and whatever they require) on a built
+// design, then the last pass, the same for every finding whether the
+// builder or a rule made it:
+//
+//  1. the findings of elaboration whose rule is among the analyzers, and
+//     every rule's findings, go through one circuit.Findings: repeats
+//     across instances are merged into one with a count, and findings
+//     about a part or net inside an instance get the instance chain as
+//     related locations;
+//  2. accept comments suppress what they name (Suppress), unless
+//     cfg.NoSuppress;
+//  3. each finding takes its rule's severity: the one it was reported
+//     with, else the rule's default, overridden by cfg; Off drops it;
+//  4. the list is sorted and exact repeats dropped, once.
+//
+// It also returns the result of every analyzer that ran, such as the
+// *SolveResult of Solve.
 func RunResults(fset *diag.FileSet, b *circuit.Result, analyzers []*Analyzer, cfg *Config) (diag.List, map[*Analyzer]any, error) {
-	var out diag.List
 	if cfg == nil {
 		cfg = &Config{}
 	}
+	var found circuit.Findings
+	found.Use(b.Design)
 	results := map[*Analyzer]any{}
 	done := map[*Analyzer]bool{}
 	var run func(a *Analyzer) error
@@ -116,18 +140,14 @@ func RunResults(fset *diag.FileSet, b *circuit.Result, analyzers []*Analyzer, cf
 			}
 		}
 		if a.Run == nil {
-			return nil // reported by a later pass, such as Suppress
+			return nil // elaboration or a later pass reports it
 		}
-		override, has := cfg.severity(a)
-		if has && override == diag.Off && a.Severity != diag.Off {
-			return nil
+		if s, has := cfg.severity(a); has && s == diag.Off && a.Severity != diag.Off {
+			return nil // its findings would all be dropped
 		}
 		pass := &Pass{Analyzer: a, Fset: fset, Build: b, Design: b.Design, ResultOf: results, Config: cfg}
 		pass.report = func(d diag.Diagnostic) {
-			if has {
-				d.Severity = override
-			}
-			out = append(out, d)
+			found.Add(circuit.Finding{Diagnostic: d, Inst: circuit.Unresolved})
 		}
 		res, err := a.Run(pass)
 		if err != nil {
@@ -136,10 +156,56 @@ func RunResults(fset *diag.FileSet, b *circuit.Result, analyzers []*Analyzer, cf
 		results[a] = res
 		return nil
 	}
+	var err error
 	for _, a := range analyzers {
-		if err := run(a); err != nil {
-			return out, results, err
+		if err = run(a); err != nil {
+			break
 		}
 	}
-	return out, results, nil
+	var owner [circuit.NumCodes]*Analyzer
+	for a := range done {
+		for _, c := range a.Codes {
+			owner[c] = a
+		}
+	}
+	for _, f := range b.Findings {
+		if f.Code < circuit.NumCodes && owner[f.Code] != nil {
+			found.Add(f)
+		}
+	}
+	return lastPass(fset, b, found.Finish(b.Design), done, cfg), results, err
+}
+
+// lastPass suppresses, sets severities, sorts and de-duplicates: steps 2
+// to 4 of RunResults. ran holds the analyzers that ran; their severities,
+// and those of the registered rules, are known.
+func lastPass(fset *diag.FileSet, b *circuit.Result, diags diag.List, ran map[*Analyzer]bool, cfg *Config) diag.List {
+	if !cfg.NoSuppress {
+		diags = Suppress(fset, b.Files, diags, cfg, nil)
+	}
+	byName := make(map[string]*Analyzer, len(ran))
+	for a := range ran {
+		byName[a.Name] = a
+	}
+	out := diags[:0]
+	for _, d := range diags {
+		a := byName[d.Rule]
+		if a == nil {
+			a = Lookup(d.Rule)
+		}
+		if a != nil {
+			if d.Severity == diag.Off {
+				d.Severity = a.Severity
+			}
+			if s, ok := cfg.severity(a); ok {
+				d.Severity = s
+			}
+		}
+		if d.Severity == diag.Off {
+			continue
+		}
+		out = append(out, d)
+	}
+	out.Sort(fset)
+	return out.Dedup()
 }

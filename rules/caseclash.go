@@ -3,7 +3,6 @@ package rules
 import (
 	"strings"
 
-	"nodal/circuit"
 	"nodal/diag"
 )
 
@@ -29,7 +28,7 @@ is rarely meant.`,
 			key := strings.ToLower(n.Name)
 			if f, ok := nets[key]; ok && f.name != n.Name {
 				p.Report(diag.Diagnostic{Pos: n.Pos, End: n.End, Subject: n.Name, Message: "net " + netName(d, i32(i)) + " differs from net " + f.name + " only in letter case; names are case-sensitive, so they are two nets",
-					Related: append([]diag.Related{{Pos: f.pos, Message: "net " + f.name + " is first used here"}}, relatedForNet(p, i32(i))...)})
+					Related: []diag.Related{{Pos: f.pos, Message: "net " + f.name + " is first used here"}}})
 				continue
 			}
 			if _, ok := nets[key]; !ok {
@@ -42,7 +41,7 @@ is rarely meant.`,
 			key := strings.ToLower(q.Name)
 			if f, ok := parts[key]; ok && f.name != q.Name {
 				p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: q.Name, Message: "part " + q.Name + " differs from part " + f.name + " only in letter case",
-					Related: append([]diag.Related{{Pos: f.pos, Message: f.name + " is here"}}, relatedForPart(p, circuit.PartID(i))...)})
+					Related: []diag.Related{{Pos: f.pos, Message: f.name + " is here"}}})
 				continue
 			}
 			if _, ok := parts[key]; !ok {

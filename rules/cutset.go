@@ -30,7 +30,7 @@ capacitors touch.`,
 		for _, c := range t.Cutsets {
 			first := &d.Nets[c.Nets[0]]
 			var srcs []string
-			dg := diag.Diagnostic{Pos: first.Pos, End: first.End, Subject: first.Name, Related: relatedForNet(p, c.Nets[0])}
+			dg := diag.Diagnostic{Pos: first.Pos, End: first.End, Subject: first.Name}
 			inSet := map[int32]bool{}
 			for _, n := range c.Nets {
 				inSet[int32(n)] = true

@@ -37,7 +37,7 @@ operating point cannot be solved. Each island is listed once.`,
 			if len(is.Nets) > 1 {
 				what = "nets " + netList(d, is.Nets, 8) + " have"
 			}
-			p.Report(diag.Diagnostic{Pos: first.Pos, End: first.End, Subject: first.Name, Related: relatedForNet(p, is.Nets[0]),
+			p.Report(diag.Diagnostic{Pos: first.Pos, End: first.End, Subject: first.Name,
 				Message: fmt.Sprintf("%s no DC path to ground %s: only capacitors, current sources or open switches reach them, so their DC voltage is undefined", what, netName(d, d.Ground))})
 		}
 		return nil, nil

@@ -28,7 +28,7 @@ the sources.`,
 		for i := range t.Loops {
 			l := &t.Loops[i]
 			closing := &d.Parts[l.Steps[0].Part]
-			diagn := diag.Diagnostic{Pos: closing.Pos, End: closing.End, Subject: closing.Name, Related: relatedForPart(p, l.Steps[0].Part)}
+			diagn := diag.Diagnostic{Pos: closing.Pos, End: closing.End, Subject: closing.Name}
 			path := loopPath(d, l)
 			if l.Balanced() {
 				diagn.Severity = diag.Warning

@@ -20,11 +20,11 @@ shorted across itself is an error: no current can make its voltage hold.`,
 			q := &d.Parts[id]
 			net := netName(d, q.Pins[0])
 			if q.Kind == circuit.VoltageSource {
-				p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Severity: diag.Error, Subject: q.Name, Related: relatedForPart(p, id),
+				p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Severity: diag.Error, Subject: q.Name,
 					Message: "voltage source " + q.Name + " (" + units.Format(q.Value, units.Voltage) + ") has both pins on net " + net + ": it is shorted across itself"})
 				continue
 			}
-			p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: q.Name, Related: relatedForPart(p, id),
+			p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: q.Name,
 				Message: q.Kind.String() + " " + q.Name + " has both pins on net " + net + ", so it does nothing"})
 		}
 		return nil, nil

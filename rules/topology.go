@@ -8,7 +8,6 @@ import (
 	"strings"
 
 	"nodal/circuit"
-	"nodal/diag"
 	"nodal/topology"
 )
 
@@ -53,15 +52,3 @@ func netName(d *circuit.Design, n circuit.NetID) string {
 }
 
 func i32(i int) circuit.NetID { return circuit.NetID(i) }
-
-// relatedForPart returns the instance statements a part was expanded from,
-// innermost first, so that a finding at a statement inside a block also
-// points at the instance (nil for a top-level part).
-func relatedForPart(p *Pass, id circuit.PartID) []diag.Related {
-	return p.Design.InstanceRelated(p.Design.Parts[id].Inst)
-}
-
-// relatedForNet does the same for a net local to an instance.
-func relatedForNet(p *Pass, id circuit.NetID) []diag.Related {
-	return p.Design.InstanceRelated(p.Design.Nets[id].Inst)
-}

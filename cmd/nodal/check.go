@@ -336,7 +336,7 @@ func checkOne(u unit, stdinSrc []byte, read reader, loader *configLoader, lim li
 	res, err := checkSource(u.name, src, opts)
 	out = fileResult{checked: true, sources: map[string][]byte{u.name: src}}
 	if res != nil {
-		for _, f := range res.Build.Included {
+		for _, f := range res.Build.Files {
 			out.sources[f.File.Name()] = f.Src
 		}
 	}

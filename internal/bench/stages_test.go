@@ -115,7 +115,7 @@ func BenchmarkElaborate(b *testing.B) {
 		for b.Loop() {
 			r = circuit.Build(file, ast)
 		}
-		if len(r.Diags) > 0 {
+		if len(r.Findings) > 0 {
 			b.Fatal("findings in a generated design")
 		}
 		perPart(b, len(r.Design.Parts))

@@ -1,0 +1,217 @@
+package circuit
+
+// findings.go: the collector every finding goes through, whatever made it.
+//
+// A block's statement is elaborated once per instance, and a rule that
+// looks at parts and nets sees each instance's copy, so a slip in a block
+// used a hundred times would otherwise be reported a hundred times. The
+// collector merges findings that differ only in the instance they are in:
+// same position, rule and severity, and the same message once the
+// instance's path is taken out of it. What is left names one instance (the
+// one whose path sorts first, so that the choice does not depend on
+// statement order) and says in how many more the finding repeats. Finish
+// then gives each finding about a part or net inside an instance the
+// chain of instance statements as related locations.
+//
+// The builder adds its findings as it makes them, so that a design of a
+// million instances never holds a million copies; package rules adds the
+// rules' findings to a collector seeded with the builder's, and finishes
+// it in its last pass.
+
+import (
+	"fmt"
+	"strings"
+
+	"nodal/diag"
+)
+
+// Unresolved is the Finding.Inst of a finding whose instance is still to
+// be found from its Subject (the rules' findings).
+const Unresolved int32 = -2
+
+// Finding is a diagnostic on its way to the runner's last pass.
+type Finding struct {
+	diag.Diagnostic
+	// Code is the rule of a finding made while building; NoCode for a
+	// finding of a rule.
+	Code Code
+	// Inst is the instance (an index into Design.Instances) the finding's
+	// subject is in, -1 at the top level or when there is none, or
+	// Unresolved.
+	Inst int32
+	// Path is the path of the instance the message names its subject
+	// under ("ROW2", "BOARD.CH1"); findings that differ only in it are
+	// merged. Empty at the top level.
+	Path string
+	// More counts the other instances a merged finding was made in.
+	More int
+	// Also lists some of those instances, those whose paths sort first.
+	Also []int32
+}
+
+// maxAlso bounds Finding.Also.
+const maxAlso = 8
+
+// Findings collects findings, merging repeats across instances.
+type Findings struct {
+	list  []Finding
+	index map[mergeKey]int
+	// paths returns the path of an instance of the design the findings
+	// are about; nil until Use names the design.
+	paths func(int32) string
+}
+
+// Use names the design whose instances the findings' Inst fields index,
+// so that the other instances of a merged finding can be listed.
+func (fs *Findings) Use(d *Design) {
+	fs.paths = func(in int32) string { return d.Instances[in].Path }
+}
+
+type mergeKey struct {
+	pos  diag.Pos
+	rule string
+	sev  diag.Severity
+	msg  string // the message with the instance path taken out
+}
+
+// Len returns how many findings the collector holds.
+func (fs *Findings) Len() int { return len(fs.list) }
+
+// All returns the findings collected so far, merged but not finished. The
+// slice belongs to the collector.
+func (fs *Findings) All() []Finding { return fs.list }
+
+// Add adds a finding, merging it with an earlier one made at the same
+// place in another instance.
+func (fs *Findings) Add(f Finding) {
+	if f.Path == "" || f.Inst == Unresolved {
+		fs.list = append(fs.list, f)
+		return
+	}
+	key := mergeKey{f.Pos, f.Rule, f.Severity, strings.ReplaceAll(f.Message, f.Path+".", "")}
+	if fs.index == nil {
+		fs.index = map[mergeKey]int{}
+	}
+	i, ok := fs.index[key]
+	if !ok {
+		fs.index[key] = len(fs.list)
+		fs.list = append(fs.list, f)
+		return
+	}
+	kept := &fs.list[i]
+	more := kept.More + f.More + 1
+	also := kept.Also
+	if f.Subject < kept.Subject || f.Subject == kept.Subject && f.Path < kept.Path {
+		f, *kept = *kept, f
+	}
+	// f is now the one not kept: its instances are among the others.
+	kept.Also = also
+	kept.addAlso(f.Inst, fs.paths)
+	for _, in := range f.Also {
+		kept.addAlso(in, fs.paths)
+	}
+	kept.More = more
+}
+
+// addAlso records instance in among the other instances of a merged
+// finding, keeping the maxAlso whose paths sort first.
+func (f *Finding) addAlso(in int32, path func(int32) string) {
+	if in < 0 || path == nil {
+		return
+	}
+	p := path(in)
+	i := 0
+	for i < len(f.Also) && path(f.Also[i]) < p {
+		i++
+	}
+	if i == maxAlso {
+		return
+	}
+	if len(f.Also) < maxAlso {
+		f.Also = append(f.Also, 0)
+	}
+	copy(f.Also[i+1:], f.Also[i:])
+	f.Also[i] = in
+}
+
+// Finish resolves the instance of each finding added Unresolved from its
+// Subject (the part or net of that name in d), merges them like the rest,
+// and returns every finding with the count of merged instances in its
+// message and the chain of instance statements, innermost first, in its
+// related locations.
+func (fs *Findings) Finish(d *Design) diag.List {
+	var late []int
+	for i := range fs.list {
+		if fs.list[i].Inst == Unresolved {
+			late = append(late, i)
+		}
+	}
+	fs.Use(d)
+	if len(late) > 0 {
+		insts := d.instancesOf(fs.list, late)
+		all := fs.list
+		fs.list, fs.index = make([]Finding, 0, len(all)), nil
+		for _, f := range all {
+			if f.Inst == Unresolved {
+				f.Inst = -1
+				if in, ok := insts[f.Subject]; ok && in >= 0 {
+					f.Inst, f.Path = in, d.Instances[in].Path
+				}
+			}
+			fs.Add(f)
+		}
+	}
+	out := make(diag.List, len(fs.list))
+	for i := range fs.list {
+		f := &fs.list[i]
+		dg := f.Diagnostic
+		if f.More > 0 {
+			what := "instance"
+			if f.More > 1 {
+				what = "instances"
+			}
+			dg.Message += fmt.Sprintf(" (and in %d more %s)", f.More, what)
+		}
+		if f.Inst >= 0 {
+			dg.Related = append(dg.Related[:len(dg.Related):len(dg.Related)], d.InstanceRelated(f.Inst)...)
+			for _, in := range f.Also {
+				i := &d.Instances[in]
+				dg.Related = append(dg.Related, diag.Related{Pos: i.Pos, End: i.End, Message: "also in " + i.Path + " (block " + i.Block + ")"})
+			}
+		}
+		out[i] = dg
+	}
+	return out
+}
+
+// instancesOf finds, for the Subject of each listed finding, the instance
+// of the part or net of that name (a part first, when both exist). It
+// walks the design once, looking names up in a table of the few subjects
+// asked for.
+func (d *Design) instancesOf(fs []Finding, which []int) map[string]int32 {
+	want := make(map[string]int32, len(which))
+	for _, i := range which {
+		if s := fs[i].Subject; s != "" {
+			want[s] = -1
+		}
+	}
+	if len(want) == 0 || len(d.Instances) == 0 {
+		return want
+	}
+	found := make(map[string]bool, len(want))
+	for i := range d.Parts {
+		p := &d.Parts[i]
+		if _, ok := want[p.Name]; ok && !found[p.Name] {
+			want[p.Name], found[p.Name] = p.Inst, true
+		}
+	}
+	for name := range want {
+		if found[name] {
+			continue
+		}
+		if id := d.LookupNet(name); id != NoNet {
+			want[name] = d.Nets[id].Inst
+		}
+	}
+	return want
+}
