@@ -3,6 +3,7 @@ package circuit
 import (
 	"fmt"
 	"path/filepath"
+	"slices"
 	"strings"
 
 	"github.com/alecthomas/participle/v2/lexer"
@@ -297,7 +298,7 @@ func (b *builder) part(sc *scope, st *bodyStmt, nets []NetID) {
 	// Value first: for a source its unit decides the kind, and so the pins.
 	if !b.value(&p, pt) {
 		b.r.Invalid = true
-		if p.Kind == VoltageSource {
+		if p.Kind.shared() {
 			// Without a usable value a source is neither kind: its
 			// pins cannot be placed.
 			b.countOnly(nets)
@@ -433,39 +434,30 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 	word := pt.Kind.Text
 	info := p.Kind.Info()
 	v := pt.Value
-	switch p.Kind {
-	case Wire:
-		if v != nil {
-			b.report(CodeBadValue, p.Pos, p.End, "wire %s takes no value; a wire is a zero-ohm link (use a resistor for a resistance)", p.Name)
-			return false
-		}
-		return true
-	case Switch:
+	switch {
+	case len(info.States) > 0:
+		states := strings.Join(info.States, " or ")
 		if v == nil || v.Word == "" {
 			if v == nil {
-				b.report(CodeMissingValue, p.Pos, p.End, "switch %s needs its state: open or closed", p.Name)
+				b.report(CodeMissingValue, p.Pos, p.End, "%s %s needs its state: %s", word, p.Name, states)
 			} else {
-				b.report(CodeBadValue, p.Pos, p.End, "switch %s: %s is not a switch state; write open or closed", p.Name, b.describe(v))
+				b.report(CodeBadValue, p.Pos, p.End, "%s %s: %s is not a %s state; write %s", word, p.Name, b.describe(v), word, states)
 			}
 			return false
 		}
-		p.Closed = v.Word == "closed"
+		// The second state word closes a switch.
+		p.Closed = v.Word == info.States[len(info.States)-1]
 		return true
-	case Diode, LED:
+	case info.Value == units.None:
 		if v != nil {
-			b.report(CodeBadValue, p.Pos, p.End, "%s %s takes no plain value; give its forward voltage as \"vf 0.7 V at 10 mA\"", word, p.Name)
+			b.report(CodeBadValue, p.Pos, p.End, "%s %s takes %s", word, p.Name, info.NoValue)
 			return false
 		}
 		return true
 	}
 	if v == nil {
-		hint := ""
-		switch p.Kind {
-		case VoltageSource:
-			hint = ": a voltage in V (a voltage source) or a current in A (a current source)"
-		case Fuse:
-			hint = ": its rated current in A"
-		default:
+		hint := info.ValueHint
+		if hint == "" {
 			hint = " in " + info.Value.Symbol()
 		}
 		b.report(CodeMissingValue, p.Pos, p.End, "%s %s needs a value%s", word, p.Name, hint)
@@ -498,16 +490,17 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 		b.report(um, p.Pos, p.End, "%s %s: %s is a percentage; %% belongs to tol", word, p.Name, b.describe(v))
 		return false
 	}
-	if p.Kind == VoltageSource {
-		switch q.Dim {
-		case units.Voltage:
-		case units.Current:
-			p.Kind = CurrentSource
-		case units.None:
-			b.report(um, p.Pos, p.End, "source %s: %s has no unit; write %s V for a voltage source or %s A for a current source", p.Name, b.describe(v), b.describe(v), b.describe(v))
+	if p.Kind.shared() {
+		// Kinds that share a keyword are told apart by the unit.
+		k, found := sibling(p.Kind, q.Dim)
+		switch {
+		case found:
+			p.Kind = k
+		case q.Dim == units.None:
+			b.report(um, p.Pos, p.End, "%s %s: %s has no unit; write %s", word, p.Name, b.describe(v), p.Kind.siblings(func(sym, name string) string { return b.describe(v) + " " + sym + " for " + article(name) }))
 			return false
 		default:
-			b.report(um, p.Pos, p.End, "source %s: %s is a %s; a source is given in V (voltage source) or A (current source)", p.Name, b.describe(v), q.Dim.Noun())
+			b.report(um, p.Pos, p.End, "%s %s: %s is a %s; %s is given in %s", word, p.Name, b.describe(v), q.Dim.Noun(), article(word), p.Kind.siblings(func(sym, name string) string { return sym + " (" + name + ")" }))
 			return false
 		}
 		p.Value = q.Value
@@ -549,14 +542,38 @@ func unitWord(pt *grammar.Part) string {
 	return a.Key.Text
 }
 
-var attrKinds = map[string]string{
-	"tol":      "resistor, capacitor, inductor, source",
-	"dcr":      "inductor, fuse",
-	"vf":       "diode, led",
-	"ideality": "diode, led",
-	"series":   "diode, led",
-	"rated":    "every kind",
-}
+// attrKinds maps each attribute to the kinds that take it, from the kind
+// table.
+var attrKinds = func() map[string]string {
+	m := map[string]string{"rated": "every kind"}
+	for _, w := range KindWords {
+		k, _ := kindOf(w)
+		for _, a := range k.Info().Attrs {
+			if m[a] == "" {
+				m[a] = w
+			} else {
+				m[a] += ", " + w
+			}
+		}
+	}
+	return m
+}()
+
+// attrWords lists the attributes, for a message about an unknown one.
+var attrWords = func() string {
+	var out []string
+	for _, k := range Kinds() {
+		for _, a := range k.Info().Attrs {
+			if a == "vf" {
+				a = "vf … at"
+			}
+			if !slices.Contains(out, a) {
+				out = append(out, a)
+			}
+		}
+	}
+	return strings.Join(slices.Insert(out, min(1, len(out)), "rated"), ", ")
+}()
 
 // attrs reads the attributes. It returns false when one is unusable.
 func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
@@ -575,7 +592,7 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
 		key := a.Key.Text
 		kinds, knownAttr := attrKinds[key]
 		if !knownAttr {
-			msg := fmt.Sprintf("unknown attribute %q; attributes are tol, rated, vf … at, ideality, series, dcr", key)
+			msg := fmt.Sprintf("unknown attribute %q; attributes are %s", key, attrWords)
 			bad(CodeBadAttribute, "%s", msg)
 			continue
 		}
@@ -679,8 +696,8 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
 			p.VF, p.VFAt = q.Value, at.Value
 		case "rated":
 			for i, r := range qs {
-				if r.Percent || !containsDim(info.Ratings, r.Dim) {
-					bad(um, "rated %s: %s is rated in %s", b.describe(a.Values[i]), article(p.Kind.String()), dimList(info.Ratings))
+				if r.Percent || !containsDim(info.RatedDims(), r.Dim) {
+					bad(um, "rated %s: %s is rated in %s", b.describe(a.Values[i]), article(p.Kind.String()), dimList(info.RatedDims()))
 					continue
 				}
 				if r.Value <= 0 {
@@ -704,8 +721,8 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
 			}
 		}
 	}
-	if (p.Kind == Diode || p.Kind == LED) && p.VF == 0 && !seen["vf"] {
-		bad(CodeMissingValue, "needs its forward voltage: vf 0.7 V at 10 mA")
+	if need := info.Needs; need != "" && !seen[need] {
+		bad(CodeMissingValue, "%s", info.NeedsHint)
 	}
 	return ok
 }

@@ -1,6 +1,17 @@
 package circuit
 
-import "nodal/units"
+// kind.go: the table of built-in kinds. Each kind is declared once, here:
+// how it is written (keyword, pins, value, attributes), what "rated" takes
+// on it and how each rating is judged, and how it behaves at DC, which is
+// all the topology rules and the solver read. The builder, topology, solve,
+// the rating function in package rules, "nodal report" and the language
+// reference's tests read this table rather than naming kinds.
+
+import (
+	"strings"
+
+	"nodal/units"
+)
 
 // Kind is a built-in part kind. Every built-in part has two pins.
 type Kind uint8
@@ -19,28 +30,207 @@ const (
 	numKinds
 )
 
-// KindInfo describes how a kind is written.
+// KindInfo describes one kind.
 type KindInfo struct {
-	Word  string    // the keyword
-	Pins  [2]string // pin names, in positional order
-	Value units.Dim // the unit of the value; None when the kind takes none
-	// Ratings lists the dimensions "rated" accepts for this kind.
-	Ratings []units.Dim
+	Word string // the keyword
+	// Name is how messages and the report name the kind: the keyword,
+	// unless two kinds share it ("voltage source", "current source").
+	Name string
+	// Pins names the pins in positional order, and Roles says what each
+	// is for, in the words of the language reference.
+	Pins  []string
+	Roles []string
+	// Value is the unit of the part's value; None when the kind takes no
+	// quantity. Kinds that share a keyword are told apart by it.
+	Value units.Dim
+	// States lists the words the kind takes instead of a quantity
+	// ("open", "closed"); nil for most.
+	States []string
+	// ValueHint says what the value is, for a statement without one; ""
+	// takes the unit of Value.
+	ValueHint string
+	// NoValue completes "KIND NAME takes …" for a value given to a kind
+	// that takes none.
+	NoValue string
+	// Needs names an attribute the kind cannot do without, and NeedsHint
+	// says so.
+	Needs, NeedsHint string
 	// Attrs lists the attributes the kind takes besides "rated".
 	Attrs []string
+	// Ratings lists what "rated" takes on the kind and how each rating is
+	// judged, in the order they are judged; a rating read from the value
+	// (a fuse's current) is listed too, with FromValue.
+	Ratings []Rating
+	// Ideality is the default ideality factor of a Junction kind (common
+	// practice).
+	Ideality float64
+	// DC says how a part of the kind behaves at DC.
+	DC func(p *Part) DC
 }
 
+// Measure says which magnitude of an operating-point value a rating limits.
+type Measure uint8
+
+const (
+	Magnitude Measure = iota // |x|
+	Forward                  // max(x, 0): a junction's forward current
+	Reverse                  // max(−x, 0): a junction's reverse voltage
+)
+
+// Rating is one rated quantity of a kind.
+type Rating struct {
+	// Dim is the unit "rated" takes for it (W, V or A), and says which of
+	// the part's power, voltage or current it limits.
+	Dim     units.Dim
+	What    string // "power", "current", "voltage", "reverse voltage"
+	Measure Measure
+	// FromValue says the part's value is this rating (a fuse's current);
+	// "rated" does not take it.
+	FromValue bool
+	// Says is how a finding states the use, a format for the value
+	// ("carries %s"), and Of what the rating is called ("compliance
+	// voltage"); empty for the wording of What.
+	Says, Of string
+	// Derating is the nodal.toml [derating] key of the limit near-rating
+	// applies, "" for none, and Default that limit's default, a fraction
+	// of the rating (common practice, not a standard).
+	Derating string
+	Default  float64
+}
+
+// Model is how a part stamps into the DC equations.
+type Model uint8
+
+const (
+	Open        Model = iota // carries no current at DC
+	Short                    // an ideal short: its pins are one node
+	Conductance              // a linear resistance, DC.R
+	VoltageDrop              // a fixed voltage, the part's value, from first pin to second
+	CurrentFlow              // a fixed current, the part's value, from first pin to second
+	Junction                 // a Shockley junction (vf at, ideality) behind DC.R
+)
+
+// DC is how one part behaves at DC.
+type DC struct {
+	Model Model
+	// R is the resistance of a Conductance, or the series resistance of
+	// a Junction (0 for none).
+	R float64
+}
+
+// Branch says how a part's branch counts for the topology rules.
+type Branch uint8
+
+const (
+	Resistive       Branch = iota // conducts, its voltage set by the rest of the circuit
+	VoltageDefining               // fixes the voltage across its pins: a voltage source or an ideal short
+	CurrentDefining               // fixes the current through it: a current source
+	OpenAtDC                      // carries no current at DC
+)
+
+// Branch returns how a part with this behaviour counts for the topology
+// rules.
+func (dc DC) Branch() Branch {
+	switch dc.Model {
+	case Short, VoltageDrop:
+		return VoltageDefining
+	case CurrentFlow:
+		return CurrentDefining
+	case Open:
+		return OpenAtDC
+	}
+	return Resistive
+}
+
+// The common rating declarations.
+var (
+	ratedPower   = Rating{Dim: units.Power, What: "power"}
+	ratedVoltage = Rating{Dim: units.Voltage, What: "voltage"}
+	ratedCurrent = Rating{Dim: units.Current, What: "current"}
+)
+
+// derated returns r with a near-rating limit.
+func derated(r Rating, key string, def float64) Rating {
+	r.Derating, r.Default = key, def
+	return r
+}
+
+var (
+	junctionPins  = []string{"anode", "cathode"}
+	junctionRoles = []string{"current enters here when forward-biased", "current leaves here"}
+	plainPins     = []string{"a", "b"}
+	plainRoles    = []string{"first end", "second end"}
+	// A junction's rated current is its forward current, its rated
+	// voltage its reverse voltage.
+	junctionRatings = func(key string) []Rating {
+		return []Rating{
+			derated(Rating{Dim: units.Current, What: "current", Measure: Forward}, key, 0.80),
+			{Dim: units.Voltage, What: "reverse voltage", Measure: Reverse, Says: "is reverse-biased by %s", Of: "reverse rating"},
+			ratedPower,
+		}
+	}
+	junctionDC      = func(p *Part) DC { return DC{Model: Junction, R: p.Series} }
+	junctionNoValue = "no plain value; give its forward voltage as \"vf 0.7 V at 10 mA\""
+	junctionNeeds   = "needs its forward voltage: vf 0.7 V at 10 mA"
+	// shortUnlessDCR is an inductor's or fuse's behaviour: its dcr, or
+	// an ideal short without one.
+	shortUnlessDCR = func(p *Part) DC {
+		if p.DCR > 0 {
+			return DC{Model: Conductance, R: p.DCR}
+		}
+		return DC{Model: Short}
+	}
+)
+
 var kinds = [numKinds]KindInfo{
-	Resistor:      {"resistor", [2]string{"a", "b"}, units.Resistance, []units.Dim{units.Power, units.Voltage}, []string{"tol"}},
-	Capacitor:     {"capacitor", [2]string{"a", "b"}, units.Capacitance, []units.Dim{units.Voltage}, []string{"tol"}},
-	Inductor:      {"inductor", [2]string{"a", "b"}, units.Inductance, []units.Dim{units.Current}, []string{"tol", "dcr"}},
-	VoltageSource: {"source", [2]string{"pos", "neg"}, units.Voltage, []units.Dim{units.Current}, []string{"tol"}},
-	CurrentSource: {"source", [2]string{"from", "to"}, units.Current, []units.Dim{units.Voltage}, []string{"tol"}},
-	Diode:         {"diode", [2]string{"anode", "cathode"}, units.None, []units.Dim{units.Current, units.Voltage, units.Power}, []string{"vf", "ideality", "series"}},
-	LED:           {"led", [2]string{"anode", "cathode"}, units.None, []units.Dim{units.Current, units.Voltage, units.Power}, []string{"vf", "ideality", "series"}},
-	Fuse:          {"fuse", [2]string{"a", "b"}, units.Current, []units.Dim{units.Voltage}, []string{"dcr"}},
-	Switch:        {"switch", [2]string{"a", "b"}, units.None, []units.Dim{units.Current, units.Voltage}, nil},
-	Wire:          {"wire", [2]string{"a", "b"}, units.None, []units.Dim{units.Current}, nil},
+	Resistor: {Word: "resistor", Pins: plainPins, Roles: plainRoles, Value: units.Resistance,
+		Attrs:   []string{"tol"},
+		Ratings: []Rating{derated(ratedPower, "resistor-power", 0.60), ratedVoltage},
+		DC:      func(p *Part) DC { return DC{Model: Conductance, R: p.Value} }},
+	Capacitor: {Word: "capacitor", Pins: plainPins, Roles: plainRoles, Value: units.Capacitance,
+		Attrs:   []string{"tol"},
+		Ratings: []Rating{derated(ratedVoltage, "capacitor-voltage", 0.80)},
+		DC:      func(*Part) DC { return DC{Model: Open} }},
+	Inductor: {Word: "inductor", Pins: plainPins, Roles: plainRoles, Value: units.Inductance,
+		Attrs:   []string{"tol", "dcr"},
+		Ratings: []Rating{derated(ratedCurrent, "inductor-current", 0.80)},
+		DC:      shortUnlessDCR},
+	VoltageSource: {Word: "source", Name: "voltage source", Pins: []string{"pos", "neg"},
+		Roles: []string{"the value's volts above neg", "the reference end"}, Value: units.Voltage,
+		ValueHint: ": a voltage in V (a voltage source) or a current in A (a current source)",
+		Attrs:     []string{"tol"},
+		Ratings:   []Rating{derated(Rating{Dim: units.Current, What: "current", Says: "is asked for %s"}, "supply-current", 0.90)},
+		DC:        func(*Part) DC { return DC{Model: VoltageDrop} }},
+	CurrentSource: {Word: "source", Name: "current source", Pins: []string{"from", "to"},
+		Roles: []string{"the current enters the source here", "and leaves here"}, Value: units.Current,
+		Attrs:   []string{"tol"},
+		Ratings: []Rating{{Dim: units.Voltage, What: "voltage", Says: "must develop %s", Of: "compliance voltage"}},
+		DC:      func(*Part) DC { return DC{Model: CurrentFlow} }},
+	Diode: {Word: "diode", Pins: junctionPins, Roles: junctionRoles, NoValue: junctionNoValue,
+		Attrs: []string{"vf", "ideality", "series"}, Needs: "vf", NeedsHint: junctionNeeds,
+		Ratings: junctionRatings("diode-current"), DC: junctionDC, Ideality: 1},
+	LED: {Word: "led", Pins: junctionPins, Roles: junctionRoles, NoValue: junctionNoValue,
+		Attrs: []string{"vf", "ideality", "series"}, Needs: "vf", NeedsHint: junctionNeeds,
+		Ratings: junctionRatings("led-current"), DC: junctionDC, Ideality: 2},
+	Fuse: {Word: "fuse", Pins: plainPins, Roles: plainRoles, Value: units.Current, ValueHint: ": its rated current in A",
+		Attrs: []string{"dcr"},
+		Ratings: []Rating{
+			derated(Rating{Dim: units.Current, What: "current", FromValue: true}, "fuse-current", 0.75),
+			ratedVoltage,
+		},
+		DC: shortUnlessDCR},
+	Switch: {Word: "switch", Pins: plainPins, Roles: plainRoles, States: []string{"open", "closed"},
+		Ratings: []Rating{ratedCurrent, ratedVoltage},
+		DC: func(p *Part) DC {
+			if p.Closed {
+				return DC{Model: Short}
+			}
+			return DC{Model: Open}
+		}},
+	Wire: {Word: "wire", Pins: plainPins, Roles: plainRoles,
+		NoValue: "no value; a wire is a zero-ohm link (use a resistor for a resistance)",
+		Ratings: []Rating{ratedCurrent},
+		DC:      func(*Part) DC { return DC{Model: Short} }},
 }
 
 // Kinds lists every built-in kind, in a fixed order.
@@ -52,27 +242,49 @@ func Kinds() []Kind {
 	return out
 }
 
-// Info returns how k is written.
+// Info returns k's declaration.
 func (k Kind) Info() *KindInfo { return &kinds[k] }
 
-// String returns the kind's keyword; the two sources are told apart as
-// "voltage source" and "current source".
+// String returns how messages name the kind: its keyword, or for kinds
+// that share one, their Name ("voltage source").
 func (k Kind) String() string {
-	switch k {
-	case VoltageSource:
-		return "voltage source"
-	case CurrentSource:
-		return "current source"
-	}
 	if k < numKinds {
+		if n := kinds[k].Name; n != "" {
+			return n
+		}
 		return kinds[k].Word
 	}
 	return "unknown kind"
 }
 
-// KindWords lists the kind keywords, for "did you mean" and help.
-var KindWords = []string{"resistor", "capacitor", "inductor", "source", "diode", "led", "fuse", "switch", "wire"}
+// RatedDims lists the units "rated" takes on the kind.
+func (ki *KindInfo) RatedDims() []units.Dim {
+	var out []units.Dim
+	for _, r := range ki.Ratings {
+		if !r.FromValue {
+			out = append(out, r.Dim)
+		}
+	}
+	return out
+}
 
+// KindWords lists the kind keywords, each once, for "did you mean" and
+// help.
+var KindWords = kindWords()
+
+func kindWords() []string {
+	var out []string
+	seen := map[string]bool{}
+	for k := range kinds {
+		if w := kinds[k].Word; !seen[w] {
+			seen[w] = true
+			out = append(out, w)
+		}
+	}
+	return out
+}
+
+// kindOf returns the first kind written word.
 func kindOf(word string) (Kind, bool) {
 	for k := Kind(0); k < numKinds; k++ {
 		if kinds[k].Word == word {
@@ -82,36 +294,74 @@ func kindOf(word string) (Kind, bool) {
 	return 0, false
 }
 
-// DC behaviour of a kind, which is all the topology rules need.
+// sibling returns the kind written like k whose value is in dim: a source
+// in A is a current source. ok is false when no kind sharing k's keyword
+// takes dim.
+func sibling(k Kind, dim units.Dim) (Kind, bool) {
+	for j := Kind(0); j < numKinds; j++ {
+		if kinds[j].Word == kinds[k].Word && kinds[j].Value == dim {
+			return j, true
+		}
+	}
+	return k, false
+}
 
-// IsShort reports whether p is an ideal short at DC: a wire, a closed
-// switch, an inductor or fuse with no dcr. A voltage source is not a short
-// but also fixes the voltage across it; see IsVoltageDefining.
-func (p *Part) IsShort() bool {
-	switch p.Kind {
-	case Wire:
-		return true
-	case Switch:
-		return p.Closed
-	case Inductor, Fuse:
-		return p.DCR == 0
+// shared reports whether another kind is written with k's keyword.
+func (k Kind) shared() bool {
+	for j := Kind(0); j < numKinds; j++ {
+		if j != k && kinds[j].Word == kinds[k].Word {
+			return true
+		}
 	}
 	return false
 }
 
+// siblings joins f(unit symbol, name) for every kind written with k's
+// keyword with " or ".
+func (k Kind) siblings(f func(sym, name string) string) string {
+	var out []string
+	for j := Kind(0); j < numKinds; j++ {
+		if kinds[j].Word == kinds[k].Word {
+			out = append(out, f(kinds[j].Value.Symbol(), j.String()))
+		}
+	}
+	return strings.Join(out, " or ")
+}
+
+// DC returns how p behaves at DC.
+func (p *Part) DC() DC { return kinds[p.Kind].DC(p) }
+
+// Rated returns p's rating of r: its value for a rating read from the
+// value, else what "rated" gave in r's unit; 0 when none was given.
+func (p *Part) Rated(r *Rating) float64 {
+	switch {
+	case r.FromValue:
+		return p.Value
+	case r.Dim == units.Power:
+		return p.RatedPower
+	case r.Dim == units.Voltage:
+		return p.RatedVoltage
+	case r.Dim == units.Current:
+		return p.RatedCurrent
+	}
+	return 0
+}
+
+// DC behaviour of a part, which is all the topology rules need.
+
+// IsShort reports whether p is an ideal short at DC: a wire, a closed
+// switch, an inductor or fuse with no dcr. A voltage source is not a short
+// but also fixes the voltage across it; see IsVoltageDefining.
+func (p *Part) IsShort() bool { return p.DC().Model == Short }
+
 // IsVoltageDefining reports whether p forces the voltage across its pins at
 // DC: a voltage source or an ideal short.
-func (p *Part) IsVoltageDefining() bool { return p.Kind == VoltageSource || p.IsShort() }
+func (p *Part) IsVoltageDefining() bool { return p.DC().Branch() == VoltageDefining }
 
 // ConductsDC reports whether current can flow through p at DC with the
 // voltage across it set by the rest of the circuit or by itself: everything
 // but capacitors, open switches and current sources.
 func (p *Part) ConductsDC() bool {
-	switch p.Kind {
-	case Capacitor, CurrentSource:
-		return false
-	case Switch:
-		return p.Closed
-	}
-	return true
+	b := p.DC().Branch()
+	return b == Resistive || b == VoltageDefining
 }

@@ -61,7 +61,7 @@ func loopPath(d *circuit.Design, l *topology.Loop) string {
 		}
 		q := &d.Parts[s.Part]
 		b.WriteString(q.Name)
-		if q.Kind == circuit.VoltageSource {
+		if q.DC().Model == circuit.VoltageDrop {
 			b.WriteString(" (" + units.Format(q.Value, units.Voltage) + ")")
 		}
 	}

@@ -9,89 +9,58 @@ import (
 	"nodal/units"
 )
 
-// Derating holds the fractions of a rating past which near-rating warns.
-// A zero field takes its default. The defaults are common practice, not a
-// standard; a project sets its own in nodal.toml ([derating]).
+// Derating holds the fractions of a rating past which near-rating warns,
+// by nodal.toml [derating] key. A key not set takes the default the kind
+// table declares with the rating (common practice, not a standard). The
+// zero value holds the defaults.
 type Derating struct {
-	ResistorPower    float64 // default 0.60
-	CapacitorVoltage float64 // default 0.80
-	DiodeCurrent     float64 // default 0.80
-	LEDCurrent       float64 // default 0.80
-	InductorCurrent  float64 // default 0.80
-	FuseCurrent      float64 // default 0.75
-	SupplyCurrent    float64 // default 0.90 (voltage sources)
+	set map[string]float64
 }
 
 // DefaultDerating returns the default limits.
-func DefaultDerating() Derating {
-	return Derating{ResistorPower: 0.60, CapacitorVoltage: 0.80, DiodeCurrent: 0.80, LEDCurrent: 0.80,
-		InductorCurrent: 0.80, FuseCurrent: 0.75, SupplyCurrent: 0.90}
+func DefaultDerating() Derating { return Derating{} }
+
+// DeratingDefaults returns every derating key the kind table declares
+// with its default, in the order of the table.
+func DeratingDefaults() (keys []string, defaults map[string]float64) {
+	defaults = map[string]float64{}
+	for _, k := range circuit.Kinds() {
+		for _, r := range k.Info().Ratings {
+			if r.Derating == "" {
+				continue
+			}
+			if _, dup := defaults[r.Derating]; !dup {
+				keys = append(keys, r.Derating)
+			}
+			defaults[r.Derating] = r.Default
+		}
+	}
+	return keys, defaults
 }
 
-// Set sets the limit named by a nodal.toml derating key
-// ("resistor-power", "capacitor-voltage", "diode-current", "led-current",
-// "inductor-current", "fuse-current", "supply-current") and reports
-// whether the key is known.
+// Set sets the limit named by a nodal.toml derating key ("resistor-power",
+// "fuse-current", …: the keys DeratingDefaults lists) and reports whether
+// the key is known.
 func (d *Derating) Set(key string, f float64) bool {
-	slot := d.slot(key)
-	if slot == nil {
+	if _, def := DeratingDefaults(); def[key] == 0 {
 		return false
 	}
-	*slot = f
+	if d.set == nil {
+		d.set = map[string]float64{}
+	}
+	d.set[key] = f
 	return true
 }
 
-func (d *Derating) slot(key string) *float64 {
-	switch key {
-	case "resistor-power":
-		return &d.ResistorPower
-	case "capacitor-voltage":
-		return &d.CapacitorVoltage
-	case "diode-current":
-		return &d.DiodeCurrent
-	case "led-current":
-		return &d.LEDCurrent
-	case "inductor-current":
-		return &d.InductorCurrent
-	case "fuse-current":
-		return &d.FuseCurrent
-	case "supply-current":
-		return &d.SupplyCurrent
+// limitOf returns the derating limit of rating r, or 0 when none applies.
+func (d Derating) limitOf(r *circuit.Rating) float64 {
+	if r.Derating == "" {
+		return 0
 	}
-	return nil
-}
-
-// Limit returns the derating limit for a use of a rating (Use.What) by a
-// part of kind k, or 0 when none applies.
-func (d Derating) Limit(k circuit.Kind, what string) float64 { return d.limit(k, what) }
-
-// limit returns the derating limit for a use of a rating, or 0 when none
-// applies.
-func (d Derating) limit(k circuit.Kind, what string) float64 {
-	def := DefaultDerating()
-	pick := func(v, dv float64) float64 {
-		if v > 0 {
-			return v
-		}
-		return dv
+	if f := d.set[r.Derating]; f > 0 {
+		return f
 	}
-	switch {
-	case k == circuit.Resistor && what == "power":
-		return pick(d.ResistorPower, def.ResistorPower)
-	case k == circuit.Capacitor && what == "voltage":
-		return pick(d.CapacitorVoltage, def.CapacitorVoltage)
-	case k == circuit.Diode && what == "current":
-		return pick(d.DiodeCurrent, def.DiodeCurrent)
-	case k == circuit.LED && what == "current":
-		return pick(d.LEDCurrent, def.LEDCurrent)
-	case k == circuit.Inductor && what == "current":
-		return pick(d.InductorCurrent, def.InductorCurrent)
-	case k == circuit.Fuse && what == "current":
-		return pick(d.FuseCurrent, def.FuseCurrent)
-	case k == circuit.VoltageSource && what == "current":
-		return pick(d.SupplyCurrent, def.SupplyCurrent)
-	}
-	return 0
+	return r.Default
 }
 
 // ratingRule makes a rule that reports every use of a rating named what

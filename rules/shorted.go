@@ -19,9 +19,9 @@ shorted across itself is an error: no current can make its voltage hold.`,
 		for _, id := range topo(p).Shorted {
 			q := &d.Parts[id]
 			net := netName(d, q.Pins[0])
-			if q.Kind == circuit.VoltageSource {
+			if q.DC().Model == circuit.VoltageDrop {
 				p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Severity: diag.Error, Subject: q.Name,
-					Message: "voltage source " + q.Name + " (" + units.Format(q.Value, units.Voltage) + ") has both pins on net " + net + ": it is shorted across itself"})
+					Message: q.Kind.String() + " " + q.Name + " (" + units.Format(q.Value, units.Voltage) + ") has both pins on net " + net + ": it is shorted across itself"})
 				continue
 			}
 			p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: q.Name,

@@ -44,7 +44,7 @@ var Solve = &Analyzer{
 			return &SolveResult{}, nil
 		}
 		for _, id := range t.Shorted {
-			if p.Design.Parts[id].Kind == circuit.VoltageSource {
+			if p.Design.Parts[id].DC().Model == circuit.VoltageDrop {
 				return &SolveResult{}, nil // shorted-part says so
 			}
 		}

@@ -102,36 +102,40 @@ func (u Use) Derated() bool { return u.Limit > 0 && u.Frac > u.Limit*overLimit &
 
 // Judge lists every rating written on p with the use the quantities q make
 // of it, each with the derating limit der sets for it. It is the only
-// place that decides which measure of the operating point a rating
-// limits:
-//
-//   - power: |P|, for every kind;
-//   - current: |I|, but a diode's or LED's forward current max(I, 0); a
-//     fuse's value is its rated current;
-//   - voltage: |V|, but a diode's or LED's "rated V" is its reverse rating,
-//     max(−V, 0), named "reverse voltage".
-//
-// A part with no rating has no use.
+// place that judges a rating; which magnitude each rating limits is
+// declared with the kind (circuit.Rating): power |P|; current |I|, but a
+// diode's or LED's forward current max(I, 0); voltage |V|, but a diode's
+// or LED's "rated V" is its reverse rating, max(−V, 0). A part with no
+// rating has no use.
 func Judge(p *circuit.Part, q Quantities, der Derating) []Use {
 	var out []Use
-	add := func(what string, d units.Dim, val, rating float64) {
-		if rating > 0 {
-			out = append(out, Use{What: what, Dim: d, Value: val, Rating: rating, Frac: val / rating,
-				Limit: der.limit(p.Kind, what), Uncertified: q.Uncertified})
+	rs := p.Kind.Info().Ratings
+	for i := range rs {
+		r := &rs[i]
+		rating := p.Rated(r)
+		if !(rating > 0) {
+			continue
 		}
+		var x float64
+		switch r.Dim {
+		case units.Power:
+			x = q.P
+		case units.Voltage:
+			x = q.V
+		case units.Current:
+			x = q.I
+		}
+		switch r.Measure {
+		case circuit.Forward:
+			x = math.Max(x, 0)
+		case circuit.Reverse:
+			x = math.Max(-x, 0)
+		default:
+			x = math.Abs(x)
+		}
+		out = append(out, Use{What: r.What, Dim: r.Dim, Value: x, Rating: rating, Frac: x / rating,
+			Limit: der.limitOf(r), Uncertified: q.Uncertified})
 	}
-	switch p.Kind {
-	case circuit.Diode, circuit.LED:
-		add("current", units.Current, math.Max(q.I, 0), p.RatedCurrent)
-		add("reverse voltage", units.Voltage, math.Max(-q.V, 0), p.RatedVoltage)
-		add("power", units.Power, math.Abs(q.P), p.RatedPower)
-		return out
-	case circuit.Fuse:
-		add("current", units.Current, math.Abs(q.I), p.Value)
-	}
-	add("power", units.Power, math.Abs(q.P), p.RatedPower)
-	add("current", units.Current, math.Abs(q.I), p.RatedCurrent)
-	add("voltage", units.Voltage, math.Abs(q.V), p.RatedVoltage)
 	return out
 }
 
@@ -177,24 +181,30 @@ func faithful(s string, f, limit float64) bool {
 }
 
 // Describe says what a use is, e.g. "R3 dissipates 312 mW, 125 % of its
-// 250 mW rating".
+// 250 mW rating", in the wording the kind table gives the rating.
 func Describe(p *circuit.Part, u Use) string {
 	val, rating, frac := units.Format(u.Value, u.Dim), units.Format(u.Rating, u.Dim), FormatUse(u.Frac, u.Limit)
-	var s string
-	switch {
-	case u.What == "power":
-		s = fmt.Sprintf("%s dissipates %s, %s of its %s rating", p.Name, val, frac, rating)
-	case u.What == "reverse voltage":
-		s = fmt.Sprintf("%s is reverse-biased by %s, %s of its %s reverse rating", p.Name, val, frac, rating)
-	case u.What == "current" && p.Kind == circuit.VoltageSource:
-		s = fmt.Sprintf("%s is asked for %s, %s of its %s rating", p.Name, val, frac, rating)
-	case u.What == "current":
-		s = fmt.Sprintf("%s carries %s, %s of its %s rating", p.Name, val, frac, rating)
-	case p.Kind == circuit.CurrentSource:
-		s = fmt.Sprintf("%s must develop %s, %s of its %s compliance voltage", p.Name, val, frac, rating)
-	default:
-		s = fmt.Sprintf("%s has %s across it, %s of its %s rating", p.Name, val, frac, rating)
+	says, of := "", "rating"
+	for _, r := range p.Kind.Info().Ratings {
+		if r.What == u.What && r.Dim == u.Dim {
+			says = r.Says
+			if r.Of != "" {
+				of = r.Of
+			}
+			break
+		}
 	}
+	if says == "" {
+		switch u.What {
+		case "power":
+			says = "dissipates %s"
+		case "current":
+			says = "carries %s"
+		default:
+			says = "has %s across it"
+		}
+	}
+	s := fmt.Sprintf("%s "+says+", %s of its %s %s", p.Name, val, frac, rating, of)
 	if u.Uncertified {
 		s += " (the solver could not certify the accuracy of this operating point)"
 	}

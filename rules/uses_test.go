@@ -1,6 +1,12 @@
 package rules
 
-import "testing"
+import (
+	"math"
+	"slices"
+	"testing"
+
+	"nodal/config"
+)
 
 func TestClean(t *testing.T) {
 	if Clean(1e-19, 1, FloorI) != 0 || Clean(-1e-14, 1, FloorV) != 0 {
@@ -35,6 +41,24 @@ func TestFormatUse(t *testing.T) {
 	for _, c := range cases {
 		if got := FormatUse(c.f, c.limit); got != c.want {
 			t.Errorf("FormatUse(%v, %v) = %q, want %q", c.f, c.limit, got, c.want)
+		}
+	}
+}
+
+// TestDeratingKeysMatchConfig: nodal.toml accepts exactly the derating
+// keys the kind table declares, with the same defaults.
+func TestDeratingKeysMatchConfig(t *testing.T) {
+	keys, def := DeratingDefaults()
+	cfg := config.Default()
+	ck := config.DeratingKeys()
+	slices.Sort(keys)
+	slices.Sort(ck)
+	if !slices.Equal(keys, ck) {
+		t.Errorf("kind table derating keys %v, nodal.toml keys %v", keys, config.DeratingKeys())
+	}
+	for k, f := range def {
+		if math.Abs(cfg.Derating[k]-f) > 1e-12 {
+			t.Errorf("derating %s: kind table default %v, nodal.toml default %v", k, f, cfg.Derating[k])
 		}
 	}
 }

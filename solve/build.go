@@ -44,8 +44,9 @@ func build(d *circuit.Design, vt float64, mna bool) (*model, error) {
 	}
 	for i := range d.Parts {
 		p := &d.Parts[i]
-		src := !mna && p.Kind == circuit.VoltageSource
-		if !p.IsShort() && !src {
+		dc := p.DC()
+		src := !mna && dc.Model == circuit.VoltageDrop
+		if dc.Model != circuit.Short && !src {
 			continue
 		}
 		v := 0.0
@@ -93,7 +94,7 @@ func build(d *circuit.Design, vt float64, mna bool) (*model, error) {
 	for i := range d.Parts {
 		p := &d.Parts[i]
 		m.branch[i] = -1
-		if p.Kind != circuit.Diode && p.Kind != circuit.LED {
+		if p.DC().Model != circuit.Junction {
 			continue
 		}
 		n := Ideality(p)
@@ -115,7 +116,7 @@ func build(d *circuit.Design, vt float64, mna bool) (*model, error) {
 	m.n = m.nNodes
 	for i := range d.Parts {
 		p := &d.Parts[i]
-		if p.Kind != circuit.VoltageSource || !mna {
+		if p.DC().Model != circuit.VoltageDrop || !mna {
 			continue
 		}
 		if m.node[p.Pins[0]] == m.node[p.Pins[1]] {
@@ -155,14 +156,10 @@ func (m *model) assemble(lambda, gmin float64) {
 	d := m.d
 	for i := range d.Parts {
 		p := &d.Parts[i]
-		switch p.Kind {
-		case circuit.Resistor:
-			m.netConductance(p.Pins[0], p.Pins[1], 1/p.Value)
-		case circuit.Inductor, circuit.Fuse:
-			if p.DCR > 0 {
-				m.netConductance(p.Pins[0], p.Pins[1], 1/p.DCR)
-			}
-		case circuit.VoltageSource:
+		switch dc := p.DC(); dc.Model {
+		case circuit.Conductance:
+			m.netConductance(p.Pins[0], p.Pins[1], 1/dc.R)
+		case circuit.VoltageDrop:
 			if k := m.branch[i]; k >= 0 {
 				a, b := m.node[p.Pins[0]], m.node[p.Pins[1]]
 				s.add(a, k, 1)
@@ -171,12 +168,12 @@ func (m *model) assemble(lambda, gmin float64) {
 				s.add(k, b, -1)
 				s.rhs[k] = lambda*p.Value - lambda*(m.off[p.Pins[0]]-m.off[p.Pins[1]])
 			}
-		case circuit.CurrentSource:
+		case circuit.CurrentFlow:
 			s.inject(m.node[p.Pins[0]], -lambda*p.Value)
 			s.inject(m.node[p.Pins[1]], lambda*p.Value)
-		case circuit.Diode, circuit.LED:
+		case circuit.Junction:
 			if k := m.branch[i]; k >= 0 {
-				m.conductance(m.node[p.Pins[0]], m.off[p.Pins[0]], k, 0, 1/p.Series)
+				m.conductance(m.node[p.Pins[0]], m.off[p.Pins[0]], k, 0, 1/dc.R)
 			}
 		}
 	}

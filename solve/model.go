@@ -25,8 +25,8 @@ func Ideality(p *circuit.Part) float64 {
 	if p.Ideality > 0 {
 		return p.Ideality
 	}
-	if p.Kind == circuit.LED {
-		return 2
+	if n := p.Kind.Info().Ideality; n > 0 {
+		return n
 	}
 	return 1
 }

@@ -35,18 +35,14 @@ func (m *model) result() *Result {
 		p := &d.Parts[i]
 		v := r.NetV[p.Pins[0]] - r.NetV[p.Pins[1]]
 		r.V[i] = v
-		switch p.Kind {
-		case circuit.Resistor:
-			r.I[i] = v / p.Value
-		case circuit.Inductor, circuit.Fuse:
-			if p.DCR > 0 {
-				r.I[i] = v / p.DCR
-			}
-		case circuit.VoltageSource:
+		switch dc := p.DC(); dc.Model {
+		case circuit.Conductance:
+			r.I[i] = v / dc.R
+		case circuit.VoltageDrop:
 			if k := m.branch[i]; k >= 0 {
 				r.I[i] = m.x[k]
 			}
-		case circuit.CurrentSource:
+		case circuit.CurrentFlow:
 			r.I[i] = p.Value
 		}
 	}
@@ -188,17 +184,8 @@ func (r *Result) selfCheck(d *circuit.Design) error {
 
 // conductance returns the DC conductance of a linear resistive part, or 0.
 func conductance(p *circuit.Part) float64 {
-	switch p.Kind {
-	case circuit.Resistor:
-		return 1 / p.Value
-	case circuit.Inductor, circuit.Fuse:
-		if p.DCR > 0 {
-			return 1 / p.DCR
-		}
-	case circuit.Diode, circuit.LED:
-		if p.Series > 0 {
-			return 1 / p.Series
-		}
+	if dc := p.DC(); (dc.Model == circuit.Conductance || dc.Model == circuit.Junction) && dc.R > 0 {
+		return 1 / dc.R
 	}
 	return 0
 }
@@ -213,13 +200,8 @@ func Span(d *circuit.Design) (lo, hi circuit.PartID, rlo, rhi float64, ok bool) 
 	for i := range d.Parts {
 		p := &d.Parts[i]
 		var v float64
-		switch p.Kind {
-		case circuit.Resistor:
-			v = p.Value
-		case circuit.Inductor, circuit.Fuse:
-			v = p.DCR
-		case circuit.Diode, circuit.LED:
-			v = p.Series
+		if dc := p.DC(); dc.Model == circuit.Conductance || dc.Model == circuit.Junction {
+			v = dc.R
 		}
 		if v <= 0 {
 			continue

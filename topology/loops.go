@@ -120,7 +120,7 @@ func findLoops(d *circuit.Design, r *Result) {
 		hasSource := false
 		for _, s := range steps {
 			q := &d.Parts[s.Part]
-			if q.Kind != circuit.VoltageSource {
+			if q.DC().Model != circuit.VoltageDrop {
 				continue
 			}
 			hasSource = true

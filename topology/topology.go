@@ -197,7 +197,7 @@ func findCutsets(d *circuit.Design, r *Result) {
 	}
 	for i := range d.Parts {
 		p := &d.Parts[i]
-		if p.Kind != circuit.CurrentSource {
+		if p.DC().Branch() != circuit.CurrentDefining {
 			continue
 		}
 		from, to := r.DCGroup[p.Pins[0]], r.DCGroup[p.Pins[1]]

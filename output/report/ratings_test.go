@@ -68,7 +68,7 @@ func TestEveryRatingJudged(t *testing.T) {
 			t.Errorf("kind %s has no statement in forms: add one", k)
 			continue
 		}
-		for _, dim := range k.Info().Ratings {
+		for _, dim := range k.Info().RatedDims() {
 			seen := false // some form and orientation gives the quantity
 			for _, form := range fs {
 				for _, pins := range [][2]string{{"a", "gnd"}, {"gnd", "a"}} {

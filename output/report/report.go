@@ -119,7 +119,7 @@ func New(file string, d *circuit.Design, r *solve.Result, der rules.Derating) *T
 	t.Parts = make([]Part, len(d.Parts))
 	for i := range d.Parts {
 		q := &d.Parts[i]
-		if (q.Kind == circuit.VoltageSource || q.Kind == circuit.CurrentSource) && q.Value != 0 {
+		if m := q.DC().Model; (m == circuit.VoltageDrop || m == circuit.CurrentFlow) && q.Value != 0 {
 			t.Undriven = false
 		}
 		// The values the rating rules judge, by the same function.
