@@ -2,16 +2,19 @@
 // circuit model (with the files it includes), run the rules and their last
 // pass (package rules: merging, suppression, severities, sorting). It adds
 // no step of its own; it is what the command line, the tests and the
-// benchmarks call, and all the I/O it does goes through Options.ReadFile.
+// benchmarks call, and all the I/O it does goes through Options.ReadFile,
+// confined by default to the checked file's repository (see package
+// input).
 package check
 
 import (
-	"os"
+	"path/filepath"
 	"runtime"
 
 	"nodal/circuit"
 	"nodal/diag"
 	"nodal/grammar"
+	"nodal/input"
 	"nodal/rules"
 )
 
@@ -39,9 +42,14 @@ type Options struct {
 	// every finding.
 	NoSuppress bool
 	// ReadFile reads the checked file (for File) and every included file,
-	// by a path joined onto the including file's folder. Nil: os.ReadFile.
-	// A caller that checks what git has staged reads from the index here.
+	// by a path joined onto the including file's folder; Identify names
+	// a file before it is read, the same for every path that reaches it
+	// (see circuit.Options). Nil ReadFile: an input.Reader confined to the
+	// repository holding the checked file (or its folder outside one),
+	// which also provides Identify. A caller that checks what git has
+	// staged reads from the index here.
 	ReadFile func(path string) ([]byte, error)
+	Identify func(path string) (string, error)
 	// MaxDepth bounds the nesting of block instances (0: 64).
 	MaxDepth int
 	// MaxParts bounds the parts and instances a design expands to (0: 10
@@ -49,11 +57,28 @@ type Options struct {
 	MaxParts int64
 }
 
-func (o *Options) readFile() func(string) ([]byte, error) {
+// files returns the reading functions for a check of the file name.
+func (o *Options) files(name string) (read func(string) ([]byte, error), identify func(string) (string, error)) {
 	if o.ReadFile != nil {
-		return o.ReadFile
+		return o.ReadFile, o.Identify
 	}
-	return os.ReadFile
+	r, err := DefaultReader(name)
+	if err != nil {
+		fail := func(string) ([]byte, error) { return nil, err }
+		return fail, nil
+	}
+	return r.ReadFile, r.Resolve
+}
+
+// DefaultReader returns the reader a check of the file name uses unless
+// told otherwise: confined to the top level of the repository that holds
+// it, or to its folder outside a repository, with the default size cap.
+func DefaultReader(name string) (*input.Reader, error) {
+	root, err := input.TreeRoot(filepath.Dir(name))
+	if err != nil {
+		return nil, err
+	}
+	return input.New([]string{root}, 0)
 }
 
 // File reads the file at path through opt.ReadFile and checks it.
@@ -61,7 +86,8 @@ func File(path string, opt *Options) (*Result, error) {
 	if opt == nil {
 		opt = &Options{}
 	}
-	src, err := opt.readFile()(path)
+	read, _ := opt.files(path)
+	src, err := read(path)
 	if err != nil {
 		return nil, err
 	}
@@ -79,8 +105,9 @@ func Source(name string, src []byte, opt *Options) (*Result, error) {
 	fset := diag.NewFileSet()
 	file := fset.AddFile(name, src)
 	ast := grammar.ParseShared(name, src)
+	read, identify := opt.files(name)
 	b := circuit.BuildFile(fset, file, src, ast, &circuit.Options{
-		ReadFile: opt.readFile(), MaxDepth: opt.MaxDepth, MaxParts: opt.MaxParts,
+		ReadFile: read, Identify: identify, MaxDepth: opt.MaxDepth, MaxParts: opt.MaxParts,
 	})
 	// The rules need only the comments (kept in b.Files); the tree itself,
 	// most of the memory a large design takes, is dropped here.

@@ -55,7 +55,7 @@ func BuildFile(fset *diag.FileSet, file *diag.File, src []byte, ast *grammar.Fil
 	b := &builder{
 		fset: fset, file: file, r: &Result{Design: NewDesign(file.Name())},
 		srcs: map[*diag.File][]byte{file: src}, blocks: map[string]*blockDef{},
-		included: map[string]bool{},
+		included: map[string]bool{}, active: map[string]int{},
 	}
 	if opt != nil {
 		b.opt = *opt
@@ -87,8 +87,9 @@ type builder struct {
 
 	blocks    map[string]*blockDef
 	blockList []*blockDef
-	included  map[string]bool
-	top       *blockDef // the top level, as a block without pins
+	included  map[string]bool // identities of the files read
+	active    map[string]int  // identities of the files being included: their index in the stack
+	top       *blockDef       // the top level, as a block without pins
 
 	sc *scope // the scope being elaborated
 	// subject is the instance path of the part or instance whose
@@ -174,8 +175,14 @@ func (b *builder) run(ast *grammar.File) {
 	d.Reserve(0, len(ast.Stmts)/2+1)
 	b.syntaxErrors(ast)
 	topFile := b.file
-	b.included[filepath.Clean(topFile.Name())] = true
+	topID, err := b.identify(topFile.Name())
+	if err != nil {
+		topID = filepath.Clean(topFile.Name()) // standard input, or a file read elsewhere
+	}
+	b.included[topID] = true
+	b.active[topID] = 0
 	top := b.collect(ast, []string{filepath.Clean(topFile.Name())})
+	delete(b.active, topID)
 	b.file = topFile
 	for _, st := range top {
 		if st.Ground != nil {

@@ -31,6 +31,7 @@ import (
 
 	"nodal/diag"
 	"nodal/grammar"
+	"nodal/input"
 	"nodal/units"
 )
 
@@ -44,6 +45,12 @@ const (
 type Options struct {
 	// ReadFile reads an included file. Nil refuses includes.
 	ReadFile func(path string) ([]byte, error)
+	// Identify returns the identity of a file before it is read: paths
+	// that reach the same file (through symbolic links, say) must give the
+	// same identity, so that each file is read and parsed once. An error
+	// wrapping input.ErrOutside refuses the include without reading it.
+	// Nil: the cleaned path is the identity.
+	Identify func(path string) (string, error)
 	// MaxDepth bounds the nesting of instances; 0 means DefaultMaxDepth.
 	MaxDepth int
 	// MaxParts bounds the parts and instances the design expands to; 0
@@ -220,33 +227,33 @@ func (b *builder) include(inc *grammar.Include, pos, end diag.Pos, stack []strin
 		path = filepath.Join(filepath.Dir(b.file.Name()), path)
 	}
 	path = filepath.Clean(path)
-	for i, s := range stack {
-		if s == path {
-			chain := append(append([]string{}, stack[i:]...), path)
-			b.report(CodeBadInclude, pos, end, "include cycle: %s", strings.Join(chain, " → "))
-			b.r.Incomplete = true
-			return
-		}
-	}
-	if b.included[path] {
-		return // already brought in by another include
-	}
 	if b.opt.ReadFile == nil || b.fset == nil {
 		b.report(CodeBadInclude, pos, end, "cannot include %s: this check reads no files", showPath(rel))
 		b.r.Incomplete = true
 		return
 	}
-	src, err := b.opt.ReadFile(path)
-	if err != nil {
-		msg := fmt.Sprintf("cannot read included file %s: %v", showPath(path), unwrapPath(err))
-		if errors.Is(err, fs.ErrNotExist) {
-			msg = fmt.Sprintf("included file %s does not exist (an include path is relative to the file that includes it)", showPath(path))
+	id, err := b.identify(path)
+	if err == nil {
+		if i, open := b.active[id]; open {
+			chain := append(append([]string{}, stack[i:]...), path)
+			b.report(CodeBadInclude, pos, end, "include cycle: %s", strings.Join(chain, " → "))
+			b.r.Incomplete = true
+			return
 		}
-		b.report(CodeBadInclude, pos, end, "%s", msg)
+		if b.included[id] {
+			return // already brought in by another include
+		}
+	}
+	var src []byte
+	if err == nil {
+		src, err = b.opt.ReadFile(path)
+	}
+	if err != nil {
+		b.report(CodeBadInclude, pos, end, "%s", includeError(rel, path, err))
 		b.r.Incomplete = true
 		return
 	}
-	b.included[path] = true
+	b.included[id] = true
 	file := b.fset.AddFile(path, src)
 	b.srcs[file] = src
 	ast := grammar.ParseShared(path, src) // src is kept unchanged in b.r.Files
@@ -254,8 +261,31 @@ func (b *builder) include(inc *grammar.Include, pos, end diag.Pos, stack []strin
 	saved := b.file
 	b.file = file
 	b.syntaxErrors(ast)
+	b.active[id] = len(stack)
 	b.collect(ast, append(stack, path)) // top-level statements of a library are its own
+	delete(b.active, id)
 	b.file = saved
+}
+
+// identify is Options.Identify, or the cleaned path.
+func (b *builder) identify(path string) (string, error) {
+	if b.opt.Identify == nil {
+		return filepath.Clean(path), nil
+	}
+	return b.opt.Identify(path)
+}
+
+// includeError says why an included file could not be read. A path that
+// leads outside the folders nodal reads is named only as written, and
+// nothing about its target is said.
+func includeError(rel, path string, err error) string {
+	switch {
+	case errors.Is(err, input.ErrOutside):
+		return fmt.Sprintf("include %s leads outside the folders nodal reads (the repository, or the roots set in nodal.toml or by --root); nothing of it was read", strconv.Quote(rel))
+	case errors.Is(err, fs.ErrNotExist):
+		return fmt.Sprintf("included file %s does not exist (an include path is relative to the file that includes it)", showPath(path))
+	}
+	return fmt.Sprintf("cannot read included file %s: %v", showPath(path), unwrapPath(err))
 }
 
 func unwrapPath(err error) error {

@@ -13,7 +13,6 @@ import (
 	"errors"
 	"fmt"
 	"io/fs"
-	"path"
 	"path/filepath"
 	"regexp"
 	"sort"
@@ -21,6 +20,7 @@ import (
 	"strings"
 
 	"github.com/BurntSushi/toml"
+	"github.com/bmatcuk/doublestar/v4"
 
 	"nodal/diag"
 )
@@ -43,11 +43,12 @@ var deratingDefaults = []struct {
 	{"supply-current", 90},
 }
 
-// Limit defaults: how deep blocks may nest and how many parts a design may
-// expand to.
+// Limit defaults: how deep blocks may nest, how many parts a design may
+// expand to, and the largest file (in MiB) a check reads.
 const (
-	DefaultDepth = 64
-	DefaultParts = 10_000_000
+	DefaultDepth   = 64
+	DefaultParts   = 10_000_000
+	DefaultFileMiB = 512
 )
 
 // Config is the configuration in effect for one file.
@@ -65,6 +66,13 @@ type Config struct {
 	Skip []string
 	// Depth and Parts limit block expansion.
 	Depth, Parts int
+	// FileMiB caps the size of each file a check reads, in MiB.
+	FileMiB int
+	// Roots lists folders, besides the repository (or the checked
+	// file's folder outside one), that includes may read from: library
+	// checkouts. Relative entries are taken relative to the folder of
+	// File and returned joined onto it.
+	Roots []string
 	// Origin says where each value came from: "default", or
 	// "FILE:LINE". Keys are the TOML keys ("rules.floating-net",
 	// "derating.resistor-power", "skip", "limits.depth").
@@ -83,13 +91,15 @@ func DeratingKeys() []string {
 // Default returns the configuration used when there is no nodal.toml.
 func Default() *Config {
 	c := &Config{Severity: map[string]diag.Severity{}, Derating: map[string]float64{},
-		Depth: DefaultDepth, Parts: DefaultParts, Origin: map[string]string{}}
+		Depth: DefaultDepth, Parts: DefaultParts, FileMiB: DefaultFileMiB, Origin: map[string]string{}}
 	for _, d := range deratingDefaults {
 		c.Derating[d.Key] = d.Percent / 100
 		c.Origin["derating."+d.Key] = "default"
 	}
 	c.Origin["limits.depth"] = "default"
 	c.Origin["limits.parts"] = "default"
+	c.Origin["limits.file-mib"] = "default"
+	c.Origin["roots"] = "default"
 	c.Origin["skip"] = "default"
 	return c
 }
@@ -133,9 +143,11 @@ type raw struct {
 	Rules    map[string]string  `toml:"rules"`
 	Derating map[string]float64 `toml:"derating"`
 	Skip     []string           `toml:"skip"`
+	Roots    []string           `toml:"roots"`
 	Limits   struct {
-		Depth *int64 `toml:"depth"`
-		Parts *int64 `toml:"parts"`
+		Depth   *int64 `toml:"depth"`
+		Parts   *int64 `toml:"parts"`
+		FileMiB *int64 `toml:"file-mib"`
 	} `toml:"limits"`
 }
 
@@ -173,9 +185,9 @@ func Parse(name string, src []byte, known func(string) bool, suggest func(string
 		msg := "unknown key"
 		switch {
 		case len(k) == 1:
-			msg += "; the keys are skip and the tables [rules], [derating] and [limits]"
+			msg += "; the keys are skip, roots and the tables [rules], [derating] and [limits]"
 		case k[0] == "limits":
-			msg += "; [limits] takes depth and parts"
+			msg += "; [limits] takes depth, parts and file-mib"
 		}
 		bad(key, "%s", msg)
 	}
@@ -228,6 +240,29 @@ func Parse(name string, src []byte, known func(string) bool, suggest func(string
 		c.Skip = r.Skip
 		c.Origin["skip"] = origin("skip")
 	}
+	if md.IsDefined("roots") {
+		base := filepath.Dir(name)
+		for _, root := range r.Roots {
+			if strings.TrimSpace(root) == "" {
+				bad("roots", "an empty folder name")
+				continue
+			}
+			p := filepath.FromSlash(root)
+			if !filepath.IsAbs(p) {
+				p = filepath.Join(base, p)
+			}
+			c.Roots = append(c.Roots, filepath.Clean(p))
+		}
+		c.Origin["roots"] = origin("roots")
+	}
+	if p := r.Limits.FileMiB; p != nil {
+		if *p < 1 || *p > 1<<20 {
+			bad("limits.file-mib", "%d is not a file size in MiB between 1 and %d", *p, 1<<20)
+		} else {
+			c.FileMiB = int(*p)
+			c.Origin["limits.file-mib"] = origin("limits.file-mib")
+		}
+	}
 	if p := r.Limits.Depth; p != nil {
 		if *p < 1 || *p > 1<<20 {
 			bad("limits.depth", "%d is not a nesting depth between 1 and %d", *p, 1<<20)
@@ -260,10 +295,12 @@ func sortedKeys[V any](m map[string]V) []string {
 	return ks
 }
 
-// Find looks for nodal.toml in dir and each folder above it, reading with
-// read (which reports fs.ErrNotExist for a missing file). It returns the
-// path and contents of the first found, or "" when there is none.
-func Find(dir string, read func(string) ([]byte, error)) (string, []byte, error) {
+// Find looks for nodal.toml in dir and each folder above it up to top
+// (inclusive; "" or a folder not above dir: up to the file-system root),
+// reading with read (which reports fs.ErrNotExist for a missing file). It
+// returns the path and contents of the first found, or "" when there is
+// none.
+func Find(dir, top string, read func(string) ([]byte, error)) (string, []byte, error) {
 	for {
 		p := filepath.Join(dir, FileName)
 		b, err := read(p)
@@ -274,7 +311,7 @@ func Find(dir string, read func(string) ([]byte, error)) (string, []byte, error)
 			return "", nil, err
 		}
 		up := filepath.Dir(dir)
-		if up == dir {
+		if up == dir || dir == top {
 			return "", nil, nil
 		}
 		dir = up
@@ -283,69 +320,51 @@ func Find(dir string, read func(string) ([]byte, error)) (string, []byte, error)
 
 // Skipped reports whether file (a path as the checker names it) matches
 // one of the skip globs, taken relative to the folder of c.File.
-func (c *Config) Skipped(file string) bool {
+func (c *Config) Skipped(file string) bool { return c.SkippedBy(file) != "" }
+
+// SkippedBy returns the first skip glob that file matches, or "".
+func (c *Config) SkippedBy(file string) string {
 	if len(c.Skip) == 0 || c.File == "" {
-		return false
+		return ""
 	}
 	base, err := filepath.Abs(filepath.Dir(c.File))
 	if err != nil {
-		return false
+		return ""
 	}
 	abs, err := filepath.Abs(file)
 	if err != nil {
-		return false
+		return ""
 	}
 	rel, err := filepath.Rel(base, abs)
-	if err != nil || strings.HasPrefix(rel, "..") {
-		return false
+	if err != nil || rel == ".." || strings.HasPrefix(rel, ".."+string(filepath.Separator)) {
+		return ""
 	}
 	rel = filepath.ToSlash(rel)
 	for _, g := range c.Skip {
 		if matchGlob(g, rel) {
-			return true
+			return g
 		}
 	}
-	return false
+	return ""
 }
 
+// checkGlob reports a pattern the matcher cannot use.
 func checkGlob(g string) error {
 	if g == "" {
 		return errors.New("empty pattern")
 	}
-	for _, seg := range strings.Split(g, "/") {
-		if seg == "**" {
-			continue
-		}
-		if _, err := path.Match(seg, ""); err != nil {
-			return err
-		}
+	if !doublestar.ValidatePattern(g) {
+		return errors.New("not a valid pattern (an unclosed [ or {, or a trailing \\)")
 	}
 	return nil
 }
 
 // matchGlob matches a slash-separated path against a glob in which "**"
-// stands for any number of folders and other segments follow path.Match.
+// stands for any number of folders, "*" and "?" for characters within one
+// name, and [...] and {a,b} for sets and alternatives. Matching is done by
+// doublestar, a maintained library whose time does not grow exponentially
+// with the number of "**" (a home-made backtracking matcher did).
 func matchGlob(glob, name string) bool {
-	return matchSegs(strings.Split(glob, "/"), strings.Split(name, "/"))
-}
-
-func matchSegs(g, n []string) bool {
-	for len(g) > 0 {
-		if g[0] == "**" {
-			for i := 0; i <= len(n); i++ {
-				if matchSegs(g[1:], n[i:]) {
-					return true
-				}
-			}
-			return false
-		}
-		if len(n) == 0 {
-			return false
-		}
-		if ok, _ := path.Match(g[0], n[0]); !ok {
-			return false
-		}
-		g, n = g[1:], n[1:]
-	}
-	return len(n) == 0
+	ok, err := doublestar.Match(glob, name)
+	return err == nil && ok
 }

@@ -97,3 +97,46 @@ func TestGlobs(t *testing.T) {
 		}
 	}
 }
+
+// A pattern of many "**" against a deep path made the old backtracking
+// matcher try every way of splitting the path (past 60 s for twelve "**"
+// and thirty folders). The library matches it in a number of steps that
+// grows with the pattern and the path, not exponentially: the test bounds
+// the work by giving it many such paths, which it could not finish
+// otherwise.
+func TestSkipGlobManyDoubleStars(t *testing.T) {
+	glob := strings.Repeat("**/", 12) + "x"
+	deep := strings.Repeat("d/", 30) + "y.nodal"
+	c := &Config{File: "nodal.toml", Skip: []string{glob}}
+	if err := checkGlob(glob); err != nil {
+		t.Fatal(err)
+	}
+	for i := 0; i < 200; i++ {
+		if c.Skipped(deep) {
+			t.Fatalf("%s matched %s", glob, deep)
+		}
+	}
+	if !c.Skipped(strings.Repeat("d/", 30) + "x") {
+		t.Errorf("%s does not match a path ending in x", glob)
+	}
+}
+
+func TestSkipGlobForms(t *testing.T) {
+	c := &Config{File: "nodal.toml", Skip: []string{"vendor/**", "scratch/*.nodal", "{a,b}/c.nodal"}}
+	for name, want := range map[string]string{
+		"vendor/x/y.nodal":    "vendor/**",
+		"vendor/y.nodal":      "vendor/**",
+		"scratch/t.nodal":     "scratch/*.nodal",
+		"scratch/d/t.nodal":   "",
+		"b/c.nodal":           "{a,b}/c.nodal",
+		"boards/main.nodal":   "",
+		"../vendor/out.nodal": "",
+	} {
+		if got := c.SkippedBy(name); got != want {
+			t.Errorf("SkippedBy(%q) = %q, want %q", name, got, want)
+		}
+	}
+	if checkGlob("[ab") == nil {
+		t.Errorf("an unclosed [ is accepted")
+	}
+}

@@ -14,11 +14,14 @@ import (
 // writeText writes one GNU line per finding:
 //
 //	file:line:col: severity: message [rule]
+//
+// The file name and the message are shown with TextSafe, so a finding is
+// always exactly one line.
 func writeText(w io.Writer, r *Report, opt Options) error {
 	bw := bufio.NewWriter(w)
 	for i := range r.Findings {
 		f := &r.Findings[i]
-		bw.WriteString(position(f.File, f.Line, f.Column))
+		bw.WriteString(position(PathSafe(f.File), f.Line, f.Column))
 		bw.WriteString(": ")
 		sev := f.Severity.String()
 		if opt.Color {
@@ -26,7 +29,7 @@ func writeText(w io.Writer, r *Report, opt Options) error {
 		}
 		bw.WriteString(sev)
 		bw.WriteString(": ")
-		bw.WriteString(f.Message)
+		bw.WriteString(TextSafe(f.Message))
 		if f.Rule != "" {
 			fmt.Fprintf(bw, " [%s]", f.Rule)
 		}

@@ -17,9 +17,9 @@ import (
 	"github.com/mattn/go-isatty"
 
 	"nodal/check"
-	"nodal/circuit"
 	"nodal/config"
 	"nodal/diag"
+	"nodal/input"
 	"nodal/output"
 )
 
@@ -82,19 +82,48 @@ type checkFlags struct {
 	stdinName string
 	jobs      int
 	limits    limits
+	roots     rootList
 }
 
-// limits bound the expansion of block instances.
+// limits bound the expansion of block instances and the size of a file.
+// Zero: the value from the file's nodal.toml.
 type limits struct {
 	maxDepth int
 	maxParts int64
+	fileMiB  int64
 }
 
-// flags registers --max-depth and --max-parts, shared by check and report.
+// flags registers --max-depth, --max-parts and --max-file-mib, shared by
+// check and report.
 func (l *limits) flags(fl *flag.FlagSet) {
-	fl.IntVar(&l.maxDepth, "max-depth", circuit.DefaultMaxDepth, "refuse designs whose block instances nest deeper than this")
-	fl.Int64Var(&l.maxParts, "max-parts", circuit.DefaultMaxParts, "refuse designs that expand to more parts and instances than this")
+	fl.IntVar(&l.maxDepth, "max-depth", 0, "refuse designs whose block instances nest deeper than this (default: nodal.toml's limits.depth, else 64)")
+	fl.Int64Var(&l.maxParts, "max-parts", 0, "refuse designs that expand to more parts and instances than this (default: nodal.toml's limits.parts, else 10000000)")
+	fl.Int64Var(&l.fileMiB, "max-file-mib", 0, "refuse any input file, and standard input, larger than this many MiB (default: nodal.toml's limits.file-mib, else 512)")
 }
+
+// valid reports whether the limits given are usable.
+func (l *limits) valid() bool { return l.maxDepth >= 0 && l.maxParts >= 0 && l.fileMiB >= 0 }
+
+// forConfig returns the limits in effect for a file: a flag wins over
+// nodal.toml, which wins over the default.
+func (l limits) forConfig(c *config.Config) limits {
+	if l.maxDepth == 0 {
+		l.maxDepth = c.Depth
+	}
+	if l.maxParts == 0 {
+		l.maxParts = int64(c.Parts)
+	}
+	if l.fileMiB == 0 {
+		l.fileMiB = int64(c.FileMiB)
+	}
+	return l
+}
+
+// rootList is the repeatable --root flag.
+type rootList []string
+
+func (r *rootList) String() string     { return strings.Join(*r, ",") }
+func (r *rootList) Set(v string) error { *r = append(*r, v); return nil }
 
 // parseFlags parses args and handles --help (usage to stdout, status 0)
 // and bad flags (usage to stderr, status 2). done reports that the command
@@ -123,13 +152,13 @@ func usageErr(stderr io.Writer, format string, a ...any) int {
 
 // unit is one file to check.
 type unit struct {
-	name  string // as messages name it
-	stdin bool
-	cfg   *config.Config
+	name     string // as messages name it
+	stdin    bool
+	cfg      *config.Config
+	limits   limits // in effect for this file
+	read     func(name string) ([]byte, error)
+	identify func(name string) (string, error)
 }
-
-// reader reads a file the way the current mode sees files.
-type reader func(name string) ([]byte, error)
 
 func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	fl := flag.NewFlagSet("check", flag.ContinueOnError)
@@ -142,6 +171,7 @@ func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	fl.BoolVar(&cf.staged, "staged", false, "check the content staged in git's index: the named files, or every staged .nodal file")
 	fl.StringVar(&cf.stdinName, "stdin-filename", "", "with \"-\": report, find nodal.toml and resolve includes as if standard input were this `path`")
 	fl.IntVar(&cf.jobs, "jobs", runtime.GOMAXPROCS(0), "how many files to check at once")
+	fl.Var(&cf.roots, "root", "read designs and includes only below this `folder` (repeatable); replaces the default, the repository's top level, and nodal.toml's roots")
 	cf.limits.flags(fl)
 	if status, done := parseFlags(fl, args, checkUsage, stdout, stderr); done {
 		return status
@@ -160,8 +190,8 @@ func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	if cf.stdinName != "" && len(paths) == 0 {
 		paths = []string{"-"}
 	}
-	if cf.limits.maxDepth < 1 || cf.limits.maxParts < 1 {
-		return usageErr(stderr, "--max-depth and --max-parts must be at least 1")
+	if !cf.limits.valid() {
+		return usageErr(stderr, "--max-depth, --max-parts and --max-file-mib must be at least 1")
 	}
 	if cf.stdinName != "" && !contains(paths, "-") {
 		return usageErr(stderr, "--stdin-filename needs \"-\" among the paths")
@@ -172,35 +202,35 @@ func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 
 	status := 0
 	cwd, _ := os.Getwd()
-	read := reader(os.ReadFile)
 	var names []string
+	var walked map[string]bool
 	root := ""
+	var idx *index
 	if cf.staged {
 		r, prefix, err := gitRoot(".")
 		if err != nil {
 			return usageErr(stderr, "--staged: %v", err)
 		}
 		root = r
-		idx, err := openIndex(root)
-		if err != nil {
+		if idx, err = openIndex(root); err != nil {
 			return usageErr(stderr, "--staged: %v", err)
 		}
 		defer idx.Close()
-		read = idx.ReadFile
 		names, status = stagedNames(root, prefix, paths, stderr)
-		if names, err = stagedDependents(root, prefix, names, paths, read, stderr); err != nil {
+		if names, err = stagedDependents(root, prefix, names, paths, idx.ReadFile, stderr); err != nil {
 			return usageErr(stderr, "--staged: %v", err)
 		}
 	} else {
 		if len(paths) == 0 {
 			paths = []string{"."}
 		}
-		names, status = collect(paths, stderr)
+		names, walked, status = collect(paths, stderr)
 		names = worktreeDependents(names, paths, stderr)
 	}
 
 	// Each file's configuration: --config, or the nearest nodal.toml.
-	loader := newConfigLoader(read, cf.config)
+	loader := newConfigLoader(idx, cf.config)
+	rds := newReaders(cf.roots, cf.limits.fileMiB<<20)
 	var units []unit
 	for _, n := range names {
 		u := unit{name: n}
@@ -219,17 +249,38 @@ func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 			printConfigError(stderr, err)
 			return 2
 		}
-		if cfg.Skipped(where) {
+		if g := cfg.SkippedBy(where); g != "" {
+			if !walked[n] {
+				fmt.Fprintf(stderr, "nodal: %s: skipped: it matches the skip glob %q of %s\n", output.TextSafe(u.name), g, output.TextSafe(cfg.File))
+			}
 			continue
 		}
 		u.cfg = cfg
+		u.limits = cf.limits.forConfig(cfg)
+		if idx != nil {
+			u.read, u.identify = idx.reader(u.limits.fileMiB<<20), cleanIdentity
+		} else {
+			r, err := rds.forFile(where, cfg.Roots, int(u.limits.fileMiB))
+			if err != nil {
+				fmt.Fprintln(stderr, fileError(u.name, err))
+				status = 2
+				continue
+			}
+			u.read, u.identify = r.ReadFile, r.Resolve
+			if !u.stdin {
+				if _, err := r.Resolve(n); errors.Is(err, input.ErrOutside) && walked[n] {
+					fmt.Fprintf(stderr, "nodal: %s: note: skipped: a link that leads outside the folders nodal reads\n", output.TextSafe(n))
+					continue
+				}
+			}
+		}
 		units = append(units, u)
 	}
 
 	var stdinSrc []byte
 	for _, u := range units {
 		if u.stdin {
-			b, err := io.ReadAll(stdin)
+			b, err := input.ReadAll(stdin, u.limits.fileMiB<<20)
 			if err != nil {
 				return usageErr(stderr, "reading standard input: %v", err)
 			}
@@ -238,6 +289,10 @@ func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		}
 	}
 
+	// Files are admitted by size: the bytes being checked at once stay
+	// within one file's cap, so several large designs do not each take
+	// a worker's share of memory at the same time.
+	adm := newAdmission(max(cf.limits.fileMiB<<20, config.DefaultFileMiB<<20))
 	results := make([]fileResult, len(units))
 	var wg sync.WaitGroup
 	next := make(chan int)
@@ -246,7 +301,13 @@ func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		go func() {
 			defer wg.Done()
 			for i := range next {
-				results[i] = checkOne(units[i], stdinSrc, read, loader, cf.limits)
+				n := int64(len(stdinSrc))
+				if !units[i].stdin && idx == nil {
+					n = sizeOf(units[i].name)
+				}
+				adm.acquire(n)
+				results[i] = checkOne(units[i], stdinSrc, loader)
+				adm.release(n)
 			}
 		}()
 	}
@@ -314,10 +375,10 @@ type fileResult struct {
 // checkOne checks one file. A panic anywhere in the pipeline becomes an
 // internal error for that file (exit 2), so that one file that trips a bug
 // neither takes the others down nor prints a stack trace.
-func checkOne(u unit, stdinSrc []byte, read reader, loader *configLoader, lim limits) (out fileResult) {
+func checkOne(u unit, stdinSrc []byte, loader *configLoader) (out fileResult) {
 	defer func() {
 		if r := recover(); r != nil {
-			out = fileResult{checked: true, err: fmt.Sprintf("nodal: %s: internal error: %v (please report it with the file that caused it)", u.name, r)}
+			out = fileResult{checked: true, err: fmt.Sprintf("nodal: %s: internal error: %v (please report it with the file that caused it)", output.TextSafe(u.name), r)}
 		}
 	}()
 	var src []byte
@@ -325,14 +386,15 @@ func checkOne(u unit, stdinSrc []byte, read reader, loader *configLoader, lim li
 	if u.stdin {
 		src = stdinSrc
 	} else {
-		src, err = read(u.name)
+		src, err = u.read(u.name)
 	}
 	if err != nil {
-		return fileResult{err: "nodal: " + err.Error()}
+		return fileResult{err: fileError(u.name, err)}
 	}
-	// Includes are read the same way as the file: from disk, or from git's
-	// index with --staged.
-	opts := &check.Options{Config: loader.rulesConfig(u.cfg), ReadFile: read, MaxDepth: lim.maxDepth, MaxParts: lim.maxParts}
+	// Includes are read the same way as the file: from disk below the
+	// roots, or from git's index with --staged.
+	lim := u.limits
+	opts := &check.Options{Config: loader.rulesConfig(u.cfg), ReadFile: u.read, Identify: u.identify, MaxDepth: lim.maxDepth, MaxParts: lim.maxParts}
 	res, err := checkSource(u.name, src, opts)
 	out = fileResult{checked: true, sources: map[string][]byte{u.name: src}}
 	if res != nil {
@@ -341,7 +403,7 @@ func checkOne(u unit, stdinSrc []byte, read reader, loader *configLoader, lim li
 		}
 	}
 	if err != nil {
-		out.err = fmt.Sprintf("nodal: %s: internal error: %v", u.name, err)
+		out.err = fmt.Sprintf("nodal: %s: internal error: %v", output.TextSafe(u.name), err)
 	}
 	if res != nil {
 		out.findings = output.FromDiags(res.Fset, res.Diags)
@@ -349,7 +411,7 @@ func checkOne(u unit, stdinSrc []byte, read reader, loader *configLoader, lim li
 			out.findings[i].Design = u.name
 		}
 		if s := res.Solved; s != nil && s.Skipped != nil {
-			out.note = fmt.Sprintf("nodal: %s: note: the DC operating point was not solved, so the rating rules did not run: %v", u.name, s.Skipped)
+			out.note = fmt.Sprintf("nodal: %s: note: the DC operating point was not solved, so the rating rules did not run: %v", output.TextSafe(u.name), s.Skipped)
 		}
 	}
 	return out
@@ -375,11 +437,12 @@ func isTerminal(w io.Writer) bool {
 // collect expands folders into their .nodal files, sorted, each once.
 // Named files that are not .nodal files are skipped; named paths that do
 // not exist are skipped when git knows them (deleted by the change being
-// checked) and reported otherwise.
-func collect(paths []string, stderr io.Writer) ([]string, int) {
-	status := 0
+// checked) and reported otherwise. A named link to a folder is walked like
+// the folder. walked holds the files found by walking rather than named.
+func collect(paths []string, stderr io.Writer) (out []string, walked map[string]bool, status int) {
 	seen := map[string]bool{}
-	var out, missing []string
+	walked = map[string]bool{}
+	var missing []string
 	add := func(p string) {
 		if !seen[p] {
 			seen[p] = true
@@ -397,7 +460,7 @@ func collect(paths []string, stderr io.Writer) ([]string, int) {
 			continue
 		}
 		if err != nil {
-			fmt.Fprintf(stderr, "nodal: %v\n", err)
+			fmt.Fprintln(stderr, fileError(p, err))
 			status = 2
 			continue
 		}
@@ -407,12 +470,18 @@ func collect(paths []string, stderr io.Writer) ([]string, int) {
 			}
 			continue
 		}
+		// A link to a folder is walked as the folder it names; the walk
+		// itself does not follow links to folders.
+		start := p
+		if l, err := os.Lstat(p); err == nil && l.Mode()&fs.ModeSymlink != 0 {
+			start = filepath.Clean(p) + string(filepath.Separator)
+		}
 		var found []string
-		err = filepath.WalkDir(p, func(q string, e fs.DirEntry, err error) error {
+		err = filepath.WalkDir(start, func(q string, e fs.DirEntry, err error) error {
 			if err != nil {
 				return err
 			}
-			if e.IsDir() && q != p && strings.HasPrefix(e.Name(), ".") {
+			if e.IsDir() && q != start && strings.HasPrefix(e.Name(), ".") {
 				return filepath.SkipDir
 			}
 			if !e.IsDir() && strings.HasSuffix(e.Name(), ".nodal") {
@@ -421,18 +490,19 @@ func collect(paths []string, stderr io.Writer) ([]string, int) {
 			return nil
 		})
 		if err != nil {
-			fmt.Fprintf(stderr, "nodal: %v\n", err)
+			fmt.Fprintln(stderr, fileError(p, err))
 			status = 2
 		}
 		sort.Strings(found)
 		for _, q := range found {
+			walked[q] = !seen[q] || walked[q]
 			add(q)
 		}
 	}
 	if reportUnknown(missing, "no such file or folder", stderr) {
 		status = 2
 	}
-	return out, status
+	return out, walked, status
 }
 
 // reportUnknown says which of the missing paths git does not know: those
@@ -446,7 +516,7 @@ func reportUnknown(missing []string, what string, stderr io.Writer) bool {
 	known := gitKnown(".", missing)
 	for _, p := range missing {
 		if !known[p] {
-			fmt.Fprintf(stderr, "nodal: %s: %s\n", p, what)
+			fmt.Fprintf(stderr, "nodal: %s: %s\n", output.TextSafe(p), what)
 			typo = true
 		}
 	}

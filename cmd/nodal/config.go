@@ -11,6 +11,7 @@ import (
 	"text/tabwriter"
 
 	"nodal/config"
+	"nodal/output"
 	"nodal/rules"
 )
 
@@ -25,6 +26,8 @@ folder above it; the first found is used, whole (files are not merged).
 Its keys:
 
   skip = ["vendor/**", "scratch/*.nodal"]   # globs, relative to nodal.toml
+  roots = ["../parts-library"]   # folders includes may read besides the
+                                 # repository (relative to nodal.toml)
 
   [rules]                 # severity of a rule: off, note, warning, error
   floating-net = "off"
@@ -32,9 +35,16 @@ Its keys:
   [derating]              # percent of a part's rating the rating rules
   resistor-power = 60     # accept before warning (all: common practice)
 
-  [limits]                # block expansion
+  [limits]                # block expansion and input size
   depth = 64              # deepest nesting of blocks
   parts = 10000000        # most parts a design may expand to
+  file-mib = 512          # largest file (and standard input) read, in MiB
+
+nodal.toml is looked for up to the repository's top level (outside a
+repository, up to the file-system root). The limits apply to "nodal check"
+and "nodal report"; their flags (--max-depth, --max-parts, --max-file-mib)
+win over nodal.toml, and --root replaces the roots. docs/security.md says
+what nodal reads and how to run it on untrusted changes.
 
 An unknown key, a bad value or an unknown rule id is an error naming the
 file, line and key.
@@ -71,7 +81,7 @@ func cmdConfig(args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "nodal: %v\n", err)
 		return 2
 	}
-	loader := newConfigLoader(os.ReadFile, *forced)
+	loader := newConfigLoader(nil, *forced)
 	c, err := loader.forFile(where)
 	if err != nil {
 		printConfigError(stderr, err)
@@ -88,7 +98,7 @@ func writeConfig(w io.Writer, p string, c *config.Config) {
 	if from == "" {
 		from = "no nodal.toml found; every value is a default"
 	}
-	fmt.Fprintf(w, "# configuration for %s\n# from %s\n", p, from)
+	fmt.Fprintf(w, "# configuration for %s\n# from %s\n", output.TextSafe(p), output.TextSafe(from))
 	tw := tabwriter.NewWriter(w, 0, 4, 2, ' ', 0)
 	origin := func(key string) string {
 		if o, ok := c.Origin[key]; ok {
@@ -97,13 +107,18 @@ func writeConfig(w io.Writer, p string, c *config.Config) {
 		return "default"
 	}
 	if c.Skipped(p) {
-		fmt.Fprintf(w, "# %s is skipped by the skip globs\n", p)
+		fmt.Fprintf(w, "# %s is skipped by the skip globs\n", output.TextSafe(p))
 	}
 	skip := make([]string, len(c.Skip))
 	for i, g := range c.Skip {
 		skip[i] = fmt.Sprintf("%q", g)
 	}
 	fmt.Fprintf(tw, "\nskip = [%s]\t# %s\n", strings.Join(skip, ", "), origin("skip"))
+	roots := make([]string, len(c.Roots))
+	for i, r := range c.Roots {
+		roots[i] = fmt.Sprintf("%q", r)
+	}
+	fmt.Fprintf(tw, "roots = [%s]\t# %s\n", strings.Join(roots, ", "), origin("roots"))
 	fmt.Fprintf(tw, "\n[rules]\n")
 	for _, a := range rules.All {
 		sev := a.Severity
@@ -119,5 +134,6 @@ func writeConfig(w io.Writer, p string, c *config.Config) {
 	fmt.Fprintf(tw, "\n[limits]\n")
 	fmt.Fprintf(tw, "depth = %d\t# %s\n", c.Depth, origin("limits.depth"))
 	fmt.Fprintf(tw, "parts = %d\t# %s\n", c.Parts, origin("limits.parts"))
+	fmt.Fprintf(tw, "file-mib = %d\t# %s\n", c.FileMiB, origin("limits.file-mib"))
 	tw.Flush()
 }

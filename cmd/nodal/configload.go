@@ -4,17 +4,23 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"path/filepath"
 	"sync"
 
 	"nodal/config"
 	"nodal/diag"
+	"nodal/input"
+	"nodal/output"
 	"nodal/rules"
 )
 
-// configLoader finds and parses each folder's nodal.toml once.
+// configLoader finds and parses each folder's nodal.toml once: in the
+// file's folder or the nearest above it, up to the repository's top level
+// (or the file-system root outside a repository), read from git's index
+// with --staged.
 type configLoader struct {
-	read   reader
+	idx    *index // nil: read from disk
 	forced string // --config
 	mu     sync.Mutex
 	byDir  map[string]*config.Config
@@ -22,8 +28,8 @@ type configLoader struct {
 	rules  map[*config.Config]*rules.Config
 }
 
-func newConfigLoader(read reader, forced string) *configLoader {
-	return &configLoader{read: read, forced: forced, byDir: map[string]*config.Config{},
+func newConfigLoader(idx *index, forced string) *configLoader {
+	return &configLoader{idx: idx, forced: forced, byDir: map[string]*config.Config{},
 		byFile: map[string]*config.Config{}, rules: map[*config.Config]*rules.Config{}}
 }
 
@@ -43,7 +49,7 @@ func (l *configLoader) forFile(name string) (*config.Config, error) {
 	if c, ok := l.byDir[dir]; ok {
 		return c, nil
 	}
-	p, src, err := config.Find(dir, l.read)
+	p, src, err := l.find(dir)
 	if err != nil {
 		return nil, err
 	}
@@ -57,12 +63,48 @@ func (l *configLoader) forFile(name string) (*config.Config, error) {
 	return c, nil
 }
 
+// find looks for the nodal.toml that applies to files in dir.
+func (l *configLoader) find(dir string) (string, []byte, error) {
+	if l.idx != nil {
+		// Staged names are repository paths: "." is the top level.
+		return config.Find(dir, ".", l.idx.reader(input.DefaultMaxSize))
+	}
+	loc, err := input.Locate(dir)
+	if errors.Is(err, fs.ErrNotExist) {
+		return "", nil, nil // a --stdin-filename in no folder: no nodal.toml
+	}
+	if err != nil {
+		return "", nil, err
+	}
+	read := func(p string) ([]byte, error) { return input.ReadRegular(p, 0) }
+	if loc.Top != "" {
+		// Inside a repository a nodal.toml is read only from inside it,
+		// whatever links it is reached through.
+		r, err := input.New([]string{loc.Top}, 0)
+		if err != nil {
+			return "", nil, err
+		}
+		read = r.ReadFile
+	}
+	p, src, err := config.Find(loc.Dir, loc.Top, read)
+	if p == "" || err != nil || filepath.IsAbs(dir) {
+		return p, src, err
+	}
+	// Named as the files were: relative to the current folder.
+	if cwd, cerr := input.Locate("."); cerr == nil {
+		if rel, rerr := filepath.Rel(cwd.Dir, p); rerr == nil {
+			p = rel
+		}
+	}
+	return p, src, err
+}
+
 func (l *configLoader) parse(p string, src []byte) (*config.Config, error) {
 	if c, ok := l.byFile[p]; ok {
 		return c, nil
 	}
 	if src == nil {
-		b, err := readDisk(p)
+		b, err := input.ReadRegular(p, 0)
 		if err != nil {
 			return nil, err
 		}
@@ -99,11 +141,11 @@ func printConfigError(w io.Writer, err error) {
 	switch {
 	case errors.As(err, &errs):
 		for _, e := range errs {
-			fmt.Fprintf(w, "%s\n", e)
+			fmt.Fprintf(w, "%s\n", output.PathSafe(e.Error()))
 		}
 	case errors.As(err, &one):
-		fmt.Fprintf(w, "%s\n", one)
+		fmt.Fprintf(w, "%s\n", output.PathSafe(one.Error()))
 	default:
-		fmt.Fprintf(w, "nodal: %v\n", err)
+		fmt.Fprintf(w, "nodal: %s\n", output.TextSafe(err.Error()))
 	}
 }

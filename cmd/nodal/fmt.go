@@ -52,7 +52,7 @@ func cmdFmt(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	if len(paths) == 0 {
 		paths = []string{"."}
 	}
-	files, status := collect(paths, stderr)
+	files, _, status := collect(paths, stderr)
 	if *write && contains(files, "-") {
 		return usageErr(stderr, "fmt: -w cannot rewrite standard input")
 	}

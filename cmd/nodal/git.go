@@ -12,13 +12,14 @@ import (
 	"fmt"
 	"io"
 	"io/fs"
-	"os"
 	"os/exec"
 	"path"
 	"path/filepath"
 	"strconv"
 	"strings"
 	"sync"
+
+	"nodal/input"
 )
 
 func gitOutput(dir string, args ...string) ([]byte, error) {
@@ -148,12 +149,22 @@ func openIndex(root string) (*index, error) {
 	return &index{root: root, cmd: cmd, in: in, out: bufio.NewReaderSize(out, 1<<16)}, nil
 }
 
+// reader returns ReadFile with a size cap.
+func (x *index) reader(maxSize int64) func(string) ([]byte, error) {
+	return func(name string) ([]byte, error) { return x.readFile(name, maxSize) }
+}
+
 // ReadFile returns the staged content of a repository path, or an error
 // wrapping fs.ErrNotExist when the index has no such file.
-func (x *index) ReadFile(name string) ([]byte, error) {
+func (x *index) ReadFile(name string) ([]byte, error) { return x.readFile(name, input.DefaultMaxSize) }
+
+func (x *index) readFile(name string, maxSize int64) ([]byte, error) {
 	p := path.Clean(filepath.ToSlash(name))
-	if p == ".." || strings.HasPrefix(p, "../") || path.IsAbs(p) || strings.ContainsAny(p, "\n") {
-		return nil, &fs.PathError{Op: "read staged", Path: name, Err: fs.ErrNotExist}
+	if p == ".." || strings.HasPrefix(p, "../") || path.IsAbs(p) {
+		return nil, &fs.PathError{Op: "read staged", Path: name, Err: input.ErrOutside}
+	}
+	if strings.ContainsAny(p, "\n") {
+		return nil, &fs.PathError{Op: "read staged", Path: name, Err: errors.New("a name with a line break cannot be read from git's index")}
 	}
 	x.mu.Lock()
 	defer x.mu.Unlock()
@@ -175,6 +186,13 @@ func (x *index) ReadFile(name string) ([]byte, error) {
 	if err != nil {
 		return nil, fmt.Errorf("git cat-file: bad header %q", header)
 	}
+	if int64(size) > maxSize {
+		// Skipped unread, so the next answer starts where it should.
+		if _, err := io.CopyN(io.Discard, x.out, int64(size)+1); err != nil {
+			return nil, fmt.Errorf("git cat-file: %w", err)
+		}
+		return nil, &fs.PathError{Op: "read staged", Path: name, Err: &input.TooLargeError{Size: int64(size), Limit: maxSize}}
+	}
 	buf := make([]byte, size+1) // content and its trailing newline
 	if _, err := io.ReadFull(x.out, buf); err != nil {
 		return nil, fmt.Errorf("git cat-file: %w", err)
@@ -186,5 +204,3 @@ func (x *index) Close() error {
 	x.in.Close()
 	return x.cmd.Wait()
 }
-
-var readDisk = os.ReadFile

@@ -10,6 +10,7 @@ import (
 
 	"nodal/check"
 	"nodal/diag"
+	"nodal/input"
 	"nodal/output"
 	"nodal/output/report"
 	"nodal/solve"
@@ -81,8 +82,8 @@ func cmdReport(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	if format != "text" && format != "json" {
 		return usageErr(stderr, "--format %q: want text or json", format)
 	}
-	if lim.maxDepth < 1 || lim.maxParts < 1 {
-		return usageErr(stderr, "--max-depth and --max-parts must be at least 1")
+	if !lim.valid() {
+		return usageErr(stderr, "--max-depth, --max-parts and --max-file-mib must be at least 1")
 	}
 	paths := fl.Args()
 	if stdinName != "" && len(paths) == 0 {
@@ -97,38 +98,40 @@ func cmdReport(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	}
 
 	name, where := path, path
-	var src []byte
 	if path == "-" {
 		name, where = "<stdin>", filepath.Join(".", "stdin")
 		if stdinName != "" {
 			name, where = stdinName, stdinName
 		}
-		b, err := io.ReadAll(stdin)
-		if err != nil {
-			return usageErr(stderr, "reading standard input: %v", err)
-		}
-		src = b
-	} else {
-		if info, err := os.Stat(path); err == nil && info.IsDir() {
-			return usageErr(stderr, "%s is a folder; report takes one design file (\"nodal check %s\" checks a folder)", path, path)
-		}
-		b, err := os.ReadFile(path)
-		if err != nil {
-			return usageErr(stderr, "%v", err)
-		}
-		src = b
+	} else if info, err := os.Stat(path); err == nil && info.IsDir() {
+		return usageErr(stderr, "%s is a folder; report takes one design file (\"nodal check %s\" checks a folder)", output.TextSafe(path), output.TextSafe(path))
 	}
-
-	loader := newConfigLoader(os.ReadFile, cfgFile)
+	loader := newConfigLoader(nil, cfgFile)
 	cfg, err := loader.forFile(where)
 	if err != nil {
 		printConfigError(stderr, err)
 		return 2
 	}
-	rc := loader.rulesConfig(cfg)
-	res, err := reportSource(name, src, &check.Options{Config: rc, MaxDepth: lim.maxDepth, MaxParts: lim.maxParts})
+	lim = lim.forConfig(cfg)
+	rd, err := newReaders(nil, lim.fileMiB<<20).forFile(where, cfg.Roots, int(lim.fileMiB))
 	if err != nil {
-		return usageErr(stderr, "%s: internal error: %v (please report it with the file that caused it)", name, err)
+		fmt.Fprintln(stderr, fileError(name, err))
+		return 2
+	}
+	var src []byte
+	if path == "-" {
+		src, err = input.ReadAll(stdin, lim.fileMiB<<20)
+		if err != nil {
+			return usageErr(stderr, "reading standard input: %v", err)
+		}
+	} else if src, err = rd.ReadFile(path); err != nil {
+		fmt.Fprintln(stderr, fileError(path, err))
+		return 2
+	}
+	rc := loader.rulesConfig(cfg)
+	res, err := reportSource(name, src, &check.Options{Config: rc, ReadFile: rd.ReadFile, Identify: rd.Resolve, MaxDepth: lim.maxDepth, MaxParts: lim.maxParts})
+	if err != nil {
+		return usageErr(stderr, "%s: internal error: %v (please report it with the file that caused it)", output.TextSafe(name), err)
 	}
 	color := format == "text" && !noColor && os.Getenv("NO_COLOR") == "" && isTerminal(stdout)
 
@@ -141,7 +144,7 @@ func cmdReport(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		if err := output.Write(out, "text", rep, output.Options{Color: color && out == stdout}); err != nil {
 			return usageErr(stderr, "%v", err)
 		}
-		fmt.Fprintf(stderr, "nodal: %s: %s\n", name, noReport(res))
+		fmt.Fprintf(stderr, "nodal: %s: %s\n", output.TextSafe(name), noReport(res))
 		return 1
 	}
 
@@ -155,7 +158,7 @@ func cmdReport(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		return usageErr(stderr, "%v", err)
 	}
 	if e, w := count(res.Diags); e+w > 0 {
-		fmt.Fprintf(stderr, "nodal: %s: %s, %s; \"nodal check %s\" lists them\n", name, output.Plural(e, "error"), output.Plural(w, "warning"), path)
+		fmt.Fprintf(stderr, "nodal: %s: %s, %s; \"nodal check %s\" lists them\n", output.TextSafe(name), output.Plural(e, "error"), output.Plural(w, "warning"), output.TextSafe(path))
 	}
 	return 0
 }

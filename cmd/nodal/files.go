@@ -1,0 +1,143 @@
+package main
+
+// files.go: how check and report read the files of a design — confined to
+// the repository (or the roots given), regular files only, each within
+// the size cap — and how files are admitted to the worker pool by size.
+
+import (
+	"errors"
+	"fmt"
+	"io/fs"
+	"os"
+	"path"
+	"path/filepath"
+	"strings"
+	"sync"
+
+	"nodal/check"
+	"nodal/input"
+	"nodal/output"
+)
+
+// reader reads a file the way the current mode sees files.
+type reader func(name string) ([]byte, error)
+
+// readDisk reads a file of the work tree outside a check (to follow
+// includes for a hook): confined to the repository holding it, a regular
+// file, within the default cap.
+func readDisk(name string) ([]byte, error) {
+	r, err := check.DefaultReader(name)
+	if err != nil {
+		return nil, err
+	}
+	return r.ReadFile(name)
+}
+
+// readers builds and keeps one input.Reader per set of roots and cap.
+type readers struct {
+	explicit []string // --root: replaces the default root and nodal.toml's roots
+	maxSize  int64    // --max-file-mib in bytes; 0: each file's nodal.toml
+	mu       sync.Mutex
+	byDir    map[string]string // folder → its tree root
+	byKey    map[string]*input.Reader
+}
+
+func newReaders(explicit []string, maxSize int64) *readers {
+	return &readers{explicit: explicit, maxSize: maxSize, byDir: map[string]string{}, byKey: map[string]*input.Reader{}}
+}
+
+// forFile returns the reader for a file checked with configuration roots
+// and size cap (in MiB) from its nodal.toml.
+func (rs *readers) forFile(name string, cfgRoots []string, cfgMiB int) (*input.Reader, error) {
+	rs.mu.Lock()
+	defer rs.mu.Unlock()
+	roots := rs.explicit
+	if len(roots) == 0 {
+		dir := filepath.Dir(name)
+		top, ok := rs.byDir[dir]
+		if !ok {
+			var err error
+			if top, err = input.TreeRoot(dir); err != nil {
+				return nil, err
+			}
+			rs.byDir[dir] = top
+		}
+		roots = append([]string{top}, cfgRoots...)
+	}
+	size := rs.maxSize
+	if size == 0 {
+		size = int64(cfgMiB) << 20
+	}
+	key := fmt.Sprint(size, "\x00", strings.Join(roots, "\x00"))
+	if r, ok := rs.byKey[key]; ok {
+		return r, nil
+	}
+	r, err := input.New(roots, size)
+	if err != nil {
+		return nil, fmt.Errorf("a root of the check: %w", err)
+	}
+	rs.byKey[key] = r
+	return r, nil
+}
+
+// cleanIdentity is the identity of a file read from git's index: its
+// repository path (the index holds no links to follow).
+func cleanIdentity(name string) (string, error) { return path.Clean(filepath.ToSlash(name)), nil }
+
+// fileError is an I/O error about one file, as one line: the name shown
+// safely, then what went wrong.
+func fileError(name string, err error) string {
+	var pe *fs.PathError
+	if errors.As(err, &pe) {
+		err = pe.Err
+	}
+	switch {
+	case errors.Is(err, input.ErrOutside):
+		return fmt.Sprintf("nodal: %s: leads outside the folders nodal reads (the repository, or the roots set in nodal.toml or by --root); refused", output.TextSafe(name))
+	case errors.Is(err, fs.ErrNotExist):
+		return fmt.Sprintf("nodal: %s: no such file", output.TextSafe(name))
+	}
+	return fmt.Sprintf("nodal: %s: %s", output.TextSafe(name), output.TextSafe(err.Error()))
+}
+
+// admission lets files into the worker pool while the bytes being checked
+// at once stay within a budget, so that several large designs do not
+// multiply the peak memory by the number of workers. A file larger than
+// the budget runs alone.
+type admission struct {
+	mu     sync.Mutex
+	cond   *sync.Cond
+	budget int64
+	used   int64
+}
+
+func newAdmission(budget int64) *admission {
+	a := &admission{budget: budget}
+	a.cond = sync.NewCond(&a.mu)
+	return a
+}
+
+func (a *admission) acquire(n int64) {
+	a.mu.Lock()
+	for a.used > 0 && a.used+n > a.budget {
+		a.cond.Wait()
+	}
+	a.used += n
+	a.mu.Unlock()
+}
+
+func (a *admission) release(n int64) {
+	a.mu.Lock()
+	a.used -= n
+	a.mu.Unlock()
+	a.cond.Broadcast()
+}
+
+// sizeOf is the size of a file for admission; 0 when unknown.
+func sizeOf(name string) int64 {
+	info, err := os.Stat(name)
+	if err != nil || !info.Mode().IsRegular() {
+		return 0
+	}
+	return info.Size()
+}

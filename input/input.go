@@ -1,0 +1,297 @@
+// Package input reads the files of a check, and nothing else. Files in a
+// pull request are untrusted: a design may name any path in an include,
+// and a .nodal file or a folder may be a symbolic link to anywhere. Every
+// read nodal makes of a design goes through a Reader.
+//
+// # Roots
+//
+// A Reader reads only below its roots: by default the top level of the
+// repository that holds the checked file (the nearest folder above it with
+// a .git entry), or the checked file's own folder outside a repository.
+// Paths are resolved one component at a time, symbolic links included,
+// before anything is opened, so a path that leaves the roots by "..", by an
+// absolute name or through a link is refused with ErrOutside whether or
+// not its target exists: the answer says nothing about the world outside.
+//
+// # Regular files only
+//
+// Devices, pipes, sockets and folders are refused with ErrNotRegular
+// before they are opened for reading (a pipe is opened without waiting
+// for a writer, and checked again once open), so /dev/zero or a FIFO
+// cannot make a check hang or fill memory.
+//
+// # Size
+//
+// Every read is capped (DefaultMaxSize unless set). A file past the cap is
+// refused with a *TooLargeError before its content is read; a file that
+// grows while it is read is cut at the cap and refused too. ReadAll applies
+// the same cap to a stream such as standard input.
+//
+// # Identity
+//
+// Resolve returns a file's resolved absolute path: two paths that reach
+// the same file through links resolve alike, so a check reads and parses
+// each file once, however many ways it is named.
+package input
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"io/fs"
+	"os"
+	"path/filepath"
+	"strings"
+)
+
+// DefaultMaxSize is the largest file a check reads unless told otherwise:
+// 512 MiB, room for the largest generated meshes the solver handles.
+const DefaultMaxSize = 512 << 20
+
+// maxLinks bounds the symbolic links followed while resolving one path,
+// as the operating system does.
+const maxLinks = 255
+
+// ErrOutside is returned for a path that leads outside every root.
+var ErrOutside = errors.New("outside the folders nodal reads")
+
+// ErrNotRegular is returned for a device, pipe, socket or folder.
+var ErrNotRegular = errors.New("not a regular file (a device, pipe, socket or folder)")
+
+// TooLargeError is returned for a file or stream past the size cap.
+type TooLargeError struct {
+	Size  int64 // the size seen; Limit+1 when it is only known to be larger
+	Limit int64
+}
+
+func (e *TooLargeError) Error() string {
+	if e.Size > e.Limit+1 {
+		return fmt.Sprintf("%s, larger than the limit of %s on one input", MiB(e.Size), MiB(e.Limit))
+	}
+	return fmt.Sprintf("larger than the limit of %s on one input", MiB(e.Limit))
+}
+
+// MiB formats a byte count for a message.
+func MiB(n int64) string {
+	if n >= 1<<20 && n%(1<<20) == 0 {
+		return fmt.Sprintf("%d MiB", n>>20)
+	}
+	if n >= 1<<20 {
+		return fmt.Sprintf("%.1f MiB", float64(n)/(1<<20))
+	}
+	return fmt.Sprintf("%d bytes", n)
+}
+
+// Reader reads regular files below its roots, each up to a size cap. It
+// holds no state between reads and is safe for concurrent use.
+type Reader struct {
+	roots []string
+	max   int64
+}
+
+// New returns a Reader confined to roots (folders, which must exist) with
+// the size cap maxSize (0: DefaultMaxSize).
+func New(roots []string, maxSize int64) (*Reader, error) {
+	if len(roots) == 0 {
+		return nil, errors.New("input: no root")
+	}
+	if maxSize <= 0 {
+		maxSize = DefaultMaxSize
+	}
+	r := &Reader{max: maxSize}
+	for _, root := range roots {
+		abs, err := filepath.Abs(root)
+		if err != nil {
+			return nil, err
+		}
+		res, ok, err := resolve(abs)
+		if err != nil {
+			return nil, err
+		}
+		if !ok {
+			return nil, &fs.PathError{Op: "root", Path: root, Err: fs.ErrNotExist}
+		}
+		r.roots = append(r.roots, res)
+	}
+	return r, nil
+}
+
+// Roots returns the resolved roots.
+func (r *Reader) Roots() []string { return r.roots }
+
+// MaxSize returns the size cap.
+func (r *Reader) MaxSize() int64 { return r.max }
+
+// Resolve returns the absolute path name leads to once every symbolic link
+// is followed. It fails with ErrOutside when that path is not below a
+// root, and with fs.ErrNotExist when it is but nothing is there; both are
+// wrapped in an *fs.PathError holding name as given.
+func (r *Reader) Resolve(name string) (string, error) {
+	abs, err := filepath.Abs(name)
+	if err != nil {
+		return "", &fs.PathError{Op: "resolve", Path: name, Err: err}
+	}
+	res, exists, err := resolve(abs)
+	if err != nil {
+		return "", &fs.PathError{Op: "resolve", Path: name, Err: err}
+	}
+	if !r.inside(res) {
+		return "", &fs.PathError{Op: "read", Path: name, Err: ErrOutside}
+	}
+	if !exists {
+		return "", &fs.PathError{Op: "read", Path: name, Err: fs.ErrNotExist}
+	}
+	return res, nil
+}
+
+func (r *Reader) inside(p string) bool {
+	for _, root := range r.roots {
+		if Within(p, root) {
+			return true
+		}
+	}
+	return false
+}
+
+// Within reports whether the clean absolute path p is root or below it.
+func Within(p, root string) bool {
+	if p == root {
+		return true
+	}
+	if !strings.HasSuffix(root, string(filepath.Separator)) {
+		root += string(filepath.Separator)
+	}
+	return strings.HasPrefix(p, root)
+}
+
+// ReadFile reads the regular file name leads to, below a root and within
+// the size cap.
+func (r *Reader) ReadFile(name string) ([]byte, error) {
+	res, err := r.Resolve(name)
+	if err != nil {
+		return nil, err
+	}
+	return readRegular(name, res, r.max)
+}
+
+// ReadRegular reads a regular file, following links, within maxSize (0:
+// DefaultMaxSize) but without confining it to a root. It is for files the
+// user names for nodal itself, such as a configuration file.
+func ReadRegular(name string, maxSize int64) ([]byte, error) {
+	if maxSize <= 0 {
+		maxSize = DefaultMaxSize
+	}
+	return readRegular(name, name, maxSize)
+}
+
+// readRegular reads path (reported as name) if it is a regular file no
+// larger than max.
+func readRegular(name, path string, max int64) ([]byte, error) {
+	fail := func(err error) ([]byte, error) { return nil, &fs.PathError{Op: "read", Path: name, Err: err} }
+	info, err := os.Stat(path)
+	if err != nil {
+		var pe *fs.PathError
+		if errors.As(err, &pe) {
+			err = pe.Err
+		}
+		return fail(err)
+	}
+	if !info.Mode().IsRegular() {
+		return fail(ErrNotRegular)
+	}
+	if info.Size() > max {
+		return fail(&TooLargeError{Size: info.Size(), Limit: max})
+	}
+	f, err := openNoWait(path)
+	if err != nil {
+		var pe *fs.PathError
+		if errors.As(err, &pe) {
+			err = pe.Err
+		}
+		return fail(err)
+	}
+	defer f.Close()
+	// Checked again on the open file: the path may have changed since.
+	if info, err = f.Stat(); err != nil {
+		return fail(err)
+	}
+	if !info.Mode().IsRegular() {
+		return fail(ErrNotRegular)
+	}
+	b, err := ReadAll(f, max)
+	if err != nil {
+		return fail(err)
+	}
+	return b, nil
+}
+
+// ReadAll reads a stream to its end, or fails with a *TooLargeError as
+// soon as it passes maxSize bytes (0: DefaultMaxSize).
+func ReadAll(rd io.Reader, maxSize int64) ([]byte, error) {
+	if maxSize <= 0 {
+		maxSize = DefaultMaxSize
+	}
+	b, err := io.ReadAll(io.LimitReader(rd, maxSize+1))
+	if err != nil {
+		return nil, err
+	}
+	if int64(len(b)) > maxSize {
+		return nil, &TooLargeError{Size: maxSize + 1, Limit: maxSize}
+	}
+	return b, nil
+}
+
+// TreeRoot returns the default root for a file in dir: the top level of
+// the repository holding dir (the nearest folder, dir included, with a
+// .git entry), or dir itself outside a repository. The result is absolute
+// with its links resolved.
+func TreeRoot(dir string) (string, error) {
+	l, err := Locate(dir)
+	if err != nil {
+		return "", err
+	}
+	if l.Top != "" {
+		return l.Top, nil
+	}
+	return l.Dir, nil
+}
+
+// Location is where a folder is.
+type Location struct {
+	Dir string // the folder, absolute, links resolved
+	Top string // the top level of the repository holding it; "" outside one
+}
+
+// Locate resolves dir and finds its repository. A dir that does not exist
+// is located by the nearest folder above it that does.
+func Locate(dir string) (Location, error) {
+	abs, err := filepath.Abs(dir)
+	if err != nil {
+		return Location{}, err
+	}
+	res, ok, err := resolve(abs)
+	if err != nil {
+		return Location{}, err
+	}
+	for !ok {
+		// A folder yet to be made (a --stdin-filename, say) is located
+		// by the nearest one above it that exists.
+		up := filepath.Dir(res)
+		if up == res {
+			return Location{}, &fs.PathError{Op: "find root", Path: dir, Err: fs.ErrNotExist}
+		}
+		if res, ok, err = resolve(up); err != nil {
+			return Location{}, err
+		}
+	}
+	for d := res; ; {
+		if _, err := os.Lstat(filepath.Join(d, ".git")); err == nil {
+			return Location{Dir: res, Top: d}, nil
+		}
+		up := filepath.Dir(d)
+		if up == d {
+			return Location{Dir: res}, nil
+		}
+		d = up
+	}
+}
