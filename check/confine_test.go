@@ -86,7 +86,7 @@ func TestIncludeFanOutThroughLinksReadsEachFileOnce(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if got := len(r.Build.Files)-1; got != n-1 {
+	if got := len(r.Build.Files) - 1; got != n-1 {
 		t.Errorf("%d files read for %d distinct included files", got, n-1)
 	}
 }
