@@ -1,0 +1,2 @@
+" nodal circuit descriptions: files ending in .nodal.
+autocmd BufNewFile,BufRead *.nodal setfiletype nodal
