@@ -350,7 +350,7 @@ func TestBlockRules(t *testing.T) {
 		line            int
 	}{
 		{"unknown block", "dividr D (a, b, gnd) [rbot = 1 kΩ]\n", "unknown-block", []string{`"dividr"`, "did you mean block divider?"}, 6},
-		{"too few pins", "divider D (a, gnd) [rbot = 1 kΩ]\n", "block-pin", []string{"binds 2 net(s)", "(top, tap, bottom)"}, 6},
+		{"too few pins", "divider D (a, gnd) [rbot = 1 kΩ]\n", "block-pin", []string{"binds 2 nets", "(top, tap, bottom)"}, 6},
 		{"wrong pin name", "divider D (top=a, tapp=b, bottom=gnd) [rbot = 1 kΩ]\n", "block-pin", []string{`no pin named "tapp"`, "did you mean tap?"}, 6},
 		{"mixed pins", "divider D (top=a, b, gnd) [rbot = 1 kΩ]\n", "block-pin", []string{"mixes named and positional"}, 6},
 		{"unknown param", "divider D (a, b, gnd) [rbot = 1 kΩ, rtp = 1 kΩ]\n", "unknown-param", []string{"no parameter rtp", "did you mean rtop?"}, 6},

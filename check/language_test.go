@@ -296,7 +296,7 @@ led      D1  (cathode=gnd, anode=led_a) vf 2.0 V at 10 mA
 		{"led DX (anode=a, drain=gnd) vf 2 V at 1 mA", `no pin named "drain"`},
 		{"led DX (anode=a, gnd) vf 2 V at 1 mA", "mixes named and positional"},
 		{"led DX (anode=a, anode=gnd) vf 2 V at 1 mA", "binds pin anode twice"},
-		{"resistor RX (a) 1 kΩ", "has 1 pin(s)"},
+		{"resistor RX (a) 1 kΩ", "has 1 pin;"},
 	}
 	for _, c := range bad {
 		got := lines(run(t, "ground gnd\nsource V1 (a, gnd) 1 V\n"+c.line+"\n"))

@@ -28,8 +28,9 @@ type Result struct {
 	// Files lists the checked file and then the files brought in by
 	// include, in the order they were first read, each once.
 	Files []SourceFile
-	// Unsure holds the net names that a line which did not parse may have
-	// used: such a net may have more pins than the design shows.
+	// Unsure holds the net names that a line which did not parse, or a
+	// statement that could not be placed, may have used: such a net may
+	// have more pins than the design shows.
 	Unsure map[string]bool
 }
 
@@ -102,6 +103,7 @@ type builder struct {
 	// merges the repeats as they come.
 	found   Findings
 	probing bool
+	failed  []string // includes that could not be read, for later messages
 }
 
 func (b *builder) pos(p lexer.Position) diag.Pos { return b.file.Pos(clamp(p.Offset, b.file.Size())) }
@@ -326,19 +328,39 @@ func (b *builder) part(sc *scope, st *bodyStmt, nets []NetID) {
 
 // countOnly counts a statement's nets as used even though the statement
 // cannot be placed, so that one bad line does not make its neighbours look
-// floating.
+// floating; and it marks them unsure, so that a net only that line names
+// is not reported floating either: the line's own finding says what to
+// fix.
 func (b *builder) countOnly(nets []NetID) {
 	for _, n := range nets {
-		b.r.Design.Nets[n].Pins++
+		net := &b.r.Design.Nets[n]
+		net.Pins++
+		if !b.probing { // a scratch design's names are not the design's
+			if b.r.Unsure == nil {
+				b.r.Unsure = map[string]bool{}
+			}
+			b.r.Unsure[net.Name] = true
+		}
 	}
 	b.r.Incomplete = true
+}
+
+// plural writes a count with its noun: "1 pin", "3 pins", "no pins".
+func plural(n int, noun string) string {
+	switch n {
+	case 0:
+		return "no " + noun + "s"
+	case 1:
+		return "1 " + noun
+	}
+	return fmt.Sprintf("%d %ss", n, noun)
 }
 
 // pins binds the statement's nets to the kind's pins, by position or name.
 func (b *builder) pins(p *Part, pt *grammar.Part, nets []NetID, info *KindInfo) bool {
 	word := pt.Kind.Text
 	if len(pt.Pins) != 2 {
-		b.report(CodePinCount, p.Pos, p.End, "%s %s has %d pin(s); %s has two: (%s, %s)", word, p.Name, len(pt.Pins), article(p.Kind.String()), info.Pins[0], info.Pins[1])
+		b.report(CodePinCount, p.Pos, p.End, "%s %s has %s; %s has two: (%s, %s)", word, p.Name, plural(len(pt.Pins), "pin"), article(p.Kind.String()), info.Pins[0], info.Pins[1])
 		return false
 	}
 	var set [2]bool

@@ -230,6 +230,7 @@ func (b *builder) include(inc *grammar.Include, pos, end diag.Pos, stack []strin
 	if b.opt.ReadFile == nil || b.fset == nil {
 		b.report(CodeBadInclude, pos, end, "cannot include %s: this check reads no files", showPath(rel))
 		b.r.Incomplete = true
+		b.failed = append(b.failed, fmt.Sprintf("%s (%s)", showPath(rel), b.where(pos)))
 		return
 	}
 	id, err := b.identify(path)
@@ -251,6 +252,7 @@ func (b *builder) include(inc *grammar.Include, pos, end diag.Pos, stack []strin
 	if err != nil {
 		b.report(CodeBadInclude, pos, end, "%s", includeError(rel, path, err))
 		b.r.Incomplete = true
+		b.failed = append(b.failed, fmt.Sprintf("%s (%s)", showPath(rel), b.where(pos)))
 		return
 	}
 	b.included[id] = true
@@ -483,17 +485,25 @@ func (b *builder) unknownKind(bd *blockDef, st *bodyStmt) {
 		b.report(CodeUnknownKind, st.pos, st.end, "unknown part kind %q for %s; did you mean %q?", word, name, s)
 		return
 	}
-	if len(blockNames) > 0 || len(st.pt.Params) > 0 {
-		msg := fmt.Sprintf("no block or part kind is named %q (for %s)", word, name)
-		if len(blockNames) > 0 {
-			msg += "; blocks are " + listWords(blockNames, 10)
-		} else {
-			msg += "; no block is defined or included"
-		}
-		b.report(CodeUnknownBlock, st.pos, st.end, "%s", msg)
-		return
+	// Not near any kind: an instance of a block that is not defined,
+	// whether or not it gives parameters.
+	msg := fmt.Sprintf("no block or part kind is named %q (for %s)", word, name)
+	switch {
+	case len(blockNames) > 0:
+		msg += "; blocks are " + listWords(blockNames, 10)
+	case len(b.failed) > 0:
+		msg += "; no block is defined"
+	default:
+		msg += "; no block is defined or included, and kinds are " + strings.Join(KindWords, ", ")
 	}
-	b.report(CodeUnknownKind, st.pos, st.end, "unknown part kind %q for %s; kinds are %s", word, name, strings.Join(KindWords, ", "))
+	if len(b.failed) > 0 {
+		what := "include " + b.failed[0] + " failed"
+		if len(b.failed) > 1 {
+			what = fmt.Sprintf("%d includes failed (%s)", len(b.failed), listWords(b.failed, 4))
+		}
+		msg += "; " + what + ", so the blocks it should bring are unknown"
+	}
+	b.report(CodeUnknownBlock, st.pos, st.end, "%s", msg)
 }
 
 func listWords(ws []string, max int) string {
@@ -511,7 +521,7 @@ func (b *builder) bindInstance(bd *blockDef, st *bodyStmt) bool {
 	ok := true
 	pinList := "(" + strings.Join(c.pins, ", ") + ")"
 	if len(pt.Pins) != len(c.pins) {
-		b.report(CodeBlockPin, st.pos, st.end, "instance %s binds %d net(s); block %s has %d pin(s): %s", inst, len(pt.Pins), c.name, len(c.pins), pinList)
+		b.report(CodeBlockPin, st.pos, st.end, "instance %s binds %s; block %s has %s: %s", inst, plural(len(pt.Pins), "net"), c.name, plural(len(c.pins), "pin"), pinList)
 		return false
 	}
 	st.bind = make([]int, len(c.pins))

@@ -44,11 +44,11 @@ capacitors touch.`,
 				srcs = append(srcs, fmt.Sprintf("%s %s %s", q.Name, units.Format(q.Value, units.Current), dir))
 				dg.Related = append(dg.Related, diag.Related{Pos: q.Pos, End: q.End, Message: q.Name + " crosses the cut"})
 			}
-			which := "net " + netList(d, c.Nets, 8) + " is"
+			which, it := "net "+netList(d, c.Nets, 8)+" is", "it"
 			if len(c.Nets) > 1 {
-				which = "nets " + netList(d, c.Nets, 8) + " are"
+				which, it = "nets "+netList(d, c.Nets, 8)+" are", "them"
 			}
-			dg.Message = fmt.Sprintf("%s reached only through current sources (%s): the currents into it sum to %s, not zero, so Kirchhoff's current law cannot hold", which, strings.Join(srcs, ", "), units.Format(c.Net, units.Current))
+			dg.Message = fmt.Sprintf("%s reached only through current sources (%s): the currents into %s sum to %s, not zero, so Kirchhoff's current law cannot hold", which, strings.Join(srcs, ", "), it, units.Format(c.Net, units.Current))
 			p.Report(dg)
 		}
 		return nil, nil

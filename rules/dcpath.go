@@ -33,12 +33,12 @@ operating point cannot be solved. Each island is listed once.`,
 				continue // floating-net or current-cutset has said it
 			}
 			first := &d.Nets[is.Nets[0]]
-			what := "net " + netList(d, is.Nets, 8) + " has"
+			what, them, their := "net "+netList(d, is.Nets, 8)+" has", "it", "its"
 			if len(is.Nets) > 1 {
-				what = "nets " + netList(d, is.Nets, 8) + " have"
+				what, them, their = "nets "+netList(d, is.Nets, 8)+" have", "them", "their"
 			}
 			p.Report(diag.Diagnostic{Pos: first.Pos, End: first.End, Subject: first.Name,
-				Message: fmt.Sprintf("%s no DC path to ground %s: only capacitors, current sources or open switches reach them, so their DC voltage is undefined", what, netName(d, d.Ground))})
+				Message: fmt.Sprintf("%s no DC path to ground %s: only capacitors, current sources or open switches reach %s, so %s DC voltage is undefined", what, netName(d, d.Ground), them, their)})
 		}
 		return nil, nil
 	},

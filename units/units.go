@@ -199,6 +199,9 @@ func Parse(num, unit string) (Quantity, error) {
 		}
 		return Quantity{}, &Error{Text: num, Msg: fmt.Sprintf("%q is not a number", num)}
 	}
+	if v == 0 && nonZero(digits) {
+		return Quantity{}, underflow(num, unit)
+	}
 	// IEC 60062 resistor code: the letter stands for the decimal point.
 	if unit == "" && isCode(suffix) {
 		return parseCode(digits, suffix)
@@ -229,11 +232,36 @@ func Parse(num, unit string) (Quantity, error) {
 		}
 		scale, dim, percent = s, d, rest == "%"
 	}
-	v *= scale
-	if math.IsInf(v, 0) {
+	w := v * scale
+	if math.IsInf(w, 0) {
 		return Quantity{}, &Error{Text: num, Msg: fmt.Sprintf("%s%s is too large to represent", num, unit), Hint: "values must be finite"}
 	}
-	return Quantity{Value: v, Dim: dim, Percent: percent}, nil
+	if w == 0 && v != 0 {
+		return Quantity{}, underflow(num, unit)
+	}
+	return Quantity{Value: w, Dim: dim, Percent: percent}, nil
+}
+
+// nonZero reports whether the mantissa of a decimal number has a digit
+// other than 0: then the number is not zero, whatever it reads as.
+func nonZero(digits string) bool {
+	for i := 0; i < len(digits); i++ {
+		switch c := digits[i]; {
+		case c == 'e' || c == 'E':
+			return false
+		case c >= '1' && c <= '9':
+			return true
+		}
+	}
+	return false
+}
+
+// underflow is the error for a value too small for a float64: it would be
+// read as zero, which is not what was written.
+func underflow(num, unit string) *Error {
+	text := strings.TrimSpace(num + " " + unit)
+	return &Error{Text: text, Msg: fmt.Sprintf("%s underflows: it is too small to represent and would read as 0", text),
+		Hint: "check the exponent"}
 }
 
 func badSuffix(text string) *Error {
