@@ -22,7 +22,7 @@ func TestDocExamplesAreClean(t *testing.T) {
 		}
 		for i, blk := range blocks {
 			src, _, _ := strings.Cut(blk, "```")
-			if strings.Contains(src, "nodal: allow") || strings.Contains(src, "include ") || !strings.Contains(src, "ground") {
+			if strings.Contains(src, "nodal: accept") || strings.Contains(src, "include ") || !strings.Contains(src, "ground") {
 				continue // a fragment, or a design that needs files beside it
 			}
 			res, err := check.Source(doc, []byte(src), nil)

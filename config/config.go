@@ -25,6 +25,14 @@ import (
 	"nodal/diag"
 )
 
+// RenamedRules maps rule ids that were renamed to their names now. A
+// nodal.toml that sets an old id gets an error naming the new one.
+var RenamedRules = map[string]string{
+	"allow-reason": "accept-reason",
+	"unused-allow": "stale-accept",
+	"bad-allow":    "bad-accept",
+}
+
 // FileName is the name Find looks for.
 const FileName = "nodal.toml"
 
@@ -196,7 +204,9 @@ func Parse(name string, src []byte, known func(string) bool, suggest func(string
 		key := "rules." + id
 		if !known(id) {
 			msg := "unknown rule id"
-			if s := suggest(id); s != "" {
+			if now, ok := RenamedRules[id]; ok {
+				msg = "rule " + id + " is now called " + now + "; write " + now + " = " + strconv.Quote(r.Rules[id])
+			} else if s := suggest(id); s != "" {
 				msg += "; did you mean " + s + "?"
 			} else {
 				msg += "; \"nodal rules\" lists them"

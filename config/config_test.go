@@ -54,6 +54,9 @@ depth = 8
 func TestParseErrors(t *testing.T) {
 	for _, c := range []struct{ src, want string }{
 		{"[rules]\nfloatin-net = \"off\"\n", "f.toml:2: rules.floatin-net: unknown rule id; did you mean floating-net?"},
+		{"[rules]\nunused-allow = \"off\"\n", "f.toml:2: rules.unused-allow: rule unused-allow is now called stale-accept; write stale-accept = \"off\""},
+		{"[rules]\nallow-reason = \"error\"\n", "f.toml:2: rules.allow-reason: rule allow-reason is now called accept-reason"},
+		{"[rules]\nbad-allow = \"note\"\n", "f.toml:2: rules.bad-allow: rule bad-allow is now called bad-accept"},
 		{"[rules]\nfloating-net = \"loud\"\n", "f.toml:2: rules.floating-net: severity \"loud\" is not one of off, note, warning, error"},
 		{"[rules]\nfloating-net = 3\n", "f.toml:2: rules.floating-net: wrong type of value"},
 		{"colour = true\n", "f.toml:1: colour: unknown key"},

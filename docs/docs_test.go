@@ -9,7 +9,7 @@ import (
 	"nodal/rules"
 )
 
-var sections = []string{"## What it checks", "## Why it matters", "## Example", "## How to fix", "## How to suppress"}
+var sections = []string{"## What it checks", "## Why it matters", "## Example", "## How to fix", "## How to accept"}
 
 // noShortExample lists rules that no small design can fire: no-convergence
 // needs a design that defeats Newton, gmin and source stepping, and every

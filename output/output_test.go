@@ -16,7 +16,7 @@ import (
 var update = flag.Bool("update", false, "rewrite the golden files")
 
 // report checks testdata/mixed.nodal: an error, warnings with related
-// locations, a suppressed finding, an unused allow, and a net name with a
+// locations, a suppressed finding, a stale accept comment, and a net name with a
 // multi-byte character.
 func report(t *testing.T) *Report {
 	t.Helper()

@@ -10,7 +10,7 @@ var All = []*Analyzer{
 	UnknownBlock, BlockPin, UnusedBlock, RecursiveBlock, UnknownParam,
 	MissingParam, ParamUnit, ExpansionLimit, BadInclude,
 	FloatingNet, NoDCPath, SourceLoop, CurrentCutset, ShortedPart, CaseClash,
-	AllowReason, UnusedAllow, BadAllow,
+	AcceptReason, StaleAccept, BadAccept,
 	SolveFailed, NoConvergence, IllConditioned,
 	OverPower, OverCurrent, OverVoltage, ReverseVoltage, NearRating,
 }

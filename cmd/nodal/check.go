@@ -59,9 +59,9 @@ SARIF 2.1.0 log and a pull-request summary instead.
 
 Settings come from the nodal.toml in each file's folder or the nearest one
 above it (see "nodal config"). A comment
-  # nodal: allow RULE -- reason
-at the end of a statement's line, or alone on the line above it, suppresses
-that rule's findings on the statement.
+  # nodal: accept RULE because reason
+at the end of a statement's line, or alone on the line above it, accepts
+that rule's findings on the statement (several rule ids: RULE, RULE).
 
 A design too large for this version's solver is not solved; a note on
 standard error says so, as its rating rules did not run. "nodal report

@@ -11,7 +11,7 @@ import (
 
 func cmdRules(args []string, stdout, stderr io.Writer) int {
 	if len(args) > 0 && (args[0] == "-h" || args[0] == "--help" || args[0] == "-help") {
-		fmt.Fprintln(stdout, "Usage: nodal rules [RULE]\n\nLists every rule with its default severity and a one-line description,\nor with a rule id prints the rule's page: what it checks, why it\nmatters, an example, the fix and how to suppress it.")
+		fmt.Fprintln(stdout, "Usage: nodal rules [RULE]\n\nLists every rule with its default severity and a one-line description,\nor with a rule id prints the rule's page: what it checks, why it\nmatters, an example, the fix and how to accept it.")
 		return 0
 	}
 	if len(args) > 0 {
