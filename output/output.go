@@ -62,6 +62,9 @@ type Report struct {
 	// Source returns the text of a file named in a finding, or nil. SARIF
 	// uses it to count columns in code points; it may be nil.
 	Source func(file string) []byte
+	// BaseSource does the same for findings whose Baseline is "absent",
+	// whose positions are in an earlier revision; it may be nil.
+	BaseSource func(file string) []byte
 }
 
 // Options change how a report is written.

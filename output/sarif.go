@@ -140,11 +140,15 @@ func writeSARIF(w io.Writer, r *Report, opt Options) error {
 			HelpURI:              docs.RuleURL(a.Name),
 		})
 	}
-	cols := newColumns(r.Source)
+	cols, baseCols := newColumns(r.Source), newColumns(r.BaseSource)
 	run := sarifRun{Tool: sarifTool{Driver: driver}, ColumnKind: "unicodeCodePoints", Results: []sarifResult{}}
 	prints := Fingerprints(r.Findings, func(file string) string { return artifact(file, opt).URI })
 
 	for i, f := range r.Findings {
+		cols := cols
+		if f.Baseline == "absent" {
+			cols = baseCols
+		}
 		res := sarifResult{RuleID: f.Rule, Level: level(f.Severity), Message: sarifText{Text: f.Message},
 			Locations:           []sarifLocation{{PhysicalLocation: physical(f.File, f.Line, f.Column, f.EndLine, f.EndColumn, opt, cols)}},
 			PartialFingerprints: map[string]string{FingerprintName: prints[i]},

@@ -20,8 +20,8 @@ import (
 // (or the file-system root outside a repository), read from git's index
 // with --staged.
 type configLoader struct {
-	idx    *index // nil: read from disk
-	forced string // --config
+	idx    revision // nil: read from disk
+	forced string   // --config
 	mu     sync.Mutex
 	byDir  map[string]*config.Config
 	byFile map[string]*config.Config
@@ -29,7 +29,23 @@ type configLoader struct {
 }
 
 func newConfigLoader(idx *index, forced string) *configLoader {
-	return &configLoader{idx: idx, forced: forced, byDir: map[string]*config.Config{},
+	var r revision
+	if idx != nil {
+		r = idx
+	}
+	return newRevisionConfigLoader(r, forced)
+}
+
+// revision reads the files of a git revision by repository path: the
+// index, or a commit or the work tree in nodal diff.
+type revision interface {
+	reader(maxSize int64) func(string) ([]byte, error)
+}
+
+// newRevisionConfigLoader is newConfigLoader for any revision (nil: the
+// disk).
+func newRevisionConfigLoader(r revision, forced string) *configLoader {
+	return &configLoader{idx: r, forced: forced, byDir: map[string]*config.Config{},
 		byFile: map[string]*config.Config{}, rules: map[*config.Config]*rules.Config{}}
 }
 

@@ -20,6 +20,7 @@ units.
 Usage:
   nodal check [flags] [PATH ...]   check files and folders (default: .)
   nodal report [flags] FILE        table of one design's DC operating point
+  nodal diff [flags] [BASE [HEAD]] what a change does to the designs
   nodal fmt [-w | --check] [PATH ...]  lay out files in the canonical form
   nodal rules [RULE]               list the rules, or explain one
   nodal config [PATH]              show the settings in effect for a path
@@ -73,6 +74,8 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		return cmdCheck(args[1:], stdin, stdout, stderr)
 	case "report":
 		return cmdReport(args[1:], stdin, stdout, stderr)
+	case "diff":
+		return cmdDiff(args[1:], stdout, stderr)
 	case "fmt":
 		return cmdFmt(args[1:], stdin, stdout, stderr)
 	case "config":

@@ -1,0 +1,235 @@
+package main
+
+import (
+	"encoding/json"
+	"math"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// An invented bench supply: R1 dissipates V²/R (Joule's law) = (10 V)² /
+// 1 kΩ = 100 mW, 40 % of its 250 mW rating; at 15.4 V, 237.16 mW, 94.9 %.
+const (
+	psuBefore = `ground gnd
+source V1 (vin, gnd) 10 V
+resistor R1 (vin, gnd) 1 kΩ rated 250 mW
+`
+	psuAfter = `ground gnd
+source V1 (vin, gnd) 15.4 V
+resistor R1 (vin, gnd) 1 kΩ rated 250 mW
+`
+)
+
+type diffDoc struct {
+	Base      string `json:"base"`
+	Head      string `json:"head"`
+	Unchanged int    `json:"unchanged_designs"`
+	Designs   []struct {
+		Path   string `json:"path"`
+		Status string `json:"status"`
+		Parts  []struct {
+			Name   string `json:"name"`
+			Before *struct {
+				Rating string  `json:"rating"`
+				Use    float64 `json:"use"`
+			} `json:"before"`
+			After *struct {
+				Rating string  `json:"rating"`
+				Use    float64 `json:"use"`
+			} `json:"after"`
+		} `json:"parts"`
+		Nets []struct {
+			Name          string
+			Before, After float64
+		} `json:"nets"`
+		Findings []struct {
+			State   string `json:"state"`
+			Rule    string `json:"rule"`
+			Subject string `json:"subject"`
+			Line    int    `json:"line"`
+		} `json:"findings"`
+	} `json:"designs"`
+}
+
+func diffJSON(t *testing.T, dir string, args ...string) (*diffDoc, int, string) {
+	t.Helper()
+	code, out, errs := runNodal(t, dir, "", append([]string{"diff", "--format", "json"}, args...)...)
+	if code == 2 {
+		t.Fatalf("nodal diff %v: exit 2: %s", args, errs)
+	}
+	var doc diffDoc
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatalf("nodal diff %v: %v\n%s", args, err, out)
+	}
+	return &doc, code, errs
+}
+
+// A change that raises R1 from 40 % to 95 % of its power rating is a
+// stress change, between two commits, between HEAD and the work tree, and
+// between HEAD and the index; an untouched design is counted, not listed.
+func TestDiffStressChange(t *testing.T) {
+	dir := gitRepo(t)
+	write(t, filepath.Join(dir, "boards", "psu.nodal"), psuBefore)
+	write(t, filepath.Join(dir, "boards", "other.nodal"), goodDesign)
+	git(t, dir, "add", ".")
+	git(t, dir, "commit", "-qm", "psu at 10 V")
+	write(t, filepath.Join(dir, "boards", "psu.nodal"), psuAfter)
+
+	check := func(what string, doc *diffDoc) {
+		t.Helper()
+		if len(doc.Designs) != 1 || doc.Designs[0].Path != "boards/psu.nodal" || doc.Designs[0].Status != "changed" || doc.Unchanged != 1 {
+			t.Fatalf("%s: designs %+v, %d unchanged; want boards/psu.nodal changed, 1 unchanged", what, doc.Designs, doc.Unchanged)
+		}
+		d := doc.Designs[0]
+		if len(d.Parts) != 1 || d.Parts[0].Name != "R1" || d.Parts[0].Before == nil || d.Parts[0].After == nil {
+			t.Fatalf("%s: parts %+v; want R1", what, d.Parts)
+		}
+		p := d.Parts[0]
+		// P = V²/R: 100 mW and 237.16 mW of 250 mW.
+		if p.Before.Rating != "power" || math.Abs(p.Before.Use-0.40) > 1e-9 || math.Abs(p.After.Use-0.94864) > 1e-9 {
+			t.Errorf("%s: R1 %+v → %+v; want power 0.40 → 0.94864", what, *p.Before, *p.After)
+		}
+		if len(d.Nets) != 1 || d.Nets[0].Name != "vin" {
+			t.Errorf("%s: nets %+v; want vin", what, d.Nets)
+		}
+	}
+	doc, _, _ := diffJSON(t, dir)
+	check("HEAD against the work tree", doc)
+	if doc.Head != "the work tree" || !strings.Contains(doc.Base, "HEAD") {
+		t.Errorf("revisions named %q and %q", doc.Base, doc.Head)
+	}
+	// The index still holds the old version: nothing changed there.
+	doc, _, _ = diffJSON(t, dir, "--staged")
+	if len(doc.Designs) != 0 || doc.Unchanged != 2 {
+		t.Errorf("--staged before staging: %+v", doc.Designs)
+	}
+	git(t, dir, "add", ".")
+	doc, _, _ = diffJSON(t, dir, "--staged")
+	check("HEAD against the index", doc)
+	git(t, dir, "commit", "-qm", "psu at 15.4 V")
+	doc, _, _ = diffJSON(t, dir, "HEAD~1", "HEAD")
+	check("two commits", doc)
+
+	// The text form says it for a person.
+	_, out, _ := runNodal(t, dir, "", "diff", "HEAD~1", "HEAD")
+	if !strings.Contains(out, "R1 (resistor) power: 40 % (100 mW of 250 mW) → 95 % (237 mW of 250 mW) (+55 points)") {
+		t.Errorf("text form:\n%s", out)
+	}
+	// A higher threshold hides the move.
+	doc, _, _ = diffJSON(t, dir, "--use-change", "60", "--voltage-change", "10 V", "HEAD~1", "HEAD")
+	if len(doc.Designs) != 1 || len(doc.Designs[0].Parts) != 0 || len(doc.Designs[0].Nets) != 0 {
+		t.Errorf("60 points, 10 V: %+v", doc.Designs)
+	}
+}
+
+// Findings between commits: one whose statement moved down is unchanged,
+// one whose cause was removed is fixed, and a new one is new.
+func TestDiffFindingStates(t *testing.T) {
+	dir := gitRepo(t)
+	write(t, filepath.Join(dir, "board.nodal"), "ground gnd\nsource V1 (vin, gnd) 5 V\nresistor R1 (vin, lone) 1 kΩ\nresistor R2 (vin, gone) 1 kΩ\n")
+	git(t, dir, "add", ".")
+	git(t, dir, "commit", "-qm", "first")
+	write(t, filepath.Join(dir, "board.nodal"), "# moved down\n\n\nground gnd\nsource V1 (vin, gnd) 5 V\nresistor R1 (vin, lone) 1 kΩ\nresistor R2 (vin, gnd) 1 kΩ\nresistor R3 (vin, fresh) 1 kΩ\n")
+	git(t, dir, "commit", "-qam", "second")
+	doc, code, _ := diffJSON(t, dir, "HEAD~1", "HEAD")
+	if code != 0 {
+		t.Errorf("exit %d with warnings only; want 0", code)
+	}
+	got := map[string]string{}
+	for _, f := range doc.Designs[0].Findings {
+		got[f.Subject] = f.State
+		if f.Subject == "lone" && f.Line != 6 {
+			t.Errorf("the unchanged finding is on line %d; want its new line, 6", f.Line)
+		}
+	}
+	want := map[string]string{"lone": "unchanged", "gone": "absent", "fresh": "new"}
+	for k, v := range want {
+		if got[k] != v {
+			t.Errorf("%s: %q, want %q (all %v)", k, got[k], v, got)
+		}
+	}
+	// --fail-on warning makes the new warning fail the comparison.
+	if _, code, _ := diffJSON(t, dir, "--fail-on", "warning", "HEAD~1", "HEAD"); code != 1 {
+		t.Errorf("--fail-on warning: exit %d, want 1", code)
+	}
+}
+
+// A library changed alone changes every design that includes it, directly
+// or through another file; designs added and removed are listed.
+func TestDiffFollowsIncludes(t *testing.T) {
+	dir := libRepo(t)
+	write(t, filepath.Join(dir, "lib", "loads.nodal"), libRenamed)
+	write(t, filepath.Join(dir, "boards", "added.nodal"), goodDesign)
+	git(t, dir, "rm", "-q", "boards/other.nodal")
+	doc, code, _ := diffJSON(t, dir)
+	status := map[string]string{}
+	for _, d := range doc.Designs {
+		status[d.Path] = d.Status
+	}
+	want := map[string]string{
+		"lib/loads.nodal": "changed", "lib/middle.nodal": "changed",
+		"boards/direct.nodal": "changed", "boards/deep/top.nodal": "changed",
+		"boards/added.nodal": "added", "boards/other.nodal": "removed",
+	}
+	for k, v := range want {
+		if status[k] != v {
+			t.Errorf("%s: %q, want %q (all %v)", k, status[k], v, status)
+		}
+	}
+	if len(status) != len(want) || doc.Unchanged != 1 { // lib/unused.nodal
+		t.Errorf("designs %v, %d unchanged; want %d listed and 1 unchanged", status, doc.Unchanged, len(want))
+	}
+	if code != 1 {
+		t.Errorf("exit %d; the boards now name a block that is gone, want 1", code)
+	}
+}
+
+// With no BASE, the comparison starts from the merge base with the
+// upstream branch.
+func TestDiffDefaultsToMergeBase(t *testing.T) {
+	dir := gitRepo(t)
+	write(t, filepath.Join(dir, "psu.nodal"), psuBefore)
+	git(t, dir, "add", ".")
+	git(t, dir, "commit", "-qm", "psu")
+	git(t, dir, "branch", "-M", "trunk")
+	git(t, dir, "checkout", "-q", "-b", "feature", "--track", "trunk")
+	write(t, filepath.Join(dir, "psu.nodal"), psuAfter)
+	git(t, dir, "commit", "-qam", "raise the supply")
+	write(t, filepath.Join(dir, "notes.nodal"), goodDesign)
+	git(t, dir, "add", ".")
+	git(t, dir, "commit", "-qm", "notes")
+	doc, _, _ := diffJSON(t, dir)
+	if !strings.Contains(doc.Base, "merge base with trunk") {
+		t.Errorf("base named %q", doc.Base)
+	}
+	if len(doc.Designs) != 2 {
+		t.Errorf("designs %+v; want psu.nodal changed and notes.nodal added since the merge base", doc.Designs)
+	}
+}
+
+// Usage mistakes and a path outside a repository are exit 2.
+func TestDiffUsage(t *testing.T) {
+	dir := gitRepo(t)
+	write(t, filepath.Join(dir, "a.nodal"), goodDesign)
+	git(t, dir, "add", ".")
+	git(t, dir, "commit", "-qm", "a")
+	for _, args := range [][]string{
+		{"diff", "--format", "html"},
+		{"diff", "--voltage-change", "5 A"},
+		{"diff", "nosuchrev"},
+		{"diff", "HEAD", "HEAD", "HEAD"},
+		{"diff", "--staged", "HEAD", "HEAD"},
+		{"diff", "--", "--output=x"},
+	} {
+		if code, _, errs := runNodal(t, dir, "", args...); code != 2 || errs == "" {
+			t.Errorf("%v: exit %d, stderr %q; want 2 and a message", args, code, errs)
+		}
+	}
+	if code, out, _ := runNodal(t, dir, "", "diff"); code != 0 || !strings.Contains(out, "0 unchanged") && !strings.Contains(out, "1 unchanged") {
+		t.Errorf("nothing changed: exit %d\n%s", code, out)
+	}
+	if code, _, _ := runNodal(t, t.TempDir(), "", "diff"); code != 2 {
+		t.Errorf("outside a repository: exit %d, want 2", code)
+	}
+}

@@ -1,0 +1,266 @@
+// Package review compares two revisions of the designs in a repository,
+// as a reviewer of a change needs them compared: which findings are new,
+// which were fixed and which are unchanged; which parts now use more (or
+// less) of a rating; which nets moved; which designs were added and
+// removed. It writes the comparison as text for a terminal, Markdown for a
+// pull-request comment, JSON for scripts and SARIF with baselineState for
+// code-scanning services.
+//
+// # Matching findings
+//
+// Findings are matched by what they are about, not by where they are: the
+// rule, the design, and the instance path of the part or net (the
+// finding's Subject), or, for a finding that names neither, its file and
+// its message with the numbers masked (output.Finding.Key). Within one key,
+// findings whose messages agree but for line references pair first, then
+// those whose messages agree but for numbers, then the rest in line order.
+// A pair whose severity and message (line references masked) agree is
+// unchanged; any other pair is updated; a finding left over in the later
+// revision is new, one left over in the earlier is absent (fixed). So a
+// statement moved to another line keeps its findings unchanged.
+//
+// # Stress
+//
+// A part's use of its ratings is its largest fraction of any rating, as
+// nodal report computes it (output/report). A part is listed when that use
+// moved by more than Thresholds.Use (a fraction: 0.10 is 10 percentage
+// points); a part that is new or gone counts from zero. Parts are listed
+// worst first: the largest rise first, falls last. Parts are compared only
+// when both revisions have an operating point; otherwise the design says
+// why not. Nets are matched by name and listed when their voltage moved by
+// more than Thresholds.Volts, or by more than Thresholds.Relative of the
+// larger magnitude (and at least a millivolt).
+package review
+
+import (
+	"sort"
+
+	"nodal/diag"
+	"nodal/output"
+	"nodal/output/report"
+)
+
+// State is a finding's state against the earlier revision, as SARIF 2.1.0
+// §3.27.24 names the values of baselineState.
+type State string
+
+const (
+	New       State = "new"
+	Unchanged State = "unchanged"
+	Updated   State = "updated"
+	Absent    State = "absent" // fixed: in the earlier revision only
+)
+
+// Status is what happened to a design between the revisions.
+type Status string
+
+const (
+	Added   Status = "added"
+	Removed Status = "removed"
+	Changed Status = "changed" // it, a file it includes or its nodal.toml changed
+)
+
+// Thresholds decide which moves are worth listing.
+type Thresholds struct {
+	Use      float64 // a fraction of a rating: 0.10 is 10 percentage points
+	Volts    float64 // an absolute move of a net, in volts; 0: use Relative
+	Relative float64 // a move as a fraction of the larger magnitude
+}
+
+// DefaultThresholds lists parts whose use moved by more than 10 points and
+// nets that moved by more than 5 %.
+var DefaultThresholds = Thresholds{Use: 0.10, Relative: 0.05}
+
+// minNetMove is the smallest net move a relative threshold lists: below a
+// millivolt a relative change is noise around 0 V.
+const minNetMove = 1e-3
+
+// netMoved reports whether a net's move from a to b passes the threshold.
+func (t Thresholds) netMoved(a, b float64) bool {
+	d := b - a
+	if d < 0 {
+		d = -d
+	}
+	if t.Volts > 0 {
+		return d > t.Volts
+	}
+	m := max(abs(a), abs(b))
+	return d > minNetMove && d > t.Relative*m
+}
+
+func abs(x float64) float64 {
+	if x < 0 {
+		return -x
+	}
+	return x
+}
+
+// Side is one revision of one design, checked.
+type Side struct {
+	Findings []output.Finding // with Design set
+	Table    *report.Table    // the operating point, or nil
+	// NoOP says why Table is nil (the wiring rules reject the design, the
+	// solver gave up, it is too large).
+	NoOP string
+}
+
+// FindingChange is one finding and its state.
+type FindingChange struct {
+	State State
+	// Finding is the later revision's finding, or the earlier one's when
+	// it is absent.
+	Finding output.Finding
+	// Before is the earlier revision's finding of an unchanged or updated
+	// pair.
+	Before *output.Finding
+}
+
+// Use is a part's worst use of a rating: what is rated, the value, the
+// rating and their ratio (Frac).
+type Use = report.Rating
+
+// PartChange is a part whose use of its ratings moved.
+type PartChange struct {
+	Name   string // instance path
+	Kind   string
+	Before *Use // nil: the part is new, or had no rating
+	After  *Use // nil: the part is gone, or has no rating
+}
+
+// Delta is the move of the part's use, a fraction of its rating (0.55 is
+// 55 percentage points); a missing side counts as zero.
+func (p *PartChange) Delta() float64 {
+	var a, b float64
+	if p.Before != nil {
+		a = p.Before.Frac
+	}
+	if p.After != nil {
+		b = p.After.Frac
+	}
+	return b - a
+}
+
+// NetChange is a net whose voltage moved.
+type NetChange struct {
+	Name          string
+	Before, After float64 // volts
+}
+
+// Design is one design's comparison.
+type Design struct {
+	Path     string // repository path of the design file
+	Status   Status
+	Findings []FindingChange // new, updated, absent, unchanged; worst first within each
+	Parts    []PartChange    // worst first
+	Nets     []NetChange     // largest move first
+	// BaseNote and HeadNote say why the ratings were not compared, when
+	// a revision has no operating point.
+	BaseNote, HeadNote string
+}
+
+// Count returns how many findings have the state.
+func (d *Design) Count(s State) int {
+	n := 0
+	for _, f := range d.Findings {
+		if f.State == s {
+			n++
+		}
+	}
+	return n
+}
+
+// newErrors counts the new findings at error level.
+func (d *Design) newErrors() int {
+	n := 0
+	for _, f := range d.Findings {
+		if f.State == New && f.Finding.Severity == diag.Error {
+			n++
+		}
+	}
+	return n
+}
+
+// worstRise is the largest rise of a part's use, or 0.
+func (d *Design) worstRise() float64 {
+	if len(d.Parts) == 0 {
+		return 0
+	}
+	return max(d.Parts[0].Delta(), 0)
+}
+
+// Comparison is the whole review of a change.
+type Comparison struct {
+	Base, Head string // how the revisions are named to the reader
+	Thresholds Thresholds
+	// Designs that changed, were added or were removed: those with new
+	// errors first, then the largest rise in a part's use, then by path.
+	Designs []Design
+	// Unchanged counts the designs whose files and settings did not
+	// change, and so were not checked again.
+	Unchanged int
+	// Sources and BaseSources return the text of a file in the later and
+	// the earlier revision, for SARIF's code-point columns; either may be
+	// nil.
+	Sources, BaseSources func(file string) []byte
+}
+
+// Compare compares one design's two revisions; base is nil for a design
+// added, head nil for one removed.
+func Compare(path string, base, head *Side, th Thresholds) Design {
+	d := Design{Path: path, Status: Changed}
+	switch {
+	case base == nil:
+		d.Status, base = Added, &Side{}
+	case head == nil:
+		d.Status, head = Removed, &Side{}
+	}
+	d.Findings = matchFindings(base.Findings, head.Findings)
+	if d.Status != Changed {
+		// Every finding of an added design is new; a removed design's
+		// findings went with it and are not "fixed".
+		if d.Status == Removed {
+			d.Findings = nil
+		}
+		if d.Status == Added && head.Table != nil {
+			d.Parts = compareParts(nil, head.Table, th)
+		}
+		d.HeadNote = head.NoOP
+		return d
+	}
+	if base.Table == nil || head.Table == nil {
+		d.BaseNote, d.HeadNote = base.NoOP, head.NoOP
+		return d
+	}
+	d.Parts = compareParts(base.Table, head.Table, th)
+	d.Nets = compareNets(base.Table, head.Table, th)
+	return d
+}
+
+// Sort orders the designs: new errors first, then the largest rise in a
+// part's use, then by path.
+func (c *Comparison) Sort() {
+	sort.SliceStable(c.Designs, func(i, j int) bool {
+		a, b := &c.Designs[i], &c.Designs[j]
+		if ea, eb := a.newErrors(), b.newErrors(); ea != eb {
+			return ea > eb
+		}
+		if ra, rb := a.worstRise(), b.worstRise(); ra != rb {
+			return ra > rb
+		}
+		return a.Path < b.Path
+	})
+}
+
+// Totals counts designs by status and findings by state over the whole
+// comparison.
+func (c *Comparison) Totals() (designs map[Status]int, findings map[State]int) {
+	designs, findings = map[Status]int{}, map[State]int{}
+	for i := range c.Designs {
+		d := &c.Designs[i]
+		designs[d.Status]++
+		for _, f := range d.Findings {
+			findings[f.State]++
+		}
+	}
+	return designs, findings
+}
