@@ -185,38 +185,64 @@ func ruleIDs(res *check.Result) []string {
 	return ids
 }
 
-// Wrong quantities: each gives its rule and a message with the hint.
+// Wrong quantities: each gives its rule and a message with the hint, and
+// points at the value or attribute it is about (at; the statement when
+// nothing is written).
 func TestQuantityErrors(t *testing.T) {
 	cases := []struct {
-		line, rule, hint string
+		line, rule, hint, at string
 	}{
-		{"resistor RX (a, gnd) 1 meg", "unit-mismatch", "M for mega"},
-		{"resistor RX (a, gnd) 1 MEG", "unit-mismatch", "M for mega"},
-		{"resistor RX (a, gnd) 1meg", "unit-mismatch", "M for mega"},
-		{"resistor RX (a, gnd) 10", "unit-mismatch", "write 10 Ω"},
-		{"resistor RX (a, gnd) 10 k", "unit-mismatch", "10 kΩ"},
-		{"capacitor CX (a, gnd) 10 Ω", "unit-mismatch", "capacitance in F"},
-		{"resistor RX (a, gnd) 1e999 Ω", "bad-value", "too large"},
-		{"resistor RX (a, gnd) 0 Ω", "bad-value", "use a wire"},
-		{"resistor RX (a, gnd) -1 kΩ", "bad-value", "must be positive"},
-		{"resistor RX (a, gnd) 1 kΩ tol 150%", "bad-value", "100 %"},
-		{"resistor RX (a, gnd) 1 kΩ tol 5", "unit-mismatch", "percentage"},
-		{"resistor RX (a, gnd) 1 kΩ rated 1 A", "unit-mismatch", "rated in W (power) or V (voltage)"},
-		{"resistor RX (a, gnd)", "missing-value", "needs a value in Ω"},
-		{"switch SX (a, gnd)", "missing-value", "open or closed"},
-		{"led DX (a, gnd) vf 2 V", "missing-value", "at 10 mA"},
-		{"diode DX (a, gnd)", "missing-value", "vf 0.7 V at 10 mA"},
-		{"source VX (a, gnd) 5", "unit-mismatch", "5 V for a voltage source or 5 A for a current source"},
-		{"source VX (a, gnd) 5 W", "unit-mismatch", "in V (voltage source) or A (current source)"},
+		{"resistor RX (a, gnd) 1 meg", "unit-mismatch", "M for mega", "1 meg"},
+		{"resistor RX (a, gnd) 1 MEG", "unit-mismatch", "M for mega", "1 MEG"},
+		{"resistor RX (a, gnd) 1meg", "unit-mismatch", "M for mega", "1meg"},
+		{"resistor RX (a, gnd) 10", "unit-mismatch", "write 10 Ω", "10"},
+		{"resistor RX (a, gnd) 10 k", "unit-mismatch", "write 10 kΩ", "10 k"},
+		{"resistor RX (a, gnd) 10k", "unit-mismatch", "write 10 kΩ", "10k"},
+		{"capacitor CX (a, gnd) 10u", "unit-mismatch", "write 10 uF", "10u"},
+		{"source VX (a, gnd) 5m", "unit-mismatch", "write 5 mV for a voltage source or 5 mA for a current source", "5m"},
+		{"capacitor CX (a, gnd) 10 Ω", "unit-mismatch", "capacitance in F", "10 Ω"},
+		{"resistor RX (a, gnd) 1e999 Ω", "bad-value", "too large", "1e999 Ω"},
+		{"resistor RX (a, gnd) 1e-400 Ω", "bad-value", "1e-400 Ω underflows", "1e-400 Ω"},
+		{"resistor RX (a, gnd) NaN Ω", "bad-value", "NaN is not a number", "NaN Ω"},
+		{"resistor RX (a, gnd) inf", "bad-value", "inf is not a number", "inf"},
+		{"resistor RX (a, gnd) 0 Ω", "bad-value", "use a wire", "0 Ω"},
+		{"resistor RX (a, gnd) -1 kΩ", "bad-value", "must be positive", "-1 kΩ"},
+		{"resistor RX (a, gnd) 1 kΩ tol 150%", "bad-value", "100 %", "tol 150%"},
+		{"resistor RX (a, gnd) 1 kΩ tol 5", "unit-mismatch", "percentage", "tol 5"},
+		{"resistor RX (a, gnd) 1 kΩ rated 1 A", "unit-mismatch", "rated in W (power) or V (voltage)", "rated 1 A"},
+		{"resistor RX (a, gnd) 1 kΩ rated 1 W, 1 A", "unit-mismatch", "rated in W (power) or V (voltage)", "rated 1 W, 1 A"},
+		{"resistor RX (a, gnd)", "missing-value", "needs a value in Ω", ""},
+		{"switch SX (a, gnd)", "missing-value", "open or closed", ""},
+		{"switch SX (a, gnd) ajar", "bad-value", "write open or closed", "ajar"},
+		{"led DX (a, gnd) vf 2 V", "missing-value", "at 10 mA", "vf 2 V"},
+		{"diode DX (a, gnd)", "missing-value", "vf 0.7 V at 10 mA", ""},
+		{"led DX (a, gnd)", "missing-value", "vf 2.0 V at 10 mA", ""},
+		// A voltage written as an LED's value is its forward voltage: one
+		// finding, showing that value in the form that says so.
+		{"led DX (a, gnd) 2 V", "bad-value", "vf 2 V at 10 mA", "2 V"},
+		{"diode DX (a, gnd) 0.6 V", "bad-value", "vf 0.6 V at 10 mA", "0.6 V"},
+		{"led DX (a, gnd) 20 mA", "bad-value", "vf 2.0 V at 10 mA", "20 mA"},
+		{"source VX (a, gnd) 5", "unit-mismatch", "5 V for a voltage source or 5 A for a current source", "5"},
+		{"source VX (a, gnd) 5 W", "unit-mismatch", "in V (voltage source) or A (current source)", "5 W"},
 	}
 	for _, c := range cases {
 		res := run(t, "ground gnd\nsource V1 (a, gnd) 1 V\n"+c.line+"\n")
 		got := lines(res)
 		if len(got) != 1 || !strings.HasSuffix(got[0], "["+c.rule+"]") || !strings.Contains(got[0], c.hint) {
 			t.Errorf("%s:\n  got  %s\n  want one [%s] mentioning %q", c.line, strings.Join(got, "\n       "), c.rule, c.hint)
+			continue
 		}
-		if len(got) == 1 && !strings.HasPrefix(got[0], "t.nodal:3:1: error: ") {
-			t.Errorf("%s: finding not at the statement: %s", c.line, got[0])
+		if strings.Contains(c.line, "led") && strings.Contains(got[0], "0.7 V") {
+			t.Errorf("%s: an LED is given a silicon diode's forward voltage: %s", c.line, got[0])
+		}
+		col, width := 1, len(c.line)
+		if c.at != "" {
+			col, width = strings.Index(c.line, c.at)+1, len(c.at)
+		}
+		d := res.Diags[0]
+		from, to := res.Fset.Position(d.Pos), res.Fset.Position(d.End)
+		if from.Line != 3 || from.Column != col || to.Column != col+width {
+			t.Errorf("%s: finding covers %d:%d-%d, want 3:%d-%d (%q)", c.line, from.Line, from.Column, to.Column, col, col+width, c.at)
 		}
 	}
 }
@@ -257,7 +283,9 @@ resistor  R2 (h, gnd) 100 Ω
 		{"resistor RX (a, gnd) 1 kΩ ideality 2", "ideality is for: diode, led"},
 		{"inductor LX (a, gnd) 1 mH series 1 Ω", "series is for: diode, led"},
 		{"wire WX (a, gnd) tol 5%", "tol is for: resistor, capacitor, inductor, source"},
-		{"resistor RX (a, gnd) 1 kΩ colour red", "attributes are tol, rated"},
+		{"resistor RX (a, gnd) 1 kΩ colour red", "a resistor takes tol and rated"},
+		// A switch takes no attribute but a rating.
+		{"switch SX (a, gnd) open ajar", "a switch takes only rated (its state is open or closed)"},
 	}
 	for _, c := range bad {
 		var got []string

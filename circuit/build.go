@@ -3,7 +3,6 @@ package circuit
 import (
 	"fmt"
 	"path/filepath"
-	"slices"
 	"strings"
 
 	"github.com/alecthomas/participle/v2/lexer"
@@ -305,7 +304,8 @@ func (b *builder) part(sc *scope, st *bodyStmt, nets []NetID) {
 	p := Part{Kind: kind, Name: name, Pos: pos, End: end, Inst: sc.inst, Ideality: 0}
 
 	// Value first: for a source its unit decides the kind, and so the pins.
-	if !b.value(&p, pt) {
+	valueOK := b.value(&p, pt)
+	if !valueOK {
 		b.r.Invalid = true
 		if p.Kind.shared() {
 			// Without a usable value a source is neither kind: its
@@ -319,7 +319,8 @@ func (b *builder) part(sc *scope, st *bodyStmt, nets []NetID) {
 		b.countOnly(nets)
 		return
 	}
-	if !b.attrs(&p, pt, info) {
+	// A refused value has said what the kind needs instead.
+	if !b.attrs(&p, pt, info, valueOK || pt.Value == nil) {
 		b.r.Invalid = true
 	}
 	b.count++
@@ -463,6 +464,10 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 	word := pt.Kind.Text
 	info := p.Kind.Info()
 	v := pt.Value
+	vpos, vend := p.Pos, p.End // the value's own range, once there is one
+	if v != nil {
+		vpos, vend = b.valueSpan(v)
+	}
 	switch {
 	case len(info.States) > 0:
 		states := strings.Join(info.States, " or ")
@@ -470,7 +475,7 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 			if v == nil {
 				b.report(CodeMissingValue, p.Pos, p.End, "%s %s needs its state: %s", word, p.Name, states)
 			} else {
-				b.report(CodeBadValue, p.Pos, p.End, "%s %s: %s is not a %s state; write %s", word, p.Name, b.describe(v), word, states)
+				b.report(CodeBadValue, vpos, vend, "%s %s: %s is not a %s state; write %s", word, p.Name, b.describe(v), word, states)
 			}
 			return false
 		}
@@ -479,7 +484,7 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 		return true
 	case info.Value == units.None:
 		if v != nil {
-			b.report(CodeBadValue, p.Pos, p.End, "%s %s takes %s", word, p.Name, info.NoValue)
+			b.report(CodeBadValue, vpos, vend, "%s %s takes %s", word, p.Name, b.noValueHint(p, v))
 			return false
 		}
 		return true
@@ -492,8 +497,12 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 		b.report(CodeMissingValue, p.Pos, p.End, "%s %s needs a value%s", word, p.Name, hint)
 		return false
 	}
+	if b.notANumber(v) {
+		b.report(CodeBadValue, vpos, b.unitWordEnd(pt, vend), "%s %s: %s is not a number; write a finite value with its unit, e.g. %s", word, p.Name, v.Param.Text, b.example(p.Kind))
+		return false
+	}
 	if v.Word != "" {
-		b.report(CodeBadValue, p.Pos, p.End, "%s %s: %s is a switch state, not a %s", word, p.Name, v.Word, info.Value.Noun())
+		b.report(CodeBadValue, vpos, vend, "%s %s: %s is a switch state, not a %s", word, p.Name, v.Word, info.Value.Noun())
 		return false
 	}
 	if w := unitWord(pt); w != "" {
@@ -503,20 +512,20 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 		if err == nil {
 			err = &units.Error{Msg: fmt.Sprintf("%q is not a unit", v.Num+" "+w)}
 		}
-		b.report(CodeUnitMismatch, p.Pos, p.End, "%s %s: %s", word, p.Name, err)
+		b.report(CodeUnitMismatch, vpos, b.unitWordEnd(pt, vend), "%s %s: %s", word, p.Name, b.unitHint(p.Kind, err))
 		return false
 	}
 	q, err := b.quantity(v)
 	if err != nil {
 		rule, silent := errRule(err)
 		if !silent {
-			b.report(rule, p.Pos, p.End, "%s %s: %s", word, p.Name, err)
+			b.report(rule, vpos, vend, "%s %s: %s", word, p.Name, b.unitHint(p.Kind, err))
 		}
 		return false
 	}
 	um := b.unitRule(v)
 	if q.Percent {
-		b.report(um, p.Pos, p.End, "%s %s: %s is a percentage; %% belongs to tol", word, p.Name, b.describe(v))
+		b.report(um, vpos, vend, "%s %s: %s is a percentage; %% belongs to tol", word, p.Name, b.describe(v))
 		return false
 	}
 	if p.Kind.shared() {
@@ -526,10 +535,10 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 		case found:
 			p.Kind = k
 		case q.Dim == units.None:
-			b.report(um, p.Pos, p.End, "%s %s: %s has no unit; write %s", word, p.Name, b.describe(v), p.Kind.siblings(func(sym, name string) string { return b.describe(v) + " " + sym + " for " + article(name) }))
+			b.report(um, vpos, vend, "%s %s: %s has no unit; write %s", word, p.Name, b.describe(v), p.Kind.siblings(func(sym, name string) string { return b.describe(v) + " " + sym + " for " + article(name) }))
 			return false
 		default:
-			b.report(um, p.Pos, p.End, "%s %s: %s is a %s; %s is given in %s", word, p.Name, b.describe(v), q.Dim.Noun(), article(word), p.Kind.siblings(func(sym, name string) string { return sym + " (" + name + ")" }))
+			b.report(um, vpos, vend, "%s %s: %s is a %s; %s is given in %s", word, p.Name, b.describe(v), q.Dim.Noun(), article(word), p.Kind.siblings(func(sym, name string) string { return sym + " (" + name + ")" }))
 			return false
 		}
 		p.Value = q.Value
@@ -537,9 +546,9 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 	}
 	if q.Dim != info.Value {
 		if q.Dim == units.None {
-			b.report(um, p.Pos, p.End, "%s %s: %s has no unit; write %s %s", word, p.Name, b.describe(v), b.describe(v), info.Value.Symbol())
+			b.report(um, vpos, vend, "%s %s: %s has no unit; write %s %s", word, p.Name, b.describe(v), b.describe(v), info.Value.Symbol())
 		} else {
-			b.report(um, p.Pos, p.End, "%s %s is given as a %s (%s); %s takes a %s in %s", word, p.Name, q.Dim.Noun(), b.describeQ(v, q), article(word), info.Value.Noun(), info.Value.Symbol())
+			b.report(um, vpos, vend, "%s %s is given as a %s (%s); %s takes a %s in %s", word, p.Name, q.Dim.Noun(), b.describeQ(v, q), article(word), info.Value.Noun(), info.Value.Symbol())
 		}
 		return false
 	}
@@ -547,9 +556,9 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 	if q.Value <= 0 {
 		switch {
 		case p.Kind == Resistor && q.Value == 0:
-			b.report(CodeBadValue, p.Pos, p.End, "resistor %s is 0 Ω; use a wire for a zero-ohm link", p.Name)
+			b.report(CodeBadValue, vpos, vend, "resistor %s is 0 Ω; use a wire for a zero-ohm link", p.Name)
 		default:
-			b.report(CodeBadValue, p.Pos, p.End, "%s %s: %s %s must be positive", word, p.Name, info.Value.Noun(), units.Format(q.Value, q.Dim))
+			b.report(CodeBadValue, vpos, vend, "%s %s: %s %s must be positive", word, p.Name, info.Value.Noun(), units.Format(q.Value, q.Dim))
 		}
 		return false
 	}
@@ -561,7 +570,7 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 // the unit ("1 meg", "10 k").
 func unitWord(pt *grammar.Part) string {
 	v := pt.Value
-	if v == nil || v.Num == "" || v.Unit != "" || len(pt.Attrs) == 0 {
+	if v == nil || v.Unit != "" || len(pt.Attrs) == 0 || v.Num == "" && (v.Param == nil || !notNumberWord(v.Param.Text)) {
 		return ""
 	}
 	a := pt.Attrs[0]
@@ -588,29 +597,15 @@ var attrKinds = func() map[string]string {
 	return m
 }()
 
-// attrWords lists the attributes, for a message about an unknown one.
-var attrWords = func() string {
-	var out []string
-	for _, k := range Kinds() {
-		for _, a := range k.Info().Attrs {
-			if a == "vf" {
-				a = "vf … at"
-			}
-			if !slices.Contains(out, a) {
-				out = append(out, a)
-			}
-		}
-	}
-	return strings.Join(slices.Insert(out, min(1, len(out)), "rated"), ", ")
-}()
-
 // attrs reads the attributes. It returns false when one is unusable.
-func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
+// A kind's required attribute (vf) is asked for when needs is set.
+func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo, needs bool) bool {
 	word := pt.Kind.Text
 	ok := true
 	seen := map[string]bool{}
+	apos, aend := p.Pos, p.End // the attribute being read
 	bad := func(rule Code, format string, args ...any) {
-		b.report(rule, p.Pos, p.End, "%s %s: %s", word, p.Name, fmt.Sprintf(format, args...))
+		b.report(rule, apos, aend, "%s %s: %s", word, p.Name, fmt.Sprintf(format, args...))
 		ok = false
 	}
 	attrs := pt.Attrs
@@ -619,10 +614,10 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
 	}
 	for _, a := range attrs {
 		key := a.Key.Text
+		apos, aend = b.attrSpan(a)
 		kinds, knownAttr := attrKinds[key]
 		if !knownAttr {
-			msg := fmt.Sprintf("unknown attribute %q; attributes are %s", key, attrWords)
-			bad(CodeBadAttribute, "%s", msg)
+			bad(CodeBadAttribute, "unknown attribute %q; %s", key, takes(p.Kind))
 			continue
 		}
 		if key != "rated" && !contains(info.Attrs, key) {
@@ -750,7 +745,8 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo) bool {
 			}
 		}
 	}
-	if need := info.Needs; need != "" && !seen[need] {
+	if need := info.Needs; need != "" && !seen[need] && needs {
+		apos, aend = p.Pos, p.End
 		bad(CodeMissingValue, "%s", info.NeedsHint)
 	}
 	return ok

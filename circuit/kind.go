@@ -172,6 +172,10 @@ var (
 	junctionDC      = func(p *Part) DC { return DC{Model: Junction, R: p.Series} }
 	junctionNoValue = "no plain value; give its forward voltage as \"vf 0.7 V at 10 mA\""
 	junctionNeeds   = "needs its forward voltage: vf 0.7 V at 10 mA"
+	// An LED's forward voltage is higher than a silicon diode's: about
+	// 2 V for a red one (from memory; its datasheet gives its own).
+	ledNoValue = "no plain value; give its forward voltage from its datasheet, e.g. \"vf 2.0 V at 10 mA\""
+	ledNeeds   = "needs its forward voltage from its datasheet, e.g. vf 2.0 V at 10 mA"
 	// shortUnlessDCR is an inductor's or fuse's behaviour: its dcr, or
 	// an ideal short without one.
 	shortUnlessDCR = func(p *Part) DC {
@@ -209,8 +213,8 @@ var kinds = [numKinds]KindInfo{
 	Diode: {Word: "diode", Pins: junctionPins, Roles: junctionRoles, NoValue: junctionNoValue,
 		Attrs: []string{"vf", "ideality", "series"}, Needs: "vf", NeedsHint: junctionNeeds,
 		Ratings: junctionRatings("diode-current"), DC: junctionDC, Ideality: 1},
-	LED: {Word: "led", Pins: junctionPins, Roles: junctionRoles, NoValue: junctionNoValue,
-		Attrs: []string{"vf", "ideality", "series"}, Needs: "vf", NeedsHint: junctionNeeds,
+	LED: {Word: "led", Pins: junctionPins, Roles: junctionRoles, NoValue: ledNoValue,
+		Attrs: []string{"vf", "ideality", "series"}, Needs: "vf", NeedsHint: ledNeeds,
 		Ratings: junctionRatings("led-current"), DC: junctionDC, Ideality: 2},
 	Fuse: {Word: "fuse", Pins: plainPins, Roles: plainRoles, Value: units.Current, ValueHint: ": its rated current in A",
 		Attrs: []string{"dcr"},

@@ -176,7 +176,7 @@ call writefile([&l:errorformat, json_encode(getqflist())], $OUT)
 			want := []struct {
 				lnum, col int
 				typ, rule string
-			}{{3, 1, "n", "unused-block"}, {8, 19, "w", "floating-net"}, {9, 1, "e", "unit-mismatch"}}
+			}{{3, 1, "n", "unused-block"}, {8, 19, "w", "floating-net"}, {9, 26, "e", "unit-mismatch"}}
 			if len(qf) != len(want) {
 				t.Fatalf("quickfix list has %d entries, want %d (the summary line must not be one): %+v", len(qf), len(want), qf)
 			}

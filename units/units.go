@@ -152,6 +152,10 @@ type Error struct {
 	Text string // what was written
 	Msg  string
 	Hint string
+	// Number and Prefix are set when a prefix was written with no unit
+	// after it ("10k"), so that a caller who knows the unit expected can
+	// say what to write.
+	Number, Prefix string
 }
 
 func (e *Error) Error() string {
@@ -226,7 +230,8 @@ func Parse(num, unit string) (Quantity, error) {
 		if !ok {
 			if f, isPrefix := prefixes[rest]; isPrefix {
 				_ = f
-				return Quantity{}, &Error{Text: num + unit, Msg: fmt.Sprintf("%s%s has a prefix but no unit", num, unit), Hint: "write the unit after the prefix, e.g. " + digits + " " + rest + "Ω or " + digits + " " + rest + "F"}
+				return Quantity{}, &Error{Text: num + unit, Msg: fmt.Sprintf("%s%s has a prefix but no unit", num, unit), Hint: "write the unit after the prefix, e.g. " + digits + " " + rest + "Ω or " + digits + " " + rest + "F",
+					Number: digits, Prefix: rest}
 			}
 			return Quantity{}, badSuffix(strings.TrimSpace(num + " " + unit))
 		}

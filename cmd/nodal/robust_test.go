@@ -52,14 +52,14 @@ func TestExitStatuses(t *testing.T) {
 	if code, out, errOut := runCLI(t, "", "check", good); code != 0 || out != "" || !strings.Contains(errOut, "0 errors, 0 warnings, 0 notes in 1 file") {
 		t.Errorf("clean file: exit %d, %q, %q", code, out, errOut)
 	}
-	if code, out, _ := runCLI(t, "", "check", bad); code != 1 || !strings.Contains(out, "bad.nodal:3:1: error:") {
+	if code, out, _ := runCLI(t, "", "check", bad); code != 1 || !strings.Contains(out, "bad.nodal:3:22: error:") {
 		t.Errorf("file with an error: exit %d, %q", code, out)
 	}
 	if code, _, errOut := runCLI(t, "", "check", filepath.Join(dir, "missing.nodal")); code != 2 || !strings.Contains(errOut, "missing.nodal") {
 		t.Errorf("missing file: exit %d, %q", code, errOut)
 	}
 	// A missing path does not stop the others from being checked.
-	if code, out, errOut := runCLI(t, "", "check", filepath.Join(dir, "missing.nodal"), bad); code != 2 || !strings.Contains(out, "bad.nodal:3:1") || !strings.Contains(errOut, "in 1 file") {
+	if code, out, errOut := runCLI(t, "", "check", filepath.Join(dir, "missing.nodal"), bad); code != 2 || !strings.Contains(out, "bad.nodal:3:22") || !strings.Contains(errOut, "in 1 file") {
 		t.Errorf("missing and bad: exit %d, %q, %q", code, out, errOut)
 	}
 	if code, _, _ := runCLI(t, "", "check", "--frobnicate"); code != 2 {
