@@ -11,6 +11,15 @@
 // their results from Pass.ResultOf. Every analyzer runs at most once per
 // design, after the ones it requires.
 //
+// # Findings
+//
+// Findings made while the model is built carry a circuit.Code, which one
+// analyzer claims (Analyzer.Codes); the rules' own are reported through
+// Pass.Report. All of them meet in RunResults' last pass, which merges
+// their repeats across block instances, adds the instance chain, applies
+// accept comments and configured severities, and sorts, the same way for
+// every rule.
+//
 // # Adding a rule
 //
 // Write a file in this package declaring the Analyzer, add it to All in

@@ -71,7 +71,7 @@ func failure(p *Pass, e *solve.Error, msg string) {
 	for _, id := range e.Parts {
 		q := &d.Parts[id]
 		if !dg.Pos.IsValid() {
-			dg.Pos, dg.End = q.Pos, q.End
+			dg.Pos, dg.End, dg.Subject = q.Pos, q.End, q.Name
 			continue
 		}
 		dg.Related = append(dg.Related, diag.Related{Pos: q.Pos, End: q.End, Message: q.Name + " is involved"})
@@ -79,7 +79,7 @@ func failure(p *Pass, e *solve.Error, msg string) {
 	for _, n := range e.Nets {
 		net := &d.Nets[n]
 		if !dg.Pos.IsValid() {
-			dg.Pos, dg.End = net.Pos, net.End
+			dg.Pos, dg.End, dg.Subject = net.Pos, net.End, net.Name
 			continue
 		}
 		if len(dg.Related) < 10 {
@@ -179,7 +179,7 @@ solved iteratively (the largest) get no estimate and no finding.`,
 			return nil, nil
 		}
 		a, b := &d.Parts[lo], &d.Parts[hi]
-		p.Report(diag.Diagnostic{Pos: a.Pos, End: a.End,
+		p.Report(diag.Diagnostic{Pos: a.Pos, End: a.End, Subject: a.Name,
 			Message: fmt.Sprintf("%s; resistances span %s (%s) to %s (%s)", msg, units.Format(rlo, units.Resistance), a.Name, units.Format(rhi, units.Resistance), b.Name),
 			Related: []diag.Related{{Pos: b.Pos, End: b.End, Message: b.Name + " is the largest resistance"}}})
 		return nil, nil
