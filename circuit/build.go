@@ -250,6 +250,8 @@ func (b *builder) run(ast *grammar.File) {
 			d.Ground = d.Net(name, b.pos(n.Pos), b.nameEnd(n))
 			d.GroundPos = pos
 			b.groundStmt = pos
+		case st.Ambient != nil:
+			b.ambient(st.Ambient, pos, end)
 		case st.Port != nil:
 			for _, n := range st.Port.Nets {
 				id := d.Net(netName(n.Text), b.pos(n.Pos), b.nameEnd(n))
@@ -633,6 +635,10 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo, needs bool) b
 			bad(CodeBadAttribute, "only vf takes \"at\" (vf 2.0 V at 20 mA)")
 			continue
 		}
+		if a.To != nil && key != "derate" {
+			bad(CodeBadAttribute, "only derate takes \"to\" (derate 70 °C to 155 °C)")
+			continue
+		}
 		if len(a.Values) == 0 {
 			bad(CodeMissingValue, "%s needs a value", key)
 			continue
@@ -665,6 +671,8 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo, needs bool) b
 			um = b.unitRule(append(a.Values[:len(a.Values):len(a.Values)], a.At)...)
 		}
 		switch key {
+		case "tempco", "derate", "theta", "tjmax":
+			b.thermalAttr(p, a, q, um, bad)
 		case "tol":
 			if !q.Percent {
 				bad(um, "tol %s must be a percentage, e.g. tol 5%%", b.describe(a.Values[0]))

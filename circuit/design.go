@@ -73,6 +73,10 @@ type Part struct {
 
 	DCR float64 // inductors and fuses: resistance at DC (Ω)
 
+	// Heat holds the temperature attributes (tempco, derate, theta,
+	// tjmax); nil when none is written.
+	Heat *Thermal
+
 	Pos    diag.Pos // start of the statement
 	End    diag.Pos // end of the statement
 	PinPos [2]diag.Pos
@@ -102,6 +106,9 @@ type Design struct {
 	Ground    NetID // NoNet when the file names no ground
 	GroundPos diag.Pos
 	Instances []Instance
+	// Ambient is the ambient temperature the design states; its Set is
+	// false when it states none.
+	Ambient Ambient
 
 	netIndex map[string]NetID
 }

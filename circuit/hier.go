@@ -179,6 +179,8 @@ func (b *builder) collect(ast *grammar.File, stack []string) []*grammar.Statemen
 				what = "port"
 			case st.Design != nil:
 				what = "design"
+			case st.Ambient != nil:
+				what = "ambient"
 			}
 			msg := what + " belongs at the top level, not inside block " + open.name
 			if what == "ground" {

@@ -92,8 +92,11 @@ func takes(k Kind) string {
 	info := k.Info()
 	var ws []string
 	for _, a := range info.Attrs {
-		if a == "vf" {
+		switch a {
+		case "vf":
 			a = "vf … at"
+		case "derate":
+			a = "derate … to"
 		}
 		ws = append(ws, a)
 	}

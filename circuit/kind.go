@@ -188,7 +188,7 @@ var (
 
 var kinds = [numKinds]KindInfo{
 	Resistor: {Word: "resistor", Pins: plainPins, Roles: plainRoles, Value: units.Resistance,
-		Attrs:   []string{"tol"},
+		Attrs:   []string{"tol", "tempco", "derate"},
 		Ratings: []Rating{derated(ratedPower, "resistor-power", 0.60), ratedVoltage},
 		DC:      func(p *Part) DC { return DC{Model: Conductance, R: p.Value} }},
 	Capacitor: {Word: "capacitor", Pins: plainPins, Roles: plainRoles, Value: units.Capacitance,
@@ -211,10 +211,10 @@ var kinds = [numKinds]KindInfo{
 		Ratings: []Rating{{Dim: units.Voltage, What: "voltage", Says: "must develop %s", Of: "compliance voltage"}},
 		DC:      func(*Part) DC { return DC{Model: CurrentFlow} }},
 	Diode: {Word: "diode", Pins: junctionPins, Roles: junctionRoles, NoValue: junctionNoValue,
-		Attrs: []string{"vf", "ideality", "series"}, Needs: "vf", NeedsHint: junctionNeeds,
+		Attrs: []string{"vf", "ideality", "series", "theta", "tjmax"}, Needs: "vf", NeedsHint: junctionNeeds,
 		Ratings: junctionRatings("diode-current"), DC: junctionDC, Ideality: 1},
 	LED: {Word: "led", Pins: junctionPins, Roles: junctionRoles, NoValue: ledNoValue,
-		Attrs: []string{"vf", "ideality", "series"}, Needs: "vf", NeedsHint: ledNeeds,
+		Attrs: []string{"vf", "ideality", "series", "theta", "tjmax"}, Needs: "vf", NeedsHint: ledNeeds,
 		Ratings: junctionRatings("led-current"), DC: junctionDC, Ideality: 2},
 	Fuse: {Word: "fuse", Pins: plainPins, Roles: plainRoles, Value: units.Current, ValueHint: ": its rated current in A",
 		Attrs: []string{"dcr"},

@@ -22,6 +22,7 @@ type Statement struct {
 	Ground  *Ground  `parser:"| \"ground\" @@"`
 	Port    *Port    `parser:"| \"port\" @@"`
 	Include *Include `parser:"| \"include\" @@"`
+	Ambient *Ambient `parser:"| \"ambient\" @@"`
 	Block   *Block   `parser:"| \"block\" @@"`
 	Close   *Close   `parser:"| @@"`
 	Part    *Part    `parser:"| @@"`
@@ -41,6 +42,13 @@ type Ground struct {
 // Port lists nets that leave the file and may have a single pin.
 type Port struct {
 	Nets []*Name `parser:"@@ ( \",\" @@ )*"`
+}
+
+// Ambient states the design's ambient temperature, or its range:
+// ambient 25 °C, ambient -20 °C to 50 °C.
+type Ambient struct {
+	Low  *Value `parser:"@@"`
+	High *Value `parser:"( \"to\" @@ )?"`
 }
 
 // Include brings the blocks of another file.
@@ -129,13 +137,15 @@ type Ref struct {
 	Text string `parser:"@Ident"`
 }
 
-// Attr is an attribute: a word, values separated by commas, and for vf an
-// operating point after "at".
+// Attr is an attribute: a word, values separated by commas, for vf an
+// operating point after "at", and for derate the end of a range after
+// "to".
 type Attr struct {
 	Pos    lexer.Position
 	Key    *Name    `parser:"@@"`
 	Values []*Value `parser:"( @@ ( \",\" @@ )* )?"`
 	At     *Value   `parser:"( \"at\" @@ )?"`
+	To     *Value   `parser:"( \"to\" @@ )?"`
 }
 
 // Expr is a sum of terms.

@@ -288,6 +288,9 @@ func readPart(lex *lexer.PeekingLexer, p *Part, nodes *partNodes) bool {
 				return false
 			}
 		}
+		if to := lex.Peek(); to.Type == TokIdent && to.Value == "to" {
+			return false // a range (derate 70 °C to 155 °C): the grammar's
+		}
 		p.Attrs = append(p.Attrs, a)
 	}
 	p.EndPos = lex.RawPeek().Pos

@@ -20,7 +20,7 @@ const (
 	TokIdent    // a name: [A-Za-z_][A-Za-z0-9_]*
 	TokKeyword  // a statement keyword: design ground port include block
 	TokAttrWord // an attribute word: tol rated vf at ideality series dcr open closed
-	TokUnit     // a unit with optional prefix standing alone: Ω kΩ mA V %
+	TokUnit     // a unit with optional prefix standing alone: Ω kΩ mA V %, °C, K/W
 	TokCode     // an IEC 60062 resistor code starting with R: R47
 	TokNumber   // a number with any letters glued to it: 12, 4.7k, 4k7, 100nF
 	TokString   // a double-quoted string, quotes included
@@ -38,6 +38,7 @@ var symbols = map[string]lexer.TokenType{
 // hierarchy; all are reserved so no design can use them as names.
 var keywords = map[string]bool{
 	"design": true, "ground": true, "port": true, "include": true, "block": true,
+	"ambient": true,
 }
 
 // Attribute words, and the two switch states.
@@ -168,7 +169,7 @@ func appendLine(toks []lexer.Token, src string, off, end, line int, comments *[]
 				typ = TokUnit
 				break
 			}
-			if !isWordStart(r) {
+			if !isWordStart(r) && r != '°' {
 				break
 			}
 			for j < end {
@@ -180,10 +181,14 @@ func appendLine(toks []lexer.Token, src string, off, end, line int, comments *[]
 					continue
 				}
 				r2, s2 := utf8.DecodeRuneInString(src[j:end])
-				if !isWordPart(r2) {
+				if !isWordPart(r2) && r2 != '°' {
 					break
 				}
 				j += s2
+			}
+			if k := compoundEnd(src, i, j, end); k > j {
+				j, typ = k, TokUnit
+				break
 			}
 			typ = words.classify(src[i:j])
 		}
@@ -210,6 +215,54 @@ func isPunct(c byte) bool {
 // scanNumber returns the end of a number starting at i: digits, a decimal
 // point, an exponent, and any letters, digits or % glued to it (4.7kΩ, 4k7).
 func scanNumber(src string, i, end int) int {
+	j := scanDigits(src, i, end)
+	u := j
+	for j < end {
+		if src[j] == '%' {
+			j++
+			continue
+		}
+		if c := src[j]; c < utf8.RuneSelf {
+			if !(c == '_' || c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z' || c >= '0' && c <= '9') {
+				break
+			}
+			j++
+			continue
+		}
+		r, s := utf8.DecodeRuneInString(src[j:end])
+		if !isWordPart(r) && r != '°' || r == utf8.RuneError {
+			break
+		}
+		j += s
+	}
+	return compoundEnd(src, u, j, end)
+}
+
+// compoundEnd returns the end of a unit written with a slash (K/W, ppm/K,
+// °C/W) whose first part is src[u:j] and that goes on at j with "/"; or j
+// when there is none. Only the units of units.IsCompound are read this
+// way, so an expression's division is never swallowed.
+func compoundEnd(src string, u, j, end int) int {
+	if j >= end || src[j] != '/' || j == u {
+		return j
+	}
+	k := j + 1
+	for k < end {
+		r, s := utf8.DecodeRuneInString(src[k:end])
+		if !(r == '°' || r < utf8.RuneSelf && (r >= 'a' && r <= 'z' || r >= 'A' && r <= 'Z')) {
+			break
+		}
+		k += s
+	}
+	if units.IsCompound(src[u:k]) {
+		return k
+	}
+	return j
+}
+
+// scanDigits returns the end of the digits, decimal point and exponent of
+// a number starting at i.
+func scanDigits(src string, i, end int) int {
 	j := i
 	for j < end && (src[j] >= '0' && src[j] <= '9' || src[j] == '.') {
 		j++
@@ -225,24 +278,6 @@ func scanNumber(src string, i, end int) int {
 			}
 			j = k
 		}
-	}
-	for j < end {
-		if src[j] == '%' {
-			j++
-			continue
-		}
-		if c := src[j]; c < utf8.RuneSelf {
-			if !(c == '_' || c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z' || c >= '0' && c <= '9') {
-				break
-			}
-			j++
-			continue
-		}
-		r, s := utf8.DecodeRuneInString(src[j:end])
-		if !isWordPart(r) || r == utf8.RuneError {
-			break
-		}
-		j += s
 	}
 	return j
 }

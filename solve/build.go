@@ -98,7 +98,7 @@ func build(d *circuit.Design, vt float64, mna bool) (*model, error) {
 			continue
 		}
 		n := Ideality(p)
-		is, vref, ok := SaturationCurrent(p, vt)
+		is, vref, ok := SaturationCurrentAt(p, vt*Charge/Boltzmann)
 		if !ok {
 			badParts = append(badParts, circuit.PartID(i))
 			msgs = append(msgs, fmt.Sprintf("%s %s: its series resistance drops %s at %s, at least its vf", p.Kind, p.Name, fmtV(p.VFAt*p.Series), fmtA(p.VFAt)))

@@ -40,7 +40,9 @@ func (e *Error) Error() string { return e.Msg }
 
 // Options change a solve. The zero value is the default.
 type Options struct {
-	// Temperature in kelvin; 0 means 25 °C.
+	// Temperature of the junctions in kelvin; 0 means 25 °C. A vf point
+	// is taken as measured at 25 °C and moved to this temperature by
+	// SaturationCurrentAt.
 	Temperature float64
 	// Dense forces gonum's dense LU whatever the size (up to MaxDense
 	// unknowns); it is Solver: DenseLU.

@@ -30,8 +30,8 @@ import (
 	"strings"
 )
 
-// Dim is a dimension: the exponents of volt, ampere and second.
-type Dim struct{ V, A, S int8 }
+// Dim is a dimension: the exponents of volt, ampere, second and kelvin.
+type Dim struct{ V, A, S, K int8 }
 
 // Common dimensions.
 var (
@@ -44,13 +44,21 @@ var (
 	Capacitance = Dim{V: -1, A: 1, S: 1}
 	Inductance  = Dim{V: 1, A: -1, S: 1}
 	Time        = Dim{S: 1}
+	// Temperature is an absolute temperature. Its quantities are held in
+	// °C, the one unit of the language with an offset (see Temperatures).
+	Temperature = Dim{K: 1}
+	// ThermalResistance is K/W (equally °C/W): the rise of a junction
+	// above ambient per watt it dissipates.
+	ThermalResistance = Dim{K: 1, V: -1, A: -1}
+	// TempCoefficient is a relative change per kelvin (ppm/K).
+	TempCoefficient = Dim{K: -1}
 )
 
 // Mul returns the dimension of a product.
-func (d Dim) Mul(e Dim) Dim { return Dim{d.V + e.V, d.A + e.A, d.S + e.S} }
+func (d Dim) Mul(e Dim) Dim { return Dim{d.V + e.V, d.A + e.A, d.S + e.S, d.K + e.K} }
 
 // Div returns the dimension of a quotient.
-func (d Dim) Div(e Dim) Dim { return Dim{d.V - e.V, d.A - e.A, d.S - e.S} }
+func (d Dim) Div(e Dim) Dim { return Dim{d.V - e.V, d.A - e.A, d.S - e.S, d.K - e.K} }
 
 var named = []struct {
 	d      Dim
@@ -66,6 +74,9 @@ var named = []struct {
 	{Capacitance, "F", "capacitance"},
 	{Inductance, "H", "inductance"},
 	{Time, "s", "time"},
+	{Temperature, "°C", "temperature"},
+	{ThermalResistance, "K/W", "thermal resistance"},
+	{TempCoefficient, "ppm/K", "temperature coefficient"},
 }
 
 // Symbol returns the unit symbol of d (Ω, V, A ...) or a product of powers
@@ -80,7 +91,7 @@ func (d Dim) Symbol() string {
 	for _, p := range []struct {
 		e int8
 		s string
-	}{{d.V, "V"}, {d.A, "A"}, {d.S, "s"}} {
+	}{{d.V, "V"}, {d.A, "A"}, {d.S, "s"}, {d.K, "K"}} {
 		switch {
 		case p.e > 0:
 			num = append(num, p.s+power(p.e))
@@ -134,6 +145,9 @@ func (q Quantity) String() string {
 	if q.Percent {
 		return FormatPercent(q.Value)
 	}
+	if q.Dim == Temperature {
+		return FormatCelsius(q.Value)
+	}
 	return Format(q.Value, q.Dim)
 }
 
@@ -175,6 +189,9 @@ func IsUnit(s string) bool {
 func splitUnit(s string) (scale float64, d Dim, ok bool) {
 	if s == "%" {
 		return 0.01, None, true
+	}
+	if u, ok := thermalUnits[s]; ok {
+		return u.scale, u.d, true
 	}
 	if d, ok := symbols[s]; ok {
 		return 1, d, true
@@ -223,6 +240,9 @@ func Parse(num, unit string) (Quantity, error) {
 		s, d, ok := splitUnit(unit)
 		if !ok || s != 1 || unit == "%" {
 			return Quantity{}, badSuffix(num + " " + unit)
+		}
+		if _, thermal := thermalUnits[unit]; thermal {
+			return Quantity{}, &Error{Text: num + " " + unit, Msg: fmt.Sprintf("%s %s: %s takes no prefix", num, unit, unit), Hint: "write the number in full, e.g. " + digits + " " + unit}
 		}
 		scale, dim = f, d
 	} else if rest != "" {
@@ -274,7 +294,7 @@ func badSuffix(text string) *Error {
 	if strings.Contains(lower, "meg") {
 		return &Error{Text: text, Msg: fmt.Sprintf("%q: \"meg\" is not a prefix", text), Hint: "write M for mega (1 MΩ) and m for milli (1 mA)"}
 	}
-	return &Error{Text: text, Msg: fmt.Sprintf("%q is not a unit", text), Hint: "units are Ω (or ohm), F, H, V, A, W and %, with an optional prefix p n u µ m k M G T"}
+	return &Error{Text: text, Msg: fmt.Sprintf("%q is not a unit", text), Hint: "units are Ω (or ohm), F, H, V, A, W and %, with an optional prefix p n u µ m k M G T, and °C (or degC), K/W and ppm/K"}
 }
 
 // splitNumber separates the numeric part of s from any letters glued to it.
@@ -348,6 +368,9 @@ func ParseCode(s string) (Quantity, bool) {
 // Format prints v in unit d with an engineering prefix and three significant
 // figures: 0.3125 W → "313 mW".
 func Format(v float64, d Dim) string {
+	if d == Temperature {
+		return FormatCelsius(v)
+	}
 	sym := d.Symbol()
 	if d == None {
 		sym = ""
