@@ -153,3 +153,43 @@ func (b *builder) ambient(st *grammar.Ambient, pos, end diag.Pos) {
 	}
 	d.Ambient = Ambient{Low: lo, High: hi, Set: true, Pos: pos, End: end}
 }
+
+// ReferenceCelsius is the temperature values are written for: a resistor's
+// value and a junction's vf point hold at 25 °C.
+const ReferenceCelsius = 25.0
+
+// ValueAt returns p's value at ambient temperature t (°C): a resistor with
+// a tempco moves linearly, R·(1 + α·(t − 25 °C)) (the definition of a
+// resistor's temperature coefficient of resistance in IEC 60115-1, from
+// memory); every other value stays as written.
+func (p *Part) ValueAt(t float64) float64 {
+	if p.Kind != Resistor || p.Heat == nil || p.Heat.Tempco == 0 {
+		return p.Value
+	}
+	return p.Value * (1 + p.Heat.Tempco*(t-ReferenceCelsius))
+}
+
+// AtTemperature returns d with every resistor's value moved to ambient
+// temperature t (ValueAt), sharing all but its parts with d; d itself when
+// no value moves.
+func (d *Design) AtTemperature(t float64) *Design {
+	if t == ReferenceCelsius {
+		return d
+	}
+	var c *Design
+	for i := range d.Parts {
+		p := &d.Parts[i]
+		if v := p.ValueAt(t); v != p.Value {
+			if c == nil {
+				cp := *d
+				cp.Parts = append([]Part(nil), d.Parts...)
+				c = &cp
+			}
+			c.Parts[i].Value = v
+		}
+	}
+	if c == nil {
+		return d
+	}
+	return c
+}

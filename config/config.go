@@ -81,6 +81,8 @@ type Config struct {
 	// checkouts. Relative entries are taken relative to the folder of
 	// File and returned joined onto it.
 	Roots []string
+	// Thermal is the [thermal] table.
+	Thermal Thermal
 	// Origin says where each value came from: "default", or
 	// "FILE:LINE". Keys are the TOML keys ("rules.floating-net",
 	// "derating.resistor-power", "skip", "limits.depth").
@@ -99,7 +101,7 @@ func DeratingKeys() []string {
 // Default returns the configuration used when there is no nodal.toml.
 func Default() *Config {
 	c := &Config{Severity: map[string]diag.Severity{}, Derating: map[string]float64{},
-		Depth: DefaultDepth, Parts: DefaultParts, FileMiB: DefaultFileMiB, Origin: map[string]string{}}
+		Depth: DefaultDepth, Parts: DefaultParts, FileMiB: DefaultFileMiB, Origin: map[string]string{}, Thermal: defaultThermal()}
 	for _, d := range deratingDefaults {
 		c.Derating[d.Key] = d.Percent / 100
 		c.Origin["derating."+d.Key] = "default"
@@ -157,6 +159,7 @@ type raw struct {
 		Parts   *int64 `toml:"parts"`
 		FileMiB *int64 `toml:"file-mib"`
 	} `toml:"limits"`
+	Thermal rawThermal `toml:"thermal"`
 }
 
 // Parse reads the text of a nodal.toml named name. known reports whether a
@@ -193,9 +196,11 @@ func Parse(name string, src []byte, known func(string) bool, suggest func(string
 		msg := "unknown key"
 		switch {
 		case len(k) == 1:
-			msg += "; the keys are skip, roots and the tables [rules], [derating] and [limits]"
+			msg += "; the keys are skip, roots and the tables [rules], [derating], [limits] and [thermal]"
 		case k[0] == "limits":
 			msg += "; [limits] takes depth, parts and file-mib"
+		case k[0] == "thermal":
+			msg += "; [thermal] takes ambient, resistor-knee and resistor-zero"
 		}
 		bad(key, "%s", msg)
 	}
@@ -289,6 +294,7 @@ func Parse(name string, src []byte, known func(string) bool, suggest func(string
 			c.Origin["limits.parts"] = origin("limits.parts")
 		}
 	}
+	parseThermal(r.Thermal, c, origin, bad)
 	if len(errs) > 0 {
 		sort.SliceStable(errs, func(i, j int) bool { return errs[i].Line < errs[j].Line })
 		return nil, errs

@@ -91,6 +91,31 @@ func explain(toks []lexer.Token) (at int, expect string, ok bool) {
 			return fail("end of line after the file name")
 		}
 		return 0, "", false
+	case t.Type == TokKeyword && t.Value == "ambient":
+		w.i++
+		for k := 0; k < 2; k++ {
+			if !startsQuantity(w.peek()) {
+				return fail("a temperature (ambient 25 °C, or ambient 0 °C to 50 °C)")
+			}
+			if punctIs(w.peek(), "-") {
+				w.i++
+			}
+			if w.peek().Type != TokNumber {
+				return fail("a temperature (ambient 25 °C, or ambient 0 °C to 50 °C)")
+			}
+			w.i++
+			if w.peek().Type == TokUnit {
+				w.i++
+			}
+			if w.eol() {
+				return 0, "", false
+			}
+			if k == 1 || w.peek().Value != "to" {
+				return fail("\"to\" and the top of the range, or end of line")
+			}
+			w.i++
+		}
+		return 0, "", false
 	case t.Type == TokKeyword && t.Value == "block":
 		return w.blockHeader()
 	case punctIs(t, "}"):
@@ -102,7 +127,7 @@ func explain(toks []lexer.Token) (at int, expect string, ok bool) {
 	case nameLike(t) && t.Type != TokString:
 		return w.part()
 	}
-	return 0, "a statement: a part (KIND NAME (NET, NET) VALUE ...), ground, port or design", true
+	return 0, "a statement: a part (KIND NAME (NET, NET) VALUE ...), ground, port, ambient or design", true
 }
 
 func (w *walker) part() (int, string, bool) {
@@ -313,4 +338,10 @@ func (w *walker) value(required bool) (int, string, bool) {
 		}
 	}
 	return 0, "", false
+}
+
+// startsQuantity reports whether t can begin a plain quantity: a number or
+// a minus sign.
+func startsQuantity(t lexer.Token) bool {
+	return t.Type == TokNumber || punctIs(t, "-")
 }

@@ -95,6 +95,10 @@ type Config struct {
 	Derating Derating
 	// NoSuppress ignores accept comments: every finding is reported.
 	NoSuppress bool
+	// Ambient is the ambient temperature for designs that state none
+	// (nodal.toml); ForceAmbient, when set, overrides every design's own
+	// (check --ambient). Neither set: 25 °C.
+	Ambient, ForceAmbient circuit.Ambient
 }
 
 func (c *Config) severity(a *Analyzer) (diag.Severity, bool) {

@@ -15,6 +15,10 @@ import (
 // zero value holds the defaults.
 type Derating struct {
 	set map[string]float64
+	// ResistorKnee and ResistorZero are a resistor's power derating with
+	// temperature, in °C, for resistors that give none of their own
+	// (derate … to); zero takes DefaultKnee and DefaultZero.
+	ResistorKnee, ResistorZero float64
 }
 
 // DefaultDerating returns the default limits.
@@ -77,7 +81,7 @@ func ratingRule(name, what, doc string) *Analyzer {
 			if r == nil {
 				return nil, nil
 			}
-			d, pt := p.Design, NewPoint(r)
+			d, pt := p.Design, solved(p).Point()
 			for i := range d.Parts {
 				q := &d.Parts[i]
 				for _, u := range Judge(q, pt.Part(circuit.PartID(i)), p.Config.Derating) {
@@ -132,7 +136,7 @@ current 80 %, fuse current 75 %, supply current 90 %.`,
 		if r == nil {
 			return nil, nil
 		}
-		d, pt := p.Design, NewPoint(r)
+		d, pt := p.Design, solved(p).Point()
 		for i := range d.Parts {
 			q := &d.Parts[i]
 			for _, u := range Judge(q, pt.Part(circuit.PartID(i)), p.Config.Derating) {

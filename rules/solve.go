@@ -6,6 +6,7 @@ package rules
 import (
 	"errors"
 	"fmt"
+	"math"
 
 	"nodal/circuit"
 	"nodal/diag"
@@ -29,6 +30,42 @@ type SolveResult struct {
 	// ill-conditioned could not judge the design; the KCL self-check still
 	// guards its results.
 	NoCondEstimate bool
+	// Ambient is the ambient temperature range the design is judged over
+	// (°C), and Nominal the temperature of the nominal operating point
+	// OP: 25 °C, or the end of the range nearest to it.
+	Ambient Ambient
+}
+
+// Ambient is the ambient temperature a design is judged at: Low … High in
+// °C, Nominal within it, and where it came from.
+type Ambient struct {
+	Low, High, Nominal float64
+	From               string // "the design", "nodal.toml", "--ambient" or "the default"
+}
+
+// Range reports whether the ambient is a range rather than one value.
+func (a Ambient) Range() bool { return a.High > a.Low }
+
+// AmbientOf returns the ambient temperature of design d under cfg:
+// cfg.ForceAmbient, else the design's own statement, else cfg.Ambient,
+// else 25 °C.
+func AmbientOf(d *circuit.Design, cfg *Config) Ambient {
+	a, from := circuit.Ambient{Low: RoomCelsius, High: RoomCelsius}, "the default"
+	switch {
+	case cfg != nil && cfg.ForceAmbient.Set:
+		a, from = cfg.ForceAmbient, "--ambient"
+	case d.Ambient.Set:
+		a, from = d.Ambient, "the design"
+	case cfg != nil && cfg.Ambient.Set:
+		a, from = cfg.Ambient, "nodal.toml"
+	}
+	return Ambient{Low: a.Low, High: a.High, Nominal: math.Min(math.Max(RoomCelsius, a.Low), a.High), From: from}
+}
+
+// Point returns the reader of the nominal operating point, at its
+// ambient temperature.
+func (s *SolveResult) Point() *Point {
+	return NewPoint(s.OP).At(s.Ambient.Nominal)
 }
 
 // Solve computes the DC operating point; it reports nothing itself. Its
@@ -48,15 +85,16 @@ var Solve = &Analyzer{
 				return &SolveResult{}, nil // shorted-part says so
 			}
 		}
-		op, err := solve.Solve(p.Design, nil)
+		amb := AmbientOf(p.Design, p.Config)
+		op, err := solve.Solve(p.Design.AtTemperature(amb.Nominal), &solve.Options{Temperature: units.Kelvin(amb.Nominal)})
 		var se *solve.Error
 		if errors.As(err, &se) && se.Kind == solve.TooLarge {
 			return &SolveResult{Skipped: err}, nil
 		}
 		if err != nil {
-			return &SolveResult{Err: err, Ran: true}, nil
+			return &SolveResult{Err: err, Ran: true, Ambient: amb}, nil
 		}
-		return &SolveResult{OP: op, Ran: true, NoCondEstimate: !op.CondEstimated}, nil
+		return &SolveResult{OP: op, Ran: true, NoCondEstimate: !op.CondEstimated, Ambient: amb}, nil
 	},
 }
 

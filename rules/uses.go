@@ -22,6 +22,11 @@ type Quantities struct {
 	// Uncertified says that the solver could not certify the accuracy of
 	// these values; every use judged from them says so.
 	Uncertified bool
+	// Ambient is the ambient temperature in °C when HasAmbient is set,
+	// and 25 °C otherwise: it derates resistors' power ratings and sets
+	// junction temperatures (see thermal.go).
+	Ambient    float64
+	HasAmbient bool
 }
 
 // Point reads parts' quantities from a solved operating point, with
@@ -30,6 +35,10 @@ type Quantities struct {
 type Point struct {
 	r      *solve.Result
 	vs, is float64 // the largest voltage and current in the design
+	// ambient (°C) is carried into every part's Quantities when
+	// hasAmbient is set.
+	ambient    float64
+	hasAmbient bool
 }
 
 // NewPoint prepares to read r.
@@ -44,11 +53,18 @@ func NewPoint(r *solve.Result) *Point {
 	return pt
 }
 
+// At sets the ambient temperature (°C) carried into the quantities pt
+// returns, and returns pt.
+func (pt *Point) At(celsius float64) *Point {
+	pt.ambient, pt.hasAmbient = celsius, true
+	return pt
+}
+
 // Part returns part i's quantities. A voltage or current that is rounding
 // noise reads 0 (see Clean); the power is the product of the two.
 func (pt *Point) Part(i circuit.PartID) Quantities {
 	v, c := Clean(pt.r.V[i], pt.vs, FloorV), Clean(pt.r.I[i], pt.is, FloorI)
-	return Quantities{V: v, I: c, P: v * c}
+	return Quantities{V: v, I: c, P: v * c, Ambient: pt.ambient, HasAmbient: pt.hasAmbient}
 }
 
 // Net returns net n's voltage, cleaned as Part cleans a part's.
@@ -86,6 +102,10 @@ type Use struct {
 	Limit float64
 	// Uncertified is copied from the quantities the use was judged on.
 	Uncertified bool
+	// Nameplate is the rating as written when Rating is it derated for
+	// temperature (a resistor's power above its knee), and 0 otherwise;
+	// At is then the ambient temperature in °C.
+	Nameplate, At float64
 }
 
 // overLimit is the use above which a rating counts as exceeded; the
@@ -106,7 +126,10 @@ func (u Use) Derated() bool { return u.Limit > 0 && u.Frac > u.Limit*overLimit &
 // declared with the kind (circuit.Rating): power |P|; current |I|, but a
 // diode's or LED's forward current max(I, 0); voltage |V|, but a diode's
 // or LED's "rated V" is its reverse rating, max(−V, 0). A part with no
-// rating has no use.
+// rating has no use. A resistor's power is judged against its rating
+// derated for the ambient temperature (DeratingFactor); a diode's or
+// LED's junction temperature Ta + θ·|P| against its tjmax, when both theta
+// and tjmax are written (JunctionTemperature).
 func Judge(p *circuit.Part, q Quantities, der Derating) []Use {
 	var out []Use
 	rs := p.Kind.Info().Ratings
@@ -133,8 +156,15 @@ func Judge(p *circuit.Part, q Quantities, der Derating) []Use {
 		default:
 			x = math.Abs(x)
 		}
+		if r.Dim == units.Power && p.Kind == circuit.Resistor {
+			out = append(out, resistorPowerUse(p, q, rating, der.limitOf(r), der))
+			continue
+		}
 		out = append(out, Use{What: r.What, Dim: r.Dim, Value: x, Rating: rating, Frac: x / rating,
 			Limit: der.limitOf(r), Uncertified: q.Uncertified})
+	}
+	if u, ok := junctionUse(p, q); ok {
+		out = append(out, u)
 	}
 	return out
 }
@@ -184,6 +214,16 @@ func faithful(s string, f, limit float64) bool {
 // 250 mW rating", in the wording the kind table gives the rating.
 func Describe(p *circuit.Part, u Use) string {
 	val, rating, frac := units.Format(u.Value, u.Dim), units.Format(u.Rating, u.Dim), FormatUse(u.Frac, u.Limit)
+	uncertified := ""
+	if u.Uncertified {
+		uncertified = " (the solver could not certify the accuracy of this operating point)"
+	}
+	switch {
+	case u.What == "junction temperature":
+		return describeJunction(p, u) + uncertified
+	case u.What == "power" && u.Nameplate > 0:
+		return fmt.Sprintf("%s dissipates %s, %s of its %s rating derated to %s at %s", p.Name, val, frac, units.Format(u.Nameplate, u.Dim), rating, units.FormatCelsius(u.At)) + uncertified
+	}
 	says, of := "", "rating"
 	for _, r := range p.Kind.Info().Ratings {
 		if r.What == u.What && r.Dim == u.Dim {

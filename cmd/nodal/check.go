@@ -91,6 +91,7 @@ type limits struct {
 	maxDepth int
 	maxParts int64
 	fileMiB  int64
+	ambient  ambientFlag
 }
 
 // flags registers --max-depth, --max-parts and --max-file-mib, shared by
@@ -99,6 +100,7 @@ func (l *limits) flags(fl *flag.FlagSet) {
 	fl.IntVar(&l.maxDepth, "max-depth", 0, "refuse designs whose block instances nest deeper than this (default: nodal.toml's limits.depth, else 64)")
 	fl.Int64Var(&l.maxParts, "max-parts", 0, "refuse designs that expand to more parts and instances than this (default: nodal.toml's limits.parts, else 10000000)")
 	fl.Int64Var(&l.fileMiB, "max-file-mib", 0, "refuse any input file, and standard input, larger than this many MiB (default: nodal.toml's limits.file-mib, else 512)")
+	fl.Var(&l.ambient, "ambient", "judge every design at this ambient `temperature` in °C, or over a range (\"0 °C to 50 °C\"), instead of its own")
 }
 
 // valid reports whether the limits given are usable.
@@ -394,7 +396,7 @@ func checkOne(u unit, stdinSrc []byte, loader *configLoader) (out fileResult) {
 	// Includes are read the same way as the file: from disk below the
 	// roots, or from git's index with --staged.
 	lim := u.limits
-	opts := &check.Options{Config: loader.rulesConfig(u.cfg), ReadFile: u.read, Identify: u.identify, MaxDepth: lim.maxDepth, MaxParts: lim.maxParts}
+	opts := &check.Options{Config: withAmbient(loader.rulesConfig(u.cfg), lim.ambient), ReadFile: u.read, Identify: u.identify, MaxDepth: lim.maxDepth, MaxParts: lim.maxParts}
 	res, err := checkSource(u.name, src, opts)
 	out = fileResult{checked: true, sources: map[string][]byte{u.name: src}}
 	if res != nil {

@@ -46,6 +46,11 @@ and "nodal report"; their flags (--max-depth, --max-parts, --max-file-mib)
 win over nodal.toml, and --root replaces the roots. docs/security.md says
 what nodal reads and how to run it on untrusted changes.
 
+  [thermal]               # temperatures in °C
+  ambient = [0, 50]       # for designs with no ambient statement (25)
+  resistor-knee = 70      # resistor power derating: full power up to
+  resistor-zero = 155     # the knee, none at zero (common practice)
+
 An unknown key, a bad value or an unknown rule id is an error naming the
 file, line and key.
 
@@ -135,5 +140,9 @@ func writeConfig(w io.Writer, p string, c *config.Config) {
 	fmt.Fprintf(tw, "depth = %d\t# %s\n", c.Depth, origin("limits.depth"))
 	fmt.Fprintf(tw, "parts = %d\t# %s\n", c.Parts, origin("limits.parts"))
 	fmt.Fprintf(tw, "file-mib = %d\t# %s\n", c.FileMiB, origin("limits.file-mib"))
+	fmt.Fprintf(tw, "\n[thermal]\n")
+	fmt.Fprintf(tw, "ambient = %s\t# %s\n", c.Thermal.FormatAmbient(), origin("thermal.ambient"))
+	fmt.Fprintf(tw, "resistor-knee = %g\t# %s\n", c.Thermal.Knee, origin("thermal.resistor-knee"))
+	fmt.Fprintf(tw, "resistor-zero = %g\t# %s\n", c.Thermal.Zero, origin("thermal.resistor-zero"))
 	tw.Flush()
 }

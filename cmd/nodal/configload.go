@@ -8,6 +8,7 @@ import (
 	"path/filepath"
 	"sync"
 
+	"nodal/circuit"
 	"nodal/config"
 	"nodal/diag"
 	"nodal/input"
@@ -144,6 +145,10 @@ func (l *configLoader) rulesConfig(c *config.Config) *rules.Config {
 	rc := &rules.Config{Severity: c.Severity}
 	for k, f := range c.Derating {
 		rc.Derating.Set(k, f)
+	}
+	rc.Derating.ResistorKnee, rc.Derating.ResistorZero = c.Thermal.Knee, c.Thermal.Zero
+	if c.Thermal.AmbientSet {
+		rc.Ambient = circuit.Ambient{Low: c.Thermal.AmbientLow, High: c.Thermal.AmbientHigh, Set: true}
 	}
 	l.rules[c] = rc
 	return rc

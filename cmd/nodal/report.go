@@ -128,7 +128,7 @@ func cmdReport(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		fmt.Fprintln(stderr, fileError(path, err))
 		return 2
 	}
-	rc := loader.rulesConfig(cfg)
+	rc := withAmbient(loader.rulesConfig(cfg), lim.ambient)
 	res, err := reportSource(name, src, &check.Options{Config: rc, ReadFile: rd.ReadFile, Identify: rd.Resolve, MaxDepth: lim.maxDepth, MaxParts: lim.maxParts})
 	if err != nil {
 		return usageErr(stderr, "%s: internal error: %v (please report it with the file that caused it)", output.TextSafe(name), err)
@@ -148,7 +148,7 @@ func cmdReport(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		return 1
 	}
 
-	t := report.New(name, res.Build.Design, res.Solved.OP, rc.Derating)
+	t := report.NewAt(name, res.Build.Design, res.Solved.OP, rc.Derating, res.Solved.Ambient)
 	if format == "json" {
 		err = t.WriteJSON(stdout)
 	} else {

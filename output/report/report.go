@@ -27,6 +27,7 @@ import (
 	"nodal/circuit"
 	"nodal/rules"
 	"nodal/solve"
+	"nodal/units"
 )
 
 // Net is one net's solved voltage (volts, against the design's ground).
@@ -95,10 +96,12 @@ type Table struct {
 	File   string // as the user named it
 	Design string // the design's name, if it gives one
 	Title  string
-	// Temperature of the junctions in kelvin.
+	// Temperature of the junctions in kelvin: the nominal ambient.
 	Temperature float64
-	Nets        []Net  // in the order the design first uses them
-	Parts       []Part // worst first
+	// Ambient is the ambient temperature range the design is judged over.
+	Ambient rules.Ambient `json:"-"`
+	Nets    []Net         // in the order the design first uses them
+	Parts   []Part        // worst first
 	// Undriven is true when no source in the design has a non-zero value
 	// (its supply comes in through ports, say): every value is then 0.
 	Undriven bool
@@ -107,8 +110,14 @@ type Table struct {
 // New builds the table of design d solved as r. der gives the derating
 // limits the colours of the text form follow.
 func New(file string, d *circuit.Design, r *solve.Result, der rules.Derating) *Table {
-	t := &Table{File: file, Design: d.Name, Title: d.Title, Temperature: solve.RoomTemperature}
-	pt := rules.NewPoint(r)
+	return NewAt(file, d, r, der, rules.AmbientOf(d, nil))
+}
+
+// NewAt is New for a design solved at ambient temperature amb.Nominal and
+// judged over amb.
+func NewAt(file string, d *circuit.Design, r *solve.Result, der rules.Derating, amb rules.Ambient) *Table {
+	t := &Table{File: file, Design: d.Name, Title: d.Title, Temperature: units.Kelvin(amb.Nominal), Ambient: amb}
+	pt := rules.NewPoint(r).At(amb.Nominal)
 	for i := range d.Nets {
 		if d.Nets[i].Pins == 0 {
 			continue // declared but never used: it has no voltage

@@ -60,7 +60,15 @@ func (t *Table) WriteText(w io.Writer, opt TextOptions) error {
 		head += ": " + t.Design
 	}
 	bw.WriteString(head + "\n")
-	bw.WriteString("DC operating point, junctions at " + units.Format(t.Temperature-273.15, units.None) + " °C\n")
+	switch a := t.Ambient; {
+	case a.From == "" || a.From == "the default":
+		bw.WriteString("DC operating point, junctions at " + units.Format(t.Temperature-273.15, units.None) + " °C\n")
+	case a.Range():
+		bw.WriteString("DC operating point at " + units.FormatCelsius(a.Nominal) + " ambient, in a range of " +
+			units.FormatCelsius(a.Low) + " … " + units.FormatCelsius(a.High) + " (from " + a.From + ")\n")
+	default:
+		bw.WriteString("DC operating point at " + units.FormatCelsius(a.Nominal) + " ambient (from " + a.From + ")\n")
+	}
 	if t.Undriven {
 		bw.WriteString("No source in the design drives it (its supply would come in through its\n" +
 			"ports), so every voltage and current is 0.\n")
