@@ -283,7 +283,7 @@ resistor  R2 (h, gnd) 100 Ω
 		{"resistor RX (a, gnd) 1 kΩ ideality 2", "ideality is for: diode, led"},
 		{"inductor LX (a, gnd) 1 mH series 1 Ω", "series is for: diode, led"},
 		{"wire WX (a, gnd) tol 5%", "tol is for: resistor, capacitor, inductor, source"},
-		{"resistor RX (a, gnd) 1 kΩ colour red", "a resistor takes tol and rated"},
+		{"resistor RX (a, gnd) 1 kΩ colour red", "a resistor takes tol, tempco, derate … to and rated"},
 		// A switch takes no attribute but a rating.
 		{"switch SX (a, gnd) open ajar", "a switch takes only rated (its state is open or closed)"},
 	}
