@@ -24,7 +24,7 @@ import (
 	"nodal/units"
 )
 
-const diffUsage = `Usage: nodal diff [flags] [BASE [HEAD]]
+const diffUsage = `Usage: nodal diff [flags] [BASE [HEAD]] [-- PATH ...]
 
 Compares two revisions of the designs in the current git repository, as
 a reviewer of the change needs them compared. For every design that
@@ -40,7 +40,10 @@ the nodal.toml that governs it — it lists:
     moved to another line keeps its findings unchanged.
 
 Designs added and removed are listed too; designs whose files did not
-change are counted and not checked again.
+change are counted and not checked again. PATHs after "--" (files or
+folders, relative to the current folder) limit the comparison to the
+designs they name or hold; the files those designs include are followed
+wherever they are.
 
 BASE is a commit (any name git accepts); by default the merge base of
 HEAD with its upstream branch, or HEAD when there is no upstream. HEAD is
@@ -76,9 +79,30 @@ type diffFlags struct {
 	config    string
 	jobs      int
 	limits    limits
+	scope     []string // repository paths the designs must lie at or below; nil: all
+}
+
+// inScope reports whether a design lies at or below one of the paths.
+func (df *diffFlags) inScope(p string) bool {
+	if len(df.scope) == 0 {
+		return true
+	}
+	for _, s := range df.scope {
+		if s == "." || p == s || strings.HasPrefix(p, s+"/") {
+			return true
+		}
+	}
+	return false
 }
 
 func cmdDiff(args []string, stdout, stderr io.Writer) int {
+	var paths []string
+	for i, a := range args {
+		if a == "--" {
+			args, paths = args[:i], args[i+1:]
+			break
+		}
+	}
 	fl := flag.NewFlagSet("diff", flag.ContinueOnError)
 	fl.SetOutput(stderr)
 	var df diffFlags
@@ -120,10 +144,19 @@ func cmdDiff(args []string, stdout, stderr io.Writer) int {
 		return usageErr(stderr, "--staged compares with the index; it cannot be combined with a HEAD revision")
 	}
 
-	root, _, err := gitRoot(".")
+	root, prefix, err := gitRoot(".")
 	if err != nil {
 		return usageErr(stderr, "diff compares git revisions: %v", err)
 	}
+	var scope []string
+	for _, p := range paths {
+		rp := path.Clean(prefix + filepath.ToSlash(p))
+		if rp == ".." || strings.HasPrefix(rp, "../") || filepath.IsAbs(p) {
+			return usageErr(stderr, "%s: outside the repository", output.TextSafe(p))
+		}
+		scope = append(scope, rp)
+	}
+	df.scope = scope
 	cat, err := openCatFile(root)
 	if err != nil {
 		return usageErr(stderr, "%v", err)
@@ -311,14 +344,29 @@ func compareTrees(base, head *gitTree, df diffFlags, th review.Thresholds, stder
 	}
 	var all []string
 	for p := range inBase {
-		all = append(all, p)
+		if df.inScope(p) {
+			all = append(all, p)
+		}
 	}
 	for p := range inHead {
-		if !inBase[p] {
+		if !inBase[p] && df.inScope(p) {
 			all = append(all, p)
 		}
 	}
 	sort.Strings(all)
+	for _, sc := range df.scope {
+		found := false
+		for _, p := range all {
+			if sc == "." || p == sc || strings.HasPrefix(p, sc+"/") {
+				found = true
+				break
+			}
+		}
+		if !found {
+			fmt.Fprintf(stderr, "nodal: %s: no .nodal file there in either revision\n", output.TextSafe(sc))
+			return nil, 2
+		}
+	}
 
 	type job struct {
 		path       string
@@ -339,6 +387,7 @@ func compareTrees(base, head *gitTree, df diffFlags, th review.Thresholds, stder
 		design   review.Design
 		skipped  bool
 		problems []string
+		notes    []string
 	}
 	results := make([]result, len(jobs))
 	var wg sync.WaitGroup
@@ -361,8 +410,14 @@ func compareTrees(base, head *gitTree, df diffFlags, th review.Thresholds, stder
 					}
 					side, skipped, err := checkInTree(t, l, j.path, df.limits)
 					switch {
+					case err != nil && k == 0:
+						// BASE is history: what cannot be checked there is
+						// said on the design, and HEAD is compared with
+						// nothing.
+						sides[k] = &review.Side{Error: output.TextSafe(err.Error())}
+						r.notes = append(r.notes, fmt.Sprintf("nodal: %s in %s: note: not checked: %s", output.TextSafe(j.path), output.TextSafe(t.label), output.TextSafe(err.Error())))
 					case err != nil:
-						r.problems = append(r.problems, fmt.Sprintf("nodal: %s in %s: %v", output.TextSafe(j.path), t.label, err))
+						r.problems = append(r.problems, fmt.Sprintf("nodal: %s in %s: %s", output.TextSafe(j.path), output.TextSafe(t.label), output.TextSafe(err.Error())))
 					case skipped:
 						r.skipped = true
 					default:
@@ -383,6 +438,9 @@ func compareTrees(base, head *gitTree, df diffFlags, th review.Thresholds, stder
 
 	status := 0
 	for _, r := range results {
+		for _, n := range r.notes {
+			fmt.Fprintln(stderr, n)
+		}
 		for _, p := range r.problems {
 			fmt.Fprintln(stderr, p)
 			status = 2
@@ -465,7 +523,10 @@ func noOperatingPoint(res *check.Result) string {
 	if e, w := count(res.Diags); e+w > 0 {
 		return "not solved: the wiring rules reject it"
 	}
-	return "no operating point (no parts to solve)"
+	if res.Build == nil || res.Build.Design == nil || !res.Build.Design.HasParts() {
+		return "" // no parts, as in a library of blocks: nothing to rate
+	}
+	return "no operating point"
 }
 
 // configErrorText is printConfigError as a string.

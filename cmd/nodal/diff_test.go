@@ -233,3 +233,23 @@ func TestDiffUsage(t *testing.T) {
 		t.Errorf("outside a repository: exit %d, want 2", code)
 	}
 }
+
+// A nodal.toml that BASE cannot read is said on the design, and HEAD is
+// compared with nothing; one that HEAD cannot read is trouble (exit 2).
+func TestDiffBrokenConfig(t *testing.T) {
+	dir := gitRepo(t)
+	write(t, filepath.Join(dir, "nodal.toml"), "[rules]\nno-such-rule = \"error\"\n")
+	write(t, filepath.Join(dir, "psu.nodal"), psuBefore)
+	git(t, dir, "add", ".")
+	git(t, dir, "commit", "-qm", "broken settings")
+	write(t, filepath.Join(dir, "nodal.toml"), "[rules]\nfloating-net = \"error\"\n")
+	doc, code, errs := diffJSON(t, dir)
+	if code != 0 || len(doc.Designs) != 1 || !strings.Contains(errs, "not checked") {
+		t.Errorf("broken BASE settings: exit %d, %+v\n%s", code, doc.Designs, errs)
+	}
+	git(t, dir, "commit", "-qam", "fixed settings")
+	write(t, filepath.Join(dir, "nodal.toml"), "[rules]\nfloating-net = \"loud\"\n")
+	if code, _, errs := runNodal(t, dir, "", "diff"); code != 2 || !strings.Contains(errs, "nodal.toml") {
+		t.Errorf("broken HEAD settings: exit %d, %s", code, errs)
+	}
+}

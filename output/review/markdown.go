@@ -10,8 +10,14 @@ import (
 	"nodal/units"
 )
 
-// MaxRows caps each table of the Markdown form; the rest is counted.
+// MaxRows caps each table of the Markdown form; the rest goes in the
+// collapsed section.
 const MaxRows = 20
+
+// MaxDesigns caps the designs shown in full in the Markdown form, so that
+// a change to a much-used library still fits in one comment; the rest are
+// listed one line each in a collapsed section.
+const MaxDesigns = 25
 
 // WriteMarkdown writes the comparison as a pull-request comment: a summary
 // line, then per design a short table of the parts whose use of a rating
@@ -29,6 +35,10 @@ func (c *Comparison) WriteMarkdown(w io.Writer) error {
 	}
 	for i := range c.Designs {
 		d := &c.Designs[i]
+		if i == MaxDesigns {
+			restTable(bw, c.Designs[i:])
+			break
+		}
 		fmt.Fprintf(bw, "\n#### %s (%s)\n\n", code(d.Path), d.Status)
 		if d.Status == Removed {
 			fmt.Fprintf(bw, "The design was removed.\n")
@@ -134,4 +144,19 @@ func findingTable(bw *bufio.Writer, list []FindingChange, was bool) {
 		}
 		bw.WriteByte('\n')
 	}
+}
+
+// restTable lists designs past MaxDesigns, one line each, collapsed.
+func restTable(bw *bufio.Writer, ds []Design) {
+	fmt.Fprintf(bw, "\n<details><summary>%d more designs</summary>\n\n", len(ds))
+	fmt.Fprintf(bw, "| design | status | new | fixed | updated | largest move |\n|---|---|--:|--:|--:|--:|\n")
+	for i := range ds {
+		d := &ds[i]
+		move := ""
+		if len(d.Parts) > 0 {
+			move = code(d.Parts[0].Name) + " " + signedPoints(d.Parts[0].Delta())
+		}
+		fmt.Fprintf(bw, "| %s | %s | %d | %d | %d | %s |\n", code(d.Path), d.Status, d.Count(New), d.Count(Absent), d.Count(Updated), move)
+	}
+	fmt.Fprintf(bw, "\n</details>\n")
 }

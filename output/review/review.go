@@ -100,8 +100,12 @@ type Side struct {
 	Findings []output.Finding // with Design set
 	Table    *report.Table    // the operating point, or nil
 	// NoOP says why Table is nil (the wiring rules reject the design, the
-	// solver gave up, it is too large).
+	// solver gave up, it is too large); "" when the design has no parts
+	// to solve, as a library of blocks has not.
 	NoOP string
+	// Error says why the revision could not be checked at all (its
+	// nodal.toml is broken, say); its findings are then unknown.
+	Error string
 }
 
 // FindingChange is one finding and its state.
@@ -214,25 +218,24 @@ func Compare(path string, base, head *Side, th Thresholds) Design {
 	case head == nil:
 		d.Status, head = Removed, &Side{}
 	}
+	if d.Status == Removed {
+		// A removed design's findings went with it; they are not "fixed".
+		return d
+	}
 	d.Findings = matchFindings(base.Findings, head.Findings)
-	if d.Status != Changed {
-		// Every finding of an added design is new; a removed design's
-		// findings went with it and are not "fixed".
-		if d.Status == Removed {
-			d.Findings = nil
-		}
-		if d.Status == Added && head.Table != nil {
-			d.Parts = compareParts(nil, head.Table, th)
-		}
-		d.HeadNote = head.NoOP
-		return d
+	d.BaseNote, d.HeadNote = base.NoOP, head.NoOP
+	if base.Error != "" {
+		d.BaseNote = "it could not be checked: " + base.Error
 	}
-	if base.Table == nil || head.Table == nil {
-		d.BaseNote, d.HeadNote = base.NoOP, head.NoOP
-		return d
+	switch {
+	case base.Table != nil && head.Table != nil:
+		d.Parts = compareParts(base.Table, head.Table, th)
+		d.Nets = compareNets(base.Table, head.Table, th)
+	case d.BaseNote == "" && d.HeadNote == "" && (base.Table != nil || head.Table != nil):
+		// One side has no parts at all (an added design, a library that
+		// became a design): its parts count from nothing.
+		d.Parts = compareParts(base.Table, head.Table, th)
 	}
-	d.Parts = compareParts(base.Table, head.Table, th)
-	d.Nets = compareNets(base.Table, head.Table, th)
 	return d
 }
 

@@ -19,8 +19,8 @@ func worst(p *report.Part) *Use {
 }
 
 // compareParts lists the parts whose worst use moved by more than the
-// threshold, worst first. base is nil for an added design: every rated
-// part counts from zero.
+// threshold, worst first. A nil table is a design without parts: every
+// rated part of the other counts from zero.
 func compareParts(base, head *report.Table, th Thresholds) []PartChange {
 	before := map[string]*report.Part{}
 	var order []string
@@ -32,6 +32,9 @@ func compareParts(base, head *report.Table, th Thresholds) []PartChange {
 		}
 	}
 	after := map[string]*report.Part{}
+	if head == nil {
+		head = &report.Table{}
+	}
 	for i := range head.Parts {
 		p := &head.Parts[i]
 		after[p.Name] = p

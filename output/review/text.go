@@ -18,7 +18,7 @@ import (
 // give their position in the earlier revision.
 func (c *Comparison) WriteText(w io.Writer) error {
 	bw := bufio.NewWriter(w)
-	fmt.Fprintf(bw, "nodal diff: %s → %s\n", oneLine(c.Base), oneLine(c.Head))
+	fmt.Fprintf(bw, "nodal diff: BASE %s → HEAD %s\n", oneLine(c.Base), oneLine(c.Head))
 	fmt.Fprintf(bw, "%s\n", c.summary())
 	for i := range c.Designs {
 		d := &c.Designs[i]
@@ -41,12 +41,16 @@ func (c *Comparison) WriteText(w io.Writer) error {
 				fmt.Fprintf(bw, "    %s: %s → %s\n", oneLine(n.Name), units.Format(n.Before, units.Voltage), units.Format(n.After, units.Voltage))
 			}
 		}
-		fmt.Fprintf(bw, "  findings: %d new, %d fixed, %d updated, %d unchanged\n", d.Count(New), d.Count(Absent), d.Count(Updated), d.Count(Unchanged))
+		if len(d.Findings) == 0 {
+			fmt.Fprintf(bw, "  findings: none in either revision\n")
+		} else {
+			fmt.Fprintf(bw, "  findings: %d new, %d fixed, %d updated, %d unchanged\n", d.Count(New), d.Count(Absent), d.Count(Updated), d.Count(Unchanged))
+		}
 		for _, fc := range d.Findings {
 			f := &fc.Finding
 			state := string(fc.State)
 			if fc.State == Absent {
-				state = "fixed; the position is in " + oneLine(c.Base)
+				state = "fixed; its position is in BASE"
 			}
 			fmt.Fprintf(bw, "    %s: %s: %s", position(f), f.Severity, oneLine(f.Message))
 			if f.Rule != "" {
