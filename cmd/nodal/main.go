@@ -22,6 +22,7 @@ Usage:
   nodal report [flags] FILE        table of one design's DC operating point
   nodal diff [flags] [BASE [HEAD]] what a change does to the designs
   nodal fmt [-w | --check] [PATH ...]  lay out files in the canonical form
+  nodal lsp                        language server for editors (stdio)
   nodal rules [RULE]               list the rules, or explain one
   nodal config [PATH]              show the settings in effect for a path
   nodal version                    print the version
@@ -76,6 +77,8 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		return cmdReport(args[1:], stdin, stdout, stderr)
 	case "diff":
 		return cmdDiff(args[1:], stdout, stderr)
+	case "lsp":
+		return cmdLSP(args[1:], stdin, stdout, stderr)
 	case "fmt":
 		return cmdFmt(args[1:], stdin, stdout, stderr)
 	case "config":
