@@ -16,16 +16,14 @@ import (
 //go:embed rules/*.md
 var rulePages embed.FS
 
-// DefaultBaseURL is the placeholder address of the published docs folder.
-// The project publishes no site of its own: a team sets the address where
-// its copy of the repository's docs folder can be read (NODAL_DOCS_URL on
-// the command line), so that links in JSON, SARIF and Markdown open.
-const DefaultBaseURL = "https://nodal.example/docs/"
-
-// BaseURL is where the docs folder is published; rule pages are at
-// BaseURL + "rules/<id>.md". Output that links to the docs uses it. Set it
-// with SetBaseURL before any output is written.
-var BaseURL = DefaultBaseURL
+// BaseURL is where the docs folder is published, set by SetBaseURL from
+// NODAL_DOCS_URL; rule pages are at BaseURL + "rules/<id>.md". The
+// project publishes no site of its own, so it is empty unless a team sets
+// the address where its copy of the repository's docs folder can be read:
+// output then carries no link at all rather than one to a placeholder
+// (SARIF carries each rule's page in the log itself either way). Set it
+// before any output is written.
+var BaseURL = ""
 
 // SetBaseURL checks that s is an absolute http(s) address (SARIF requires
 // absolute URIs) and makes it BaseURL, adding a trailing slash if missing.
@@ -41,8 +39,28 @@ func SetBaseURL(s string) error {
 	return nil
 }
 
-// RuleURL returns the address of a rule's page.
-func RuleURL(id string) string { return BaseURL + "rules/" + id + ".md" }
+// RuleURL returns the address of a rule's page, or "" when no address is
+// configured.
+func RuleURL(id string) string {
+	if BaseURL == "" {
+		return ""
+	}
+	return BaseURL + "rules/" + id + ".md"
+}
+
+// Section returns the text of the "## heading" section of a page, without
+// its heading and trimmed, or "".
+func Section(page, heading string) string {
+	start := strings.Index(page, "\n## "+heading+"\n")
+	if start < 0 {
+		return ""
+	}
+	body := page[start+len("\n## "+heading+"\n"):]
+	if end := strings.Index(body, "\n## "); end >= 0 {
+		body = body[:end]
+	}
+	return strings.TrimSpace(body)
+}
 
 // Rule returns the Markdown page of a rule, or false if it has none.
 func Rule(id string) (string, bool) {

@@ -264,6 +264,12 @@ type Location struct {
 
 // Locate resolves dir and finds its repository. A dir that does not exist
 // is located by the nearest folder above it that does.
+//
+// The repository is found on the path as written, not on where its links
+// lead: a link inside a repository to a folder elsewhere (even another
+// repository) leaves the files behind it outside the root. A folder whose
+// .git is reached through a link counts only when no repository lies
+// above the link (a checkout that is itself a link, say ~/proj).
 func Locate(dir string) (Location, error) {
 	abs, err := filepath.Abs(dir)
 	if err != nil {
@@ -284,14 +290,41 @@ func Locate(dir string) (Location, error) {
 			return Location{}, err
 		}
 	}
-	for d := res; ; {
+	top := ""
+	linked := "" // a repository reached through a link
+	sawLink := false
+	for d := abs; ; {
+		info, lerr := os.Lstat(d)
+		isLink := lerr == nil && info.Mode()&fs.ModeSymlink != 0
 		if _, err := os.Lstat(filepath.Join(d, ".git")); err == nil {
-			return Location{Dir: res, Top: d}, nil
+			switch {
+			case sawLink:
+				top = d // a link inside this repository led below it
+			case !isLink:
+				top = d
+			case linked == "":
+				linked = d
+			}
+			if top != "" {
+				break
+			}
+		}
+		if isLink {
+			sawLink = true
 		}
 		up := filepath.Dir(d)
 		if up == d {
-			return Location{Dir: res}, nil
+			top = linked
+			break
 		}
 		d = up
 	}
+	if top == "" {
+		return Location{Dir: res}, nil
+	}
+	t, ok, err := resolve(top)
+	if err != nil || !ok {
+		return Location{Dir: res}, err
+	}
+	return Location{Dir: res, Top: t}, nil
 }

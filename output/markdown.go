@@ -12,7 +12,9 @@ import (
 )
 
 // writeMarkdown writes a pull-request summary: counts by severity and by
-// rule, then the findings, worst first, capped at MaxRows.
+// rule, then the findings, worst first, capped at MaxRows. Every piece of
+// user text (file names, messages with their part and net names) is in a
+// code span (see code), so a hostile name renders as text.
 func writeMarkdown(w io.Writer, r *Report, opt Options) error {
 	bw := bufio.NewWriter(w)
 	e, wn, n := r.Count()
@@ -75,7 +77,7 @@ func writeMarkdown(w io.Writer, r *Report, opt Options) error {
 		if i == limit {
 			break
 		}
-		fmt.Fprintf(bw, "| `%s` | %s | %s | %s |\n", cell(position(f.File, f.Line, f.Column)), f.Severity, ruleLink(f.Rule), cell(f.Message))
+		fmt.Fprintf(bw, "| %s | %s | %s | %s |\n", code(position(f.File, f.Line, f.Column)), f.Severity, ruleLink(f.Rule), code(f.Message))
 	}
 	if len(worst) > limit {
 		fmt.Fprintf(bw, "\nand %d more.\n", len(worst)-limit)
@@ -83,16 +85,40 @@ func writeMarkdown(w io.Writer, r *Report, opt Options) error {
 	return bw.Flush()
 }
 
+// ruleLink is a rule's id, linked to its page where an address is
+// configured (NODAL_DOCS_URL).
 func ruleLink(id string) string {
 	if id == "" {
 		return ""
 	}
-	return "[" + id + "](" + docs.RuleURL(id) + ")"
+	u := docs.RuleURL(id)
+	if u == "" {
+		return code(id)
+	}
+	return "[" + id + "](" + u + ")"
 }
 
-// cell makes text safe inside a table cell.
-func cell(s string) string {
-	s = strings.ReplaceAll(s, "|", "\\|")
-	s = strings.ReplaceAll(s, "`", "'")
-	return strings.ReplaceAll(s, "\n", " ")
+// code puts user text in a code span that is safe in a table cell: inside
+// it Markdown renders no HTML, link, image, mention or emphasis. Control
+// characters are escaped (TextSafe), "|" is escaped for the table, and
+// the fence is one backtick longer than the longest run in the text.
+func code(s string) string {
+	s = strings.ReplaceAll(TextSafe(s), "|", "\\|")
+	if s == "" {
+		return ""
+	}
+	run, longest := 0, 0
+	for i := 0; i < len(s); i++ {
+		if s[i] == '`' {
+			run++
+			longest = max(longest, run)
+		} else {
+			run = 0
+		}
+	}
+	fence := strings.Repeat("`", longest+1)
+	if longest > 0 || s[0] == ' ' || s[len(s)-1] == ' ' {
+		return fence + " " + s + " " + fence
+	}
+	return fence + s + fence
 }

@@ -135,7 +135,7 @@ func TestMarkdownCap(t *testing.T) {
 	}
 	// Worst first: the error row comes before every warning row.
 	s := buf.String()
-	if e, w := strings.Index(s, "| error | [source-loop]"), strings.Index(s, "| warning | ["); e < 0 || w < 0 || e > w {
+	if e, w := strings.Index(s, "| error | `source-loop`"), strings.Index(s, "| warning | `"); e < 0 || w < 0 || e > w {
 		t.Errorf("error row not first:\n%s", s)
 	}
 }

@@ -43,7 +43,7 @@ type sarifTool struct {
 type sarifDriver struct {
 	Name           string      `json:"name"`
 	Version        string      `json:"version,omitempty"`
-	InformationURI string      `json:"informationUri"`
+	InformationURI string      `json:"informationUri,omitempty"`
 	Rules          []sarifRule `json:"rules"`
 }
 
@@ -58,7 +58,7 @@ type sarifRule struct {
 	FullDescription      sarifText   `json:"fullDescription"`
 	DefaultConfiguration sarifConfig `json:"defaultConfiguration"`
 	Help                 sarifText   `json:"help"`
-	HelpURI              string      `json:"helpUri"`
+	HelpURI              string      `json:"helpUri,omitempty"`
 }
 
 type sarifConfig struct {
@@ -127,9 +127,14 @@ func writeSARIF(w io.Writer, r *Report, opt Options) error {
 		if _, body, ok := strings.Cut(a.Doc, "\n"); ok && strings.TrimSpace(body) != "" {
 			full = strings.TrimSpace(strings.ReplaceAll(body, "\n", " "))
 		}
+		// The rule's page travels in the log itself: a reader of the log
+		// needs no address to learn what a rule checks and how to fix it.
 		help := sarifText{Text: full}
 		if page, ok := docs.Rule(a.Name); ok {
-			help.Markdown = page
+			help = sarifText{Text: page, Markdown: page}
+			if what := docs.Section(page, "What it checks"); what != "" {
+				full = strings.Join(strings.Fields(what), " ")
+			}
 		}
 		driver.Rules = append(driver.Rules, sarifRule{
 			ID:                   a.Name,

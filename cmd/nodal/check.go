@@ -422,6 +422,15 @@ func checkOne(u unit, stdinSrc []byte, loader *configLoader) (out fileResult) {
 // checkSource is check.Source; tests replace it to reach the recovery path.
 var checkSource = check.Source
 
+func sortedKeys(m map[string]bool) []string {
+	out := make([]string, 0, len(m))
+	for k := range m {
+		out = append(out, k)
+	}
+	sort.Strings(out)
+	return out
+}
+
 func contains(list []string, s string) bool {
 	for _, x := range list {
 		if x == s {
@@ -497,7 +506,9 @@ func collect(paths []string, stderr io.Writer) (out []string, walked map[string]
 		}
 		sort.Strings(found)
 		for _, q := range found {
-			walked[q] = !seen[q] || walked[q]
+			// Behind a named link to a folder, files count as named: a
+			// link that leads outside the root is refused, not skipped.
+			walked[q] = start == p && (!seen[q] || walked[q])
 			add(q)
 		}
 	}
@@ -527,14 +538,31 @@ func reportUnknown(missing []string, what string, stderr io.Writer) bool {
 
 // stagedNames turns the named paths (relative to the current folder) into
 // repository paths of staged .nodal files, or lists every staged one.
+// Unmerged files (a merge stopped on a conflict) are errors: the index
+// holds no one version of them to check.
 func stagedNames(root, prefix string, paths []string, stderr io.Writer) ([]string, int) {
+	unmerged, err := gitUnmerged(root)
+	if err != nil {
+		fmt.Fprintf(stderr, "nodal: --staged: %s\n", output.TextSafe(err.Error()))
+		return nil, 2
+	}
+	conflict := func(rp string) {
+		fmt.Fprintf(stderr, "nodal: %s: unmerged in git's index (a conflict); resolve the merge first, then stage the file\n", output.TextSafe(rp))
+	}
 	if len(paths) == 0 {
 		ps, err := gitStaged(root)
 		if err != nil {
-			fmt.Fprintf(stderr, "nodal: --staged: %v\n", err)
+			fmt.Fprintf(stderr, "nodal: --staged: %s\n", output.TextSafe(err.Error()))
 			return nil, 2
 		}
-		return ps, 0
+		status := 0
+		for _, p := range sortedKeys(unmerged) {
+			if strings.HasSuffix(p, ".nodal") {
+				conflict(p)
+				status = 2
+			}
+		}
+		return ps, status
 	}
 	var named, rps []string
 	seen := map[string]bool{}
@@ -557,14 +585,19 @@ func stagedNames(root, prefix string, paths []string, stderr io.Writer) ([]strin
 		return nil, 2
 	}
 	var out, missing []string
+	status := 0
 	for i, rp := range rps {
+		if unmerged[rp] {
+			conflict(rp)
+			status = 2
+			continue
+		}
 		if in[rp] {
 			out = append(out, rp)
 		} else {
 			missing = append(missing, named[i])
 		}
 	}
-	status := 0
 	if reportUnknown(missing, "not in git's index", stderr) {
 		status = 2
 	}

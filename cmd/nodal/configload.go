@@ -101,7 +101,15 @@ func (l *configLoader) find(dir string) (string, []byte, error) {
 		if err != nil {
 			return "", nil, err
 		}
-		read = r.ReadFile
+		read = func(p string) ([]byte, error) {
+			if _, err := r.Resolve(filepath.Dir(p)); errors.Is(err, input.ErrOutside) {
+				// A folder outside the repository (reached through a
+				// link to a folder) has no nodal.toml for this check;
+				// its files are refused anyway.
+				return nil, fs.ErrNotExist
+			}
+			return r.ReadFile(p)
+		}
 	}
 	p, src, err := config.Find(loc.Dir, loc.Top, read)
 	if p == "" || err != nil || filepath.IsAbs(dir) {

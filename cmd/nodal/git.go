@@ -164,7 +164,9 @@ func (x *index) readFile(name string, maxSize int64) ([]byte, error) {
 		return nil, &fs.PathError{Op: "read staged", Path: name, Err: input.ErrOutside}
 	}
 	if strings.ContainsAny(p, "\n") {
-		return nil, &fs.PathError{Op: "read staged", Path: name, Err: errors.New("a name with a line break cannot be read from git's index")}
+		// The batch protocol is one name a line: such a name is asked
+		// for on its own.
+		return x.readOne(name, p, maxSize)
 	}
 	x.mu.Lock()
 	defer x.mu.Unlock()
@@ -175,9 +177,16 @@ func (x *index) readFile(name string, maxSize int64) ([]byte, error) {
 	if err != nil {
 		return nil, fmt.Errorf("git cat-file: %w", err)
 	}
-	fields := strings.Fields(header)
-	if len(fields) == 2 && fields[1] == "missing" || len(fields) != 3 {
+	// "<object> missing" (or "ambiguous") repeats the name asked for,
+	// which may hold spaces; a found object's line is
+	// "<hash> <type> <size>".
+	h := strings.TrimSuffix(header, "\n")
+	if strings.HasSuffix(h, " missing") || strings.HasSuffix(h, " ambiguous") {
 		return nil, &fs.PathError{Op: "read staged", Path: name, Err: fs.ErrNotExist}
+	}
+	fields := strings.Fields(h)
+	if len(fields) != 3 {
+		return nil, fmt.Errorf("git cat-file: unexpected answer %q", header)
 	}
 	if fields[1] != "blob" {
 		return nil, &fs.PathError{Op: "read staged", Path: name, Err: errors.New("not a file in git's index")}
@@ -198,6 +207,39 @@ func (x *index) readFile(name string, maxSize int64) ([]byte, error) {
 		return nil, fmt.Errorf("git cat-file: %w", err)
 	}
 	return buf[:size], nil
+}
+
+// readOne reads one staged file by its own git call, for a name the batch
+// protocol cannot carry.
+func (x *index) readOne(name, p string, maxSize int64) ([]byte, error) {
+	out, err := gitOutput(x.root, "cat-file", "-s", ":"+p)
+	if err != nil {
+		return nil, &fs.PathError{Op: "read staged", Path: name, Err: fs.ErrNotExist}
+	}
+	size, err := strconv.ParseInt(strings.TrimSpace(string(out)), 10, 64)
+	if err != nil {
+		return nil, fmt.Errorf("git cat-file: bad size %q", out)
+	}
+	if size > maxSize {
+		return nil, &fs.PathError{Op: "read staged", Path: name, Err: &input.TooLargeError{Size: size, Limit: maxSize}}
+	}
+	return gitOutput(x.root, "cat-file", "blob", ":"+p)
+}
+
+// gitUnmerged lists the repository paths with unmerged entries (a merge
+// or rebase stopped on a conflict): they have no staged content to check.
+func gitUnmerged(root string) (map[string]bool, error) {
+	out, err := gitOutput(root, "diff", "--cached", "--name-only", "-z", "--diff-filter=U")
+	if err != nil {
+		return nil, err
+	}
+	u := map[string]bool{}
+	for _, p := range strings.Split(string(out), "\x00") {
+		if p != "" {
+			u[p] = true
+		}
+	}
+	return u, nil
 }
 
 func (x *index) Close() error {

@@ -44,7 +44,8 @@ convention.
 
 Links to rule pages in JSON, SARIF and Markdown output point at
 NODAL_DOCS_URL (an absolute address where the repository's docs/ folder
-can be read, e.g. on your code host); unset, a placeholder address is used.
+can be read, e.g. on your code host); unset, no links are written. A SARIF
+log carries every rule's page in itself either way.
 
 nodal is a design aid, not a sign-off: it does not replace review by a
 qualified person. Mains voltage and battery energy can injure; follow local
@@ -59,7 +60,7 @@ func main() {
 // 0: no findings at error level; 1: findings at error level; 2: usage or
 // I/O trouble.
 func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
-	docs.BaseURL = docs.DefaultBaseURL
+	docs.BaseURL = ""
 	if u := os.Getenv("NODAL_DOCS_URL"); u != "" {
 		if err := docs.SetBaseURL(u); err != nil {
 			fmt.Fprintf(stderr, "nodal: NODAL_DOCS_URL: %v\n", err)

@@ -5,6 +5,7 @@ import (
 	"io"
 	"text/tabwriter"
 
+	"nodal/diag"
 	"nodal/docs"
 	"nodal/rules"
 )
@@ -17,12 +18,20 @@ func cmdRules(args []string, stdout, stderr io.Writer) int {
 	if len(args) > 0 {
 		a := rules.Lookup(args[0])
 		if a == nil {
-			fmt.Fprintf(stderr, "nodal: no rule %q; \"nodal rules\" lists them\n", args[0])
+			if s := diag.Suggest(args[0], rules.Names()); s != "" {
+				fmt.Fprintf(stderr, "nodal: no rule %q; did you mean %s?\n", args[0], s)
+			} else {
+				fmt.Fprintf(stderr, "nodal: no rule %q; \"nodal rules\" lists them\n", args[0])
+			}
 			return 2
 		}
 		if page, ok := docs.Rule(a.Name); ok {
 			fmt.Fprint(stdout, page)
-			fmt.Fprintf(stdout, "\nDefault severity: %s. Online: %s\n", a.Severity, docs.RuleURL(a.Name))
+			fmt.Fprintf(stdout, "\nDefault severity: %s.", a.Severity)
+			if u := docs.RuleURL(a.Name); u != "" {
+				fmt.Fprintf(stdout, " Online: %s", u)
+			}
+			fmt.Fprintln(stdout)
 			return 0
 		}
 		fmt.Fprintf(stdout, "%s (default %s)\n\n%s\n", a.Name, a.Severity, a.Doc)

@@ -9,6 +9,7 @@ import (
 
 	"github.com/fatih/color"
 
+	"nodal/output"
 	"nodal/rules"
 	"nodal/units"
 )
@@ -52,12 +53,15 @@ type TextOptions struct {
 // then every part, worst use of a rating first.
 func (t *Table) WriteText(w io.Writer, opt TextOptions) error {
 	bw := bufio.NewWriter(w)
-	head := t.File
+	// Names and the title come from the design: shown with control
+	// characters escaped, and no line may begin with "::" (see
+	// output.TextSafe).
+	head := output.PathSafe(t.File)
 	switch {
 	case t.Design != "" && t.Title != "":
-		head += ": " + t.Design + ", " + t.Title
+		head += ": " + output.TextSafe(t.Design) + ", " + output.TextSafe(t.Title)
 	case t.Design != "":
-		head += ": " + t.Design
+		head += ": " + output.TextSafe(t.Design)
 	}
 	bw.WriteString(head + "\n")
 	switch a := t.Ambient; {
@@ -78,7 +82,7 @@ func (t *Table) WriteText(w io.Writer, opt TextOptions) error {
 	bw.WriteString("Nets\n")
 	nets := [][]string{{"net", "voltage"}}
 	for _, n := range t.Nets {
-		nets = append(nets, []string{n.Name, units.Format(n.Voltage, units.Voltage)})
+		nets = append(nets, []string{output.LineSafe(n.Name), units.Format(n.Voltage, units.Voltage)})
 	}
 	writeColumns(bw, nets, []bool{false, true}, nil)
 
@@ -99,7 +103,7 @@ func (t *Table) WriteText(w io.Writer, opt TextOptions) error {
 		}
 		lv := p.Level()
 		over = over || lv == Over
-		rows = append(rows, []string{p.Name, p.Kind.String(), units.Format(p.Voltage, units.Voltage),
+		rows = append(rows, []string{output.LineSafe(p.Name), p.Kind.String(), units.Format(p.Voltage, units.Voltage),
 			units.Format(p.Current, units.Current), units.Format(p.Power, units.Power), rating, use, bar})
 		paint = append(paint, painter(lv, opt.Color))
 	}
