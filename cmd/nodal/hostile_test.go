@@ -145,7 +145,7 @@ func fanOut(n int) map[string]string {
 		}
 		files[fmt.Sprintf("f%d.nodal", i)] = s + fmt.Sprintf("block b%d (p, q) {\n  resistor R (p, q) 1 kΩ\n}\n", i)
 	}
-	files["f0.nodal"] += "# nodal: allow unused-block -- library blocks\n"
+	files["f0.nodal"] += "# nodal: accept unused-block because library blocks\n"
 	return files
 }
 
