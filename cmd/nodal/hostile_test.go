@@ -115,7 +115,7 @@ func hostileCases() []hostileCase {
 			"nl\n::warning::x.nodal": "ground gnd\nresistor R1 (q, gnd) 1 kF\n",
 			"esc.nodal":              "include \"\x1b]0;title\x07\x1b[2J.nodal\"\nground gnd\n"},
 			args: []string{"."}, code: 1,
-			want: []string{"./::error file=a.nodal::forged.nodal:3:", `nl\n::warning::x.nodal:2:1: error:`, `\x1b]0;title\x07\x1b[2J.nodal`}},
+			want: []string{"./::error file=a.nodal::forged.nodal:3:", `nl\n::warning::x.nodal:2:22: error:`, `\x1b]0;title\x07\x1b[2J.nodal`}},
 		{name: "forged keys in nodal.toml", files: map[string]string{
 			"nodal.toml": "[rules]\n\"a\\n::error::forged\\u001b[2J\" = \"off\"\n",
 			"a.nodal":    "ground gnd\n"},
@@ -123,7 +123,7 @@ func hostileCases() []hostileCase {
 		{name: "link to a folder named", files: map[string]string{"sub/x.nodal": "ground gnd\nresistor R1 (q, gnd) 1 kF\n"},
 			args: []string{"link"}, code: 1,
 			setup: func(t *testing.T, repo, outside string) { symlink(t, "sub", filepath.Join(repo, "link")) },
-			want:  []string{"link/x.nodal:2:1: error:", "in 1 file"}},
+			want:  []string{"link/x.nodal:2:22: error:", "in 1 file"}},
 		{name: "link to an outside folder named", args: []string{"outlink"}, code: 2,
 			setup: func(t *testing.T, repo, outside string) {
 				os.WriteFile(filepath.Join(outside, "o.nodal"), []byte("ground gnd\n"), 0o644)
@@ -287,11 +287,11 @@ func TestStagedGitStates(t *testing.T) {
 		git(t, dir, "add", ".")
 		t.Chdir(dir)
 		code, out, errOut := runCLI(t, "", "check", "--staged")
-		if code != 1 || !strings.Contains(out, "sp ace/a.nodal:2:1: error:") {
+		if code != 1 || !strings.Contains(out, "sp ace/a.nodal:2:22: error:") {
 			t.Errorf("exit %d, want 1 and the finding\nstdout:\n%s\nstderr:\n%s", code, out, errOut)
 		}
 		code, out, errOut = runCLI(t, "", "check", "--staged", "sp ace/a.nodal")
-		if code != 1 || !strings.Contains(out, "sp ace/a.nodal:2:1: error:") {
+		if code != 1 || !strings.Contains(out, "sp ace/a.nodal:2:22: error:") {
 			t.Errorf("named: exit %d, want 1\nstdout:\n%s\nstderr:\n%s", code, out, errOut)
 		}
 	})
@@ -329,7 +329,7 @@ func TestStagedGitStates(t *testing.T) {
 		git(t, dir, "add", ".")
 		t.Chdir(dir)
 		code, out, errOut := runCLI(t, "", "check", "--staged")
-		if code != 1 || !strings.Contains(out, `two\nlines.nodal:2:1: error:`) {
+		if code != 1 || !strings.Contains(out, `two\nlines.nodal:2:22: error:`) {
 			t.Errorf("exit %d, want 1 and the finding on one line\nstdout:\n%s\nstderr:\n%s", code, out, errOut)
 		}
 		for _, l := range lines(out) {
