@@ -21,6 +21,7 @@ import (
 	"errors"
 	"fmt"
 	"strings"
+	"unicode/utf8"
 	"unsafe"
 
 	"github.com/alecthomas/participle/v2"
@@ -319,7 +320,7 @@ func bracedValue(toks []lexer.Token) *SyntaxError {
 		const how = "a quantity or a lone parameter stands as it is, and an expression is written in parentheses"
 		var msg string
 		switch {
-		case len(inner) == 0:
+		case len(inner) == 0 || !utf8.ValidString(text): // quote only text
 			msg = "braces do not hold values: " + how
 		case standsAlone(inner):
 			msg = "braces do not hold values: write " + text + "; " + how

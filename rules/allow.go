@@ -13,7 +13,10 @@ package rules
 
 import (
 	"sort"
+	"strconv"
 	"strings"
+	"unicode"
+	"unicode/utf8"
 
 	"nodal/circuit"
 	"nodal/config"
@@ -261,4 +264,13 @@ func aloneOnLine(src []byte, offset int) bool {
 	return true
 }
 
-func quote(s string) string { return "\"" + s + "\"" }
+// quote puts a word from a comment in quotes for a message, escaping it
+// when it is not printable UTF-8, so that every message stays text.
+func quote(s string) string {
+	for _, r := range s {
+		if r == utf8.RuneError || !unicode.IsPrint(r) {
+			return strconv.Quote(s)
+		}
+	}
+	return "\"" + s + "\""
+}
