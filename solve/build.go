@@ -135,6 +135,7 @@ func build(d *circuit.Design, vt float64, mna bool) (*model, error) {
 	}
 	m.sys = newSystem(m.n, 2*len(d.Parts))
 	m.x = make([]float64, m.n)
+	m.xlo = make([]float64, m.n)
 	m.dx = make([]float64, m.n)
 	return m, nil
 }
@@ -208,8 +209,8 @@ func (m *model) conductance(a int32, oa float64, b int32, ob float64, g float64)
 	s := m.sys
 	s.conductance(a, b, g)
 	if dv := m.lambda * (oa - ob); dv != 0 {
-		s.inject(a, -g*dv)
-		s.inject(b, g*dv)
+		s.injectProd(a, -g, dv)
+		s.injectProd(b, g, dv)
 	}
 }
 

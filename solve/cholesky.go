@@ -27,6 +27,8 @@ func fillBudget(nnz int) int {
 
 func (c *cholSolver) kind() LinearSolver { return SparseCholesky }
 
+func (c *cholSolver) direct() (func([]float64), bool) { return c.ch.Solve, true }
+
 func (c *cholSolver) factor(s *system) error {
 	c.m.update(s)
 	if s.n == 0 {

@@ -19,6 +19,8 @@ type denseSolver struct {
 
 func (d *denseSolver) kind() LinearSolver { return DenseLU }
 
+func (d *denseSolver) direct() (func([]float64), bool) { return d.raw, true }
+
 func (d *denseSolver) factor(s *system) error {
 	n := s.n
 	if n == 0 {

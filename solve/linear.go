@@ -83,6 +83,10 @@ type linearSolver interface {
 	// factorised matrix, or returns 0 when the method makes no estimate.
 	cond() float64
 	kind() LinearSolver
+	// direct returns the solve with the current factors, x ← A⁻¹x without
+	// refinement, for a factorising solver; ok is false for an iterative
+	// one.
+	direct() (solve func([]float64), ok bool)
 }
 
 // singularError names the unknown (column) where factorisation broke down.

@@ -19,6 +19,8 @@ type luSolver struct {
 
 func (l *luSolver) kind() LinearSolver { return SparseLU }
 
+func (l *luSolver) direct() (func([]float64), bool) { return l.lu.Solve, true }
+
 func (l *luSolver) factor(s *system) error {
 	l.m.update(s)
 	if s.n == 0 {

@@ -10,14 +10,34 @@ import (
 	"nodal/circuit"
 )
 
-// linearSolve factors the assembled system and solves it into x.
-func (m *model) linearSolve(x []float64) error {
+// linearSolve factors the assembled system and solves it into x + xlo: in
+// double-double with certified accuracy for a factorising solver
+// (refineDD), in float64 (xlo zero) for an iterative one.
+func (m *model) linearSolve(x, xlo []float64) error {
 	if err := m.lin.factor(m.sys); err != nil {
-		return err
-	}
-	copy(x, m.sys.rhs)
-	if err := m.lin.solve(x); err != nil {
-		return err
+		// A float64 factorisation can lose a pivot to rounding alone (a
+		// teraohm beside a milliohm); a small system gets a second try
+		// in double-double.
+		var se *singularError
+		if !errors.As(err, &se) || m.n > ddDenseMax {
+			return err
+		}
+		f, ok := factorDD(m.sys)
+		if !ok {
+			return err
+		}
+		m.ddFactor = f
+		m.refineDD(nil, f, x, xlo)
+	} else if raw, ok := m.lin.direct(); ok && m.n > 0 {
+		m.ddFactor = nil
+		m.refineDD(raw, nil, x, xlo)
+	} else {
+		copy(x, m.sys.rhs)
+		clear(xlo)
+		m.uncertified = nil
+		if err := m.lin.solve(x); err != nil {
+			return err
+		}
 	}
 	for _, v := range x {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
@@ -33,6 +53,7 @@ var errNotFinite = errors.New("solution not finite")
 // points. It reports whether it converged; a singular system is an error.
 func (m *model) newton(lambda, gmin float64) (bool, error) {
 	xn := make([]float64, m.n)
+	xnlo := make([]float64, m.n)
 	// Inexact Newton (Dembo, Eisenstat & Steihaug, "Inexact Newton
 	// methods", SIAM J. Numer. Anal. 19(2), 1982): while the iterates are
 	// still moving far, an iterative linear solver stops at a loose
@@ -45,7 +66,7 @@ func (m *model) newton(lambda, gmin float64) (bool, error) {
 		if pcg != nil {
 			pcg.loose = loose
 		}
-		if err := m.linearSolve(xn); err != nil {
+		if err := m.linearSolve(xn, xnlo); err != nil {
 			if err == errNotFinite {
 				return false, nil
 			}
@@ -97,6 +118,7 @@ func (m *model) newton(lambda, gmin float64) (bool, error) {
 		}
 		loose = pcg != nil && (anyLimited || step > looseStep*xinf)
 		copy(m.x, xn)
+		copy(m.xlo, xnlo)
 		if len(m.junc) == 0 || done {
 			return true, nil
 		}
@@ -106,6 +128,7 @@ func (m *model) newton(lambda, gmin float64) (bool, error) {
 
 func (m *model) reset() {
 	clear(m.x)
+	clear(m.xlo)
 	for k := range m.junc {
 		m.junc[k].vj = 0
 	}
@@ -116,7 +139,7 @@ func (m *model) reset() {
 func (m *model) run() (string, error) {
 	if len(m.junc) == 0 {
 		m.assemble(1, 0)
-		if err := m.linearSolve(m.x); err != nil {
+		if err := m.linearSolve(m.x, m.xlo); err != nil {
 			return "", m.singular(err)
 		}
 		m.iters = 1
@@ -166,6 +189,7 @@ func (m *model) run() (string, error) {
 			continue
 		}
 		copy(m.x, saveX)
+		clear(m.xlo)
 		for k := range m.junc {
 			m.junc[k].vj = saveV[k]
 		}

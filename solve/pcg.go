@@ -90,6 +90,15 @@ func (p *pcgSolver) kind() LinearSolver {
 	return PCGAMG
 }
 
+// direct offers the Cholesky fallback's solve once the solver has fallen
+// back to it.
+func (p *pcgSolver) direct() (func([]float64), bool) {
+	if p.fallback != nil {
+		return p.fallback.direct()
+	}
+	return nil, false
+}
+
 func (p *pcgSolver) factor(s *system) error {
 	p.sys = s
 	if p.fallback != nil {

@@ -21,11 +21,18 @@ func (m *model) result() *Result {
 		P: make([]float64, len(d.Parts)), Junction: make([]float64, len(d.Parts)),
 		Unknowns: m.n, Iterations: m.iters, Linear: m.lin.kind(), MNA: m.mna,
 	}
-	r.Cond = m.lin.cond()
+	if m.ddFactor != nil {
+		r.Cond = m.ddFactor.cond(m.sys)
+	} else {
+		r.Cond = m.lin.cond()
+	}
 	r.CondEstimated = r.Cond > 0
 	for i := range m.node {
-		r.NetV[i] = m.netV(m.x, circuit.NetID(i))
+		v := m.netDD(circuit.NetID(i))
+		r.NetV[i] = v.hi + v.lo
 	}
+	r.Uncertified = m.uncertified
+	r.RefineSteps = m.refineSteps
 	for k := range m.junc {
 		j := &m.junc[k]
 		r.I[j.part] = j.iLin
@@ -33,7 +40,10 @@ func (m *model) result() *Result {
 	}
 	for i := range d.Parts {
 		p := &d.Parts[i]
-		v := r.NetV[p.Pins[0]] - r.NetV[p.Pins[1]]
+		// The difference of the double-double net voltages: a microvolt
+		// across a milliohm between nets at kilovolts keeps its digits.
+		vd := m.netDD(p.Pins[0]).sub(m.netDD(p.Pins[1]))
+		v := vd.hi + vd.lo
 		r.V[i] = v
 		switch dc := p.DC(); dc.Model {
 		case circuit.Conductance:
@@ -51,6 +61,15 @@ func (m *model) result() *Result {
 		r.P[i] = r.V[i] * r.I[i]
 	}
 	return r
+}
+
+// netDD returns net i's voltage in double-double from the solution x + xlo.
+func (m *model) netDD(i circuit.NetID) dd {
+	v := dd{m.lambda * m.off[i], 0}
+	if k := m.node[i]; k >= 0 {
+		v = v.add(dd{m.x[k], m.xlo[k]})
+	}
+	return v
 }
 
 // shortCurrents recovers the currents of the merged shorts and eliminated

@@ -83,6 +83,16 @@ type Result struct {
 	// makes none.
 	Cond          float64
 	CondEstimated bool
+	// Uncertified marks, per part, values whose accuracy the solve could
+	// not certify: the refinement of a factorised solve (see refineDD)
+	// did not bring the error of the part's voltage, and of a resistive
+	// part's current, within 1e-10 of the value (or 1e-15 of the largest
+	// in the design). Nil when every part is certified, and on the
+	// iterative path, whose acceptance test bounds the error by 1e-11 of
+	// the largest voltage instead (pcgSolver.settled).
+	Uncertified []bool
+	// RefineSteps counts the refinement steps of all linear solves.
+	RefineSteps int
 
 	// Self-checks: the largest KCL residual at any net and the largest part
 	// current; the sum of the absorbed powers and the sum of their
@@ -137,7 +147,18 @@ type model struct {
 	lin    linearSolver
 	lambda float64
 	x, dx  []float64
-	iters  int
+	// xlo holds what x, the solution of the last linear solve, lacks of
+	// its double-double value (see refineDD).
+	xlo   []float64
+	iters int
+	// uncertified marks the parts whose values the last linear solve
+	// could not certify (nil when it certified all); refineSteps counts
+	// refinement steps in all.
+	uncertified []bool
+	refineSteps int
+	// ddFactor is the double-double factorisation of the last system
+	// when its float64 one failed, nil otherwise.
+	ddFactor *ddLU
 }
 
 // errSourceLoop says that a voltage source closes a loop of sources and

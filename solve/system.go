@@ -9,12 +9,18 @@ package solve
 // symbolic analysis. Diagonal stamps are summed as they come and stored as
 // the last n entries (one per unknown), which keeps the list — and the
 // work of compressing and refilling it — near half of one entry per stamp.
+//
+// The diagonal and the right side are also summed in double-double
+// (diagLo, rhsLo hold what the float64 sums rounded away), so that the
+// refinement's residual sees the system as stamped: a teraohm's
+// conductance added to a milliohm's survives there though the float64
+// diagonal loses it.
 type system struct {
-	n        int
-	row, col []int32
-	val      []float64
-	rhs      []float64
-	diag     []float64
+	n            int
+	row, col     []int32
+	val          []float64
+	rhs, rhsLo   []float64
+	diag, diagLo []float64
 
 	recording bool
 	k         int // next stamp when refilling
@@ -25,7 +31,8 @@ type system struct {
 // regrow the lists.
 func newSystem(n, stamps int) *system {
 	c := stamps + n
-	return &system{n: n, rhs: make([]float64, n), diag: make([]float64, n), recording: true,
+	return &system{n: n, rhs: make([]float64, n), diag: make([]float64, n),
+		rhsLo: make([]float64, n), diagLo: make([]float64, n), recording: true,
 		row: make([]int32, 0, c), col: make([]int32, 0, c), val: make([]float64, 0, c)}
 }
 
@@ -34,6 +41,8 @@ func (s *system) begin() {
 	s.k = 0
 	clear(s.rhs)
 	clear(s.diag)
+	clear(s.rhsLo)
+	clear(s.diagLo)
 }
 
 // end finishes an assembly, appending or refilling the diagonal.
@@ -56,7 +65,9 @@ func (s *system) add(i, j int32, v float64) {
 		return
 	}
 	if i == j {
-		s.diag[i] += v
+		var e float64
+		s.diag[i], e = twoSum(s.diag[i], v)
+		s.diagLo[i] += e
 		return
 	}
 	if s.recording {
@@ -80,6 +91,36 @@ func (s *system) conductance(a, b int32, g float64) {
 // inject adds current i flowing into unknown a from outside.
 func (s *system) inject(a int32, i float64) {
 	if a >= 0 {
-		s.rhs[a] += i
+		var e float64
+		s.rhs[a], e = twoSum(s.rhs[a], i)
+		s.rhsLo[a] += e
+	}
+}
+
+// injectProd adds the current g·v into unknown a, the product kept
+// exactly (twoProd).
+func (s *system) injectProd(a int32, g, v float64) {
+	if a >= 0 {
+		p, e := twoProd(g, v)
+		s.inject(a, p)
+		s.rhsLo[a] += e
+	}
+}
+
+// residual sets r to b − A·(x + xlo), evaluated in double-double from the
+// stamps as recorded and rounded to float64 at the end.
+func (s *system) residual(r, x, xlo []float64) {
+	acc := make([]dd, s.n)
+	for i := range acc {
+		acc[i] = dd{s.rhs[i], s.rhsLo[i]}
+	}
+	off := len(s.val) - s.n
+	for k, v := range s.val[:off] {
+		i, j := s.row[k], s.col[k]
+		acc[i] = acc[i].sub(dd{x[j], xlo[j]}.mulF(v))
+	}
+	for i := range acc {
+		acc[i] = acc[i].sub(dd{x[i], xlo[i]}.mul(dd{s.diag[i], s.diagLo[i]}))
+		r[i] = acc[i].hi + acc[i].lo
 	}
 }
