@@ -102,6 +102,11 @@ func worktreeDependents(names, paths []string, stderr io.Writer) []string {
 	if err != nil {
 		return names
 	}
+	// git names the root by its real path; the current folder may be
+	// reached through a link, and paths must compare alike.
+	if real, err := filepath.EvalSymlinks(cwd); err == nil {
+		cwd = real
+	}
 	out, err := gitOutput(root, "ls-files", "-z", "--full-name", "--cached", "--others", "--exclude-standard", "--", "*.nodal")
 	if err != nil {
 		return names

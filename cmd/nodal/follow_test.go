@@ -212,3 +212,21 @@ func hookDefinition(t *testing.T) (entry, files string) {
 	}
 	return entry, files
 }
+
+// A current folder reached through a link still finds the includers: git
+// names the repository by its real path.
+func TestNamedLibraryThroughLinkedFolder(t *testing.T) {
+	dir := libRepo(t)
+	write(t, filepath.Join(dir, "lib", "loads.nodal"), libRenamed)
+	link := filepath.Join(t.TempDir(), "link")
+	if err := os.Symlink(dir, link); err != nil {
+		t.Skip("cannot make a symbolic link here:", err)
+	}
+	// os.Getwd answers with $PWD when it names the current folder, as a
+	// shell that followed the link would set it.
+	t.Setenv("PWD", filepath.Join(link, "lib"))
+	code, out, errs := runNodal(t, filepath.Join(link, "lib"), "", "check", "loads.nodal")
+	if code != 1 || !strings.Contains(out, "../boards/direct.nodal:4:1: error: ") {
+		t.Errorf("exit %d\n%s%s", code, out, errs)
+	}
+}
