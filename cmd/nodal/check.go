@@ -219,7 +219,7 @@ func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		}
 		defer idx.Close()
 		names, status = stagedNames(root, prefix, paths, stderr)
-		if names, err = stagedDependents(root, prefix, names, paths, idx.ReadFile, stderr); err != nil {
+		if names, err = stagedDependents(root, prefix, names, paths, stderr); err != nil {
 			return usageErr(stderr, "--staged: %v", err)
 		}
 	} else {

@@ -162,7 +162,7 @@ func worktreeDependents(names, paths []string, stderr io.Writer) []string {
 // staged designs that depend on them, on the other named paths, or — when
 // no path is named — on every staged change, deletions and nodal.toml
 // files among them.
-func stagedDependents(root, prefix string, names, paths []string, read reader, stderr io.Writer) ([]string, error) {
+func stagedDependents(root, prefix string, names, paths []string, stderr io.Writer) ([]string, error) {
 	out, err := gitOutput(root, "ls-files", "-z", "--full-name", "--", "*.nodal")
 	if err != nil {
 		return names, err
@@ -206,7 +206,11 @@ func stagedDependents(root, prefix string, names, paths []string, read reader, s
 	for i, n := range names {
 		local[i] = filepath.FromSlash(n)
 	}
-	deps := dependents(ch, local, all, func(f string) ([]byte, error) { return read(filepath.ToSlash(f)) })
+	lines, err := stagedIncludeLines(root)
+	if err != nil {
+		return names, err
+	}
+	deps := dependents(ch, local, all, func(f string) ([]byte, error) { return lines[filepath.ToSlash(f)], nil })
 	for i := range deps {
 		deps[i] = filepath.ToSlash(deps[i])
 	}

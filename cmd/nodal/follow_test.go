@@ -230,3 +230,19 @@ func TestNamedLibraryThroughLinkedFolder(t *testing.T) {
 		t.Errorf("exit %d\n%s%s", code, out, errs)
 	}
 }
+
+// git grep's -z records name a file before a NUL, so a name may hold a
+// space or a newline.
+func TestParseGrepZ(t *testing.T) {
+	out := "a b.nodal\x00include \"x.nodal\"\nodd\nname.nodal\x00  include \"y.nodal\"\na b.nodal\x00# include nothing\n"
+	got, err := parseGrepZ([]byte(out))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(got) != 2 || string(got["a b.nodal"]) != "include \"x.nodal\"\n# include nothing\n" || string(got["odd\nname.nodal"]) != "  include \"y.nodal\"\n" {
+		t.Errorf("parsed %q", got)
+	}
+	if _, err := parseGrepZ([]byte("no separator")); err == nil {
+		t.Error("output without a NUL was accepted")
+	}
+}
