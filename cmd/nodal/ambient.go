@@ -24,6 +24,9 @@ func (f *ambientFlag) String() string {
 }
 
 // Set reads "40", "40 °C", "-20 degC to 50 °C" or "-20,50".
+// Type names the value in usage text.
+func (f *ambientFlag) Type() string { return "temperature" }
+
 func (f *ambientFlag) Set(s string) error {
 	parts := strings.Split(s, " to ")
 	if len(parts) == 1 {

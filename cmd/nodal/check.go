@@ -2,8 +2,8 @@ package main
 
 import (
 	"errors"
-	"flag"
 	"fmt"
+	flag "github.com/spf13/pflag"
 	"io"
 	"io/fs"
 	"os"
@@ -30,6 +30,17 @@ and its subfolders (default: the current folder; folders whose names start
 with "." are skipped). "-" reads a design from standard input, named
 <stdin> in the output. Files are checked independently, on every core, and one broken file
 does not stop the others.
+
+Flags may come before or after the paths; after "--" every argument is a
+path. A named file that a skip glob of nodal.toml matches is not checked,
+and a line on standard error says so; files found by walking a folder are
+skipped by the globs quietly.
+
+Reads stay below the repository's top level (or the named file's folder
+outside a repository); --root replaces that with the folders given, and
+nodal.toml's roots add library folders. A link that leads outside is
+refused when named and skipped with a note when found by a walk. Only
+regular files are read, each up to --max-file-mib (docs/security.md).
 
 Named files that do not end in .nodal are skipped quietly, so the file list
 a pre-commit hook passes can be handed over as it is. A named path that
@@ -126,6 +137,7 @@ type rootList []string
 
 func (r *rootList) String() string     { return strings.Join(*r, ",") }
 func (r *rootList) Set(v string) error { *r = append(*r, v); return nil }
+func (r *rootList) Type() string       { return "folder" }
 
 // parseFlags parses args and handles --help (usage to stdout, status 0)
 // and bad flags (usage to stderr, status 2). done reports that the command

@@ -2,8 +2,8 @@ package main
 
 import (
 	"errors"
-	"flag"
 	"fmt"
+	flag "github.com/spf13/pflag"
 	"io"
 	"os"
 	"path/filepath"
@@ -61,15 +61,8 @@ func cmdConfig(args []string, stdout, stderr io.Writer) int {
 	fl := flag.NewFlagSet("config", flag.ContinueOnError)
 	fl.SetOutput(stderr)
 	forced := fl.String("config", "", "use this nodal.toml `file` instead of searching")
-	fl.Usage = func() { fmt.Fprint(stderr, configUsage); fl.PrintDefaults() }
-	if err := fl.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			fmt.Fprint(stdout, configUsage)
-			fl.SetOutput(stdout)
-			fl.PrintDefaults()
-			return 0
-		}
-		return 2
+	if status, done := parseFlags(fl, args, configUsage, stdout, stderr); done {
+		return status
 	}
 	if fl.NArg() > 1 {
 		fmt.Fprintln(stderr, "nodal: config takes at most one path")
@@ -82,8 +75,11 @@ func cmdConfig(args []string, stdout, stderr io.Writer) int {
 	where := p
 	if info, err := os.Stat(p); err == nil && info.IsDir() {
 		where = filepath.Join(p, "x.nodal") // a file in that folder
-	} else if err != nil && !errors.Is(err, os.ErrNotExist) {
-		fmt.Fprintf(stderr, "nodal: %v\n", err)
+	} else if errors.Is(err, os.ErrNotExist) {
+		fmt.Fprintf(stderr, "nodal: %s: no such file or folder\n", output.TextSafe(p))
+		return 2
+	} else if err != nil {
+		fmt.Fprintln(stderr, fileError(p, err))
 		return 2
 	}
 	loader := newConfigLoader(nil, *forced)

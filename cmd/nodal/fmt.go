@@ -3,8 +3,8 @@ package main
 import (
 	"bytes"
 	"errors"
-	"flag"
 	"fmt"
+	flag "github.com/spf13/pflag"
 	"io"
 	"os"
 	"path/filepath"
@@ -40,7 +40,7 @@ const maxFormatBytes = 256 << 20
 func cmdFmt(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	fl := flag.NewFlagSet("fmt", flag.ContinueOnError)
 	fl.SetOutput(stderr)
-	write := fl.Bool("w", false, "rewrite the files that change, in place")
+	write := fl.BoolP("w", "w", false, "rewrite the files that change, in place")
 	checkOnly := fl.Bool("check", false, "print a diff and exit 1 when a file is not formatted")
 	if status, done := parseFlags(fl, args, fmtUsage, stdout, stderr); done {
 		return status
