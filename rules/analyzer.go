@@ -206,7 +206,12 @@ func lastPass(fset *diag.FileSet, b *circuit.Result, diags diag.List, ran map[*A
 		if a == nil {
 			a = Lookup(d.Rule)
 		}
-		if a != nil {
+		switch {
+		case a == nil && d.Severity == diag.Off:
+			// A finding no analyzer owns is a slip in nodal itself;
+			// it is shown as an error rather than lost.
+			d.Severity = diag.Error
+		case a != nil:
 			if d.Severity == diag.Off {
 				d.Severity = a.Severity
 			}
