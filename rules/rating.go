@@ -126,11 +126,13 @@ see from cathode to anode.`)
 var NearRating = &Analyzer{
 	Name:     "near-rating",
 	Severity: diag.Warning,
-	Requires: []*Analyzer{Solve},
+	Requires: []*Analyzer{Solve, WorstCase},
 	Doc: `a part is within its rating but past the usual derating limit
 Defaults (common practice, set in nodal.toml under [derating]): resistor
 power 60 %, capacitor voltage 80 %, diode and LED current 80 %, inductor
-current 80 %, fuse current 75 %, supply current 90 %.`,
+current 80 %, fuse current 75 %, supply current 90 %. A part within the
+limit at nominal but past it at the worst corner of its tolerances and
+ambient temperature gets the warning too, naming the corner.`,
 	Run: func(p *Pass) (any, error) {
 		r := op(p)
 		if r == nil {
@@ -139,9 +141,18 @@ current 80 %, fuse current 75 %, supply current 90 %.`,
 		d, pt := p.Design, solved(p).Point()
 		for i := range d.Parts {
 			q := &d.Parts[i]
-			for _, u := range Judge(q, pt.Part(circuit.PartID(i)), p.Config.Derating) {
+			nominal := Judge(q, pt.Part(circuit.PartID(i)), p.Config.Derating)
+			for _, u := range nominal {
 				if u.Derated() {
 					p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: q.Name, Message: Describe(q, u) + ", past the " + units.FormatPercent(u.Limit) + " derating limit"})
+				}
+			}
+			// The worst case too: within the limit at nominal, past it (but
+			// within the rating) at the worst corner.
+			_, worstUse, cases := worstUses(p, i)
+			for k, u := range worstUse {
+				if u.Derated() && !nominal[k].Derated() && !nominal[k].Over() {
+					p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: q.Name, Message: Describe(q, u) + ", past the " + units.FormatPercent(u.Limit) + " derating limit," + cornerText(p, cases[k])})
 				}
 			}
 		}

@@ -1,0 +1,185 @@
+package worst
+
+import (
+	"math"
+	"testing"
+
+	"pgregory.net/rapid"
+
+	"nodal/circuit"
+	"nodal/solve"
+)
+
+// design builds a design from parts; nets are named as given, "gnd" is the
+// ground.
+type builder struct{ d *circuit.Design }
+
+func newBuilder() *builder {
+	d := circuit.NewDesign("t")
+	d.Ground = d.Net("gnd", 0, 0)
+	return &builder{d}
+}
+
+func (b *builder) add(k circuit.Kind, name, a, c string, v, tol float64) circuit.PartID {
+	return b.d.AddPart(circuit.Part{Kind: k, Name: name, Pins: [2]circuit.NetID{b.d.Net(a, 0, 0), b.d.Net(c, 0, 0)}, Value: v, Tol: tol, Inst: -1})
+}
+
+func analyze(t *testing.T, d *circuit.Design, amb Ambient, j Judge, opt Options) *Result {
+	t.Helper()
+	r, err := solve.Solve(d.AtTemperature(amb.Nominal), &solve.Options{Temperature: 273.15 + amb.Nominal})
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := Analyze(d, r, amb, j, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return res
+}
+
+var room = Ambient{25, 25, 25}
+
+// TestDividerRange checks a divider's output range against its closed
+// form (algebra, re-computed in the reference sheet): V·Rb/(Rt + Rb) rises
+// with V and Rb and falls with Rt, so 12 V ±2 %, Rt = 10 kΩ ±1 %,
+// Rb = 4.7 kΩ ±1 % give 3.70903 … 3.96691 V.
+func TestDividerRange(t *testing.T) {
+	b := newBuilder()
+	b.add(circuit.VoltageSource, "V1", "in", "gnd", 12, 0.02)
+	b.add(circuit.Resistor, "RT", "in", "out", 10e3, 0.01)
+	b.add(circuit.Resistor, "RB", "out", "gnd", 4.7e3, 0.01)
+	out := b.d.LookupNet("out")
+	lo := 12 * 0.98 * 4.7e3 * 0.99 / (10e3*1.01 + 4.7e3*0.99)
+	hi := 12 * 1.02 * 4.7e3 * 1.01 / (10e3*0.99 + 4.7e3*1.01)
+	if math.Abs(lo-3.70903) > 0.5e-5 || math.Abs(hi-3.96691) > 0.5e-5 {
+		t.Fatalf("closed form %.5f … %.5f", lo, hi)
+	}
+	none := func(circuit.PartID, float64, float64, float64, float64) []float64 { return nil }
+	// Every corner: exact.
+	res := analyze(t, b.d, room, none, Options{})
+	if !res.Corners || math.Abs(res.NetLow[out]-lo) > 1e-9 || math.Abs(res.NetHigh[out]-hi) > 1e-9 {
+		t.Errorf("corners: %.9f … %.9f V, want %.9f … %.9f V", res.NetLow[out], res.NetHigh[out], lo, hi)
+	}
+	// First order: the second-order terms of 1 % and 2 % tolerances are
+	// below 0.05 % of the output.
+	res = analyze(t, b.d, room, none, Options{MaxCorners: -1})
+	if res.Corners || math.Abs(res.NetLow[out]-lo) > 5e-4*lo || math.Abs(res.NetHigh[out]-hi) > 5e-4*hi {
+		t.Errorf("first order: %.6f … %.6f V, want about %.6f … %.6f V", res.NetLow[out], res.NetHigh[out], lo, hi)
+	}
+}
+
+// powerJudge judges every resistor's power against 1 W.
+func powerJudge(d *circuit.Design) Judge {
+	return func(i circuit.PartID, v, c, p, t float64) []float64 {
+		if d.Parts[i].Kind != circuit.Resistor {
+			return nil
+		}
+		return []float64{math.Abs(p)}
+	}
+}
+
+// TestInteriorMaximum checks the maximum power transfer theorem (any
+// circuit-theory text): a load RL fed from (Vs, Rs) absorbs Vs²·RL/(Rs +
+// RL)², most at RL = Rs. With 10 V, Rs = 50 Ω ±1 %, RL = 50 Ω ±20 % every
+// corner gives less than the maximum 0.505051 W, reached at Rs = RL =
+// 49.5 Ω (reference sheet).
+func TestInteriorMaximum(t *testing.T) {
+	b := newBuilder()
+	b.add(circuit.VoltageSource, "VS", "in", "gnd", 10, 0)
+	b.add(circuit.Resistor, "RS", "in", "out", 50, 0.01)
+	rl := b.add(circuit.Resistor, "RL", "out", "gnd", 50, 0.20)
+	want := 100 / (4 * 49.5)
+	for _, opt := range []Options{{}, {MaxCorners: -1}} {
+		res := analyze(t, b.d, room, powerJudge(b.d), opt)
+		w := res.Worst[rl][0]
+		if !w.Confirmed || math.Abs(w.Frac-want) > 1e-6*want {
+			t.Errorf("corners %v: RL's worst power %.6f W, want %.6f W", res.Corners, w.Frac, want)
+		}
+		if rlAt := 50 * (1 + w.At.S[1]*0.2); math.Abs(rlAt-49.5) > 0.05 {
+			t.Errorf("found at RL = %.3f Ω, want 49.5 Ω", rlAt)
+		}
+	}
+	// Every corner alone stays below the maximum: the search is needed.
+	best := 0.0
+	for _, s := range [][2]float64{{-1, -1}, {-1, 1}, {1, -1}, {1, 1}} {
+		rs, rl := 50*(1+0.01*s[0]), 50*(1+0.2*s[1])
+		best = math.Max(best, 100*rl/((rs+rl)*(rs+rl)))
+	}
+	if !(best < want*(1-1e-3)) {
+		t.Errorf("corners reach %.6f W, the maximum is %.6f W", best, want)
+	}
+}
+
+// TestSensitivityMatchesCorners is a property test: on random small
+// resistive designs with toleranced sources and resistors, the worst
+// voltage and current of every part found from sensitivities (confirmed
+// at the chosen corner) is never above the largest over every corner,
+// which is where the maximum of a quantity monotone in each parameter lies
+// (each is a ratio of affine functions of any one resistor, or linear in
+// any one source, by Cramer's rule), and falls short of it by no more than
+// the second-order terms the first-order choice of corner cannot see (a
+// bridge balanced at nominal): (Σ tol)² of it. A wrong end for any
+// parameter would cost a first-order 2·tol·|∂q/∂p|.
+func TestSensitivityMatchesCorners(t *testing.T) {
+	rapid.Check(t, func(rt *rapid.T) {
+		b := newBuilder()
+		nets := rapid.IntRange(2, 5).Draw(rt, "nets")
+		name := func(i int) string {
+			if i == 0 {
+				return "gnd"
+			}
+			return string(rune('a' + i))
+		}
+		tol := func(label string) float64 {
+			return float64(rapid.IntRange(0, 10).Draw(rt, label)) / 100
+		}
+		b.add(circuit.VoltageSource, "V1", name(1), "gnd", rapid.Float64Range(1, 24).Draw(rt, "v"), tol("vtol"))
+		// A resistor chain keeps every net connected to ground.
+		for i := 1; i < nets; i++ {
+			b.add(circuit.Resistor, "RC"+name(i), name(i), name(i+1-boolInt(i+1 >= nets)*(i+1)), rapid.Float64Range(10, 1e4).Draw(rt, "r"), tol("rtol"))
+		}
+		extra := rapid.IntRange(0, 4).Draw(rt, "extra")
+		for e := 0; e < extra; e++ {
+			x, y := rapid.IntRange(0, nets-1).Draw(rt, "x"), rapid.IntRange(0, nets-1).Draw(rt, "y")
+			if x == y {
+				continue
+			}
+			b.add(circuit.Resistor, "RX"+string(rune('0'+e)), name(x), name(y), rapid.Float64Range(10, 1e4).Draw(rt, "r"), tol("rtol"))
+		}
+		if rapid.Bool().Draw(rt, "isrc") {
+			b.add(circuit.CurrentSource, "I1", name(rapid.IntRange(2, nets).Draw(rt, "from")%nets), "gnd", rapid.Float64Range(1e-4, 1e-2).Draw(rt, "i"), tol("itol"))
+		}
+		d := b.d
+		sum := 0.0
+		for i := range d.Parts {
+			sum += d.Parts[i].Tol
+		}
+		judge := func(i circuit.PartID, v, c, p, t float64) []float64 { return []float64{math.Abs(v), math.Abs(c)} }
+		sens := analyze(t, d, room, judge, Options{MaxCorners: -1, ConfirmAbove: -1})
+		all := analyze(t, d, room, judge, Options{})
+		if sens == nil || all == nil {
+			if sens != all {
+				rt.Fatalf("with no tolerance: %v and %v", sens, all)
+			}
+			return
+		}
+		if !all.Corners {
+			rt.Skip("too many parameters for every corner")
+		}
+		for i := range d.Parts {
+			for m := range all.Worst[i] {
+				s, e := sens.Worst[i][m].Frac, all.Worst[i][m].Frac
+				if !sens.Worst[i][m].Confirmed || s < e*(1-sum*sum)-1e-15 || s > e*(1+1e-9)+1e-15 {
+					rt.Fatalf("%s quantity %d: sensitivities %.12g (confirmed %v), every corner %.12g", d.Parts[i].Name, m, s, sens.Worst[i][m].Confirmed, e)
+				}
+			}
+		}
+	})
+}
+
+func boolInt(b bool) int {
+	if b {
+		return 1
+	}
+	return 0
+}
