@@ -3,57 +3,15 @@ package output
 import (
 	"bytes"
 	"encoding/json"
-	"os"
-	"os/exec"
-	"path/filepath"
-	"strings"
 	"testing"
 
-	// The module carries the OASIS SARIF 2.1.0 JSON schema that
-	// TestSARIFSchema validates against; importing it keeps it in go.mod.
-	_ "github.com/owenrumney/go-sarif/v3/pkg/report/v210/sarif"
 	"github.com/santhosh-tekuri/jsonschema/v6"
+
+	"nodal/internal/sarifschema"
 )
 
-// sarifSchema reads the official SARIF 2.1.0 schema (OASIS, errata 01)
-// from the go-sarif module's copy in the module cache.
-func officialSchema(t *testing.T) any {
-	t.Helper()
-	out, err := exec.Command("go", "list", "-m", "-f", "{{.Dir}}", "github.com/owenrumney/go-sarif/v3").Output()
-	if err != nil {
-		t.Fatalf("locating go-sarif: %v", err)
-	}
-	src, err := os.ReadFile(filepath.Join(strings.TrimSpace(string(out)), "pkg", "report", "v210", "sarif", "schema.go"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	s := string(src)
-	start := strings.Index(s, "`")
-	end := strings.LastIndex(s, "`")
-	if start < 0 || end <= start {
-		t.Fatal("schema.go holds no raw string")
-	}
-	doc, err := jsonschema.UnmarshalJSON(strings.NewReader(s[start+1 : end]))
-	if err != nil {
-		t.Fatal(err)
-	}
-	if m, ok := doc.(map[string]any); !ok || !strings.Contains(m["title"].(string), "SARIF") || !strings.Contains(m["id"].(string), "sarif-schema-2.1.0") {
-		t.Fatalf("not the SARIF 2.1.0 schema")
-	}
-	return doc
-}
-
 func TestSARIFSchema(t *testing.T) {
-	c := jsonschema.NewCompiler()
-	c.AssertFormat()
-	const url = "https://docs.oasis-open.org/sarif/sarif/v2.1.0/errata01/os/schemas/sarif-schema-2.1.0.json"
-	if err := c.AddResource(url, officialSchema(t)); err != nil {
-		t.Fatal(err)
-	}
-	sch, err := c.Compile(url)
-	if err != nil {
-		t.Fatal(err)
-	}
+	sch := sarifschema.Compile(t)
 	for _, name := range []string{"findings", "empty", "outside-root"} {
 		r, opt := report(t), goldenOpts
 		switch name {
