@@ -122,3 +122,10 @@ func code(s string) string {
 	}
 	return fence + s + fence
 }
+
+// MarkdownCode is code for the other Markdown writers (the comparison of
+// nodal diff), so that all of nodal's Markdown escapes user text alike.
+func MarkdownCode(s string) string { return code(s) }
+
+// MarkdownRule is ruleLink for the other Markdown writers.
+func MarkdownRule(id string) string { return ruleLink(id) }

@@ -5,13 +5,9 @@ package review
 // output keeps one finding on one line with control characters escaped
 // (output.LineSafe, output.PathSafe); Markdown puts every piece of user
 // text in a code span, where no HTML, link, image, emphasis or @mention
-// is recognised.
+// is recognised (output.MarkdownCode).
 
-import (
-	"strings"
-
-	"nodal/output"
-)
+import "nodal/output"
 
 // oneLine is output.LineSafe: s on one line, control characters escaped.
 func oneLine(s string) string { return output.LineSafe(s) }
@@ -19,15 +15,6 @@ func oneLine(s string) string { return output.LineSafe(s) }
 // pathSafe is output.PathSafe, for a file name at the start of a line.
 func pathSafe(name string) string { return output.PathSafe(name) }
 
-// code returns s as a Markdown code span fit for a table cell: on one
-// line, without backticks (shown as '), with pipes escaped for the table.
-// Inside a code span nothing else is markup.
-func code(s string) string {
-	s = output.TextSafe(s)
-	s = strings.ReplaceAll(s, "`", "'")
-	s = strings.ReplaceAll(s, "|", `\|`)
-	if s == "" {
-		return ""
-	}
-	return "`" + s + "`"
-}
+// code returns s as a Markdown code span fit for a table cell, as the
+// rest of nodal's Markdown writes user text (output.MarkdownCode).
+func code(s string) string { return output.MarkdownCode(s) }

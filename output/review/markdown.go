@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 
+	"nodal/output"
 	"nodal/units"
 )
 
@@ -134,7 +135,7 @@ func findingTable(bw *bufio.Writer, list []FindingChange, was bool) {
 	bw.WriteString(head)
 	for _, fc := range list {
 		f := &fc.Finding
-		fmt.Fprintf(bw, "| %s | %s | %s | %s |", code(position(f)), f.Severity, code(f.Rule), code(f.Message))
+		fmt.Fprintf(bw, "| %s | %s | %s | %s |", code(position(f)), f.Severity, output.MarkdownRule(f.Rule), code(f.Message))
 		if was {
 			before := ""
 			if fc.Before != nil {
