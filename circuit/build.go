@@ -681,15 +681,17 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo, needs bool) b
 			} else {
 				p.Tol = q.Value
 			}
-		case "dcr", "series":
-			if q.Dim != units.Resistance || q.Percent {
-				bad(um, "%s %s must be a resistance in Ω", key, b.describe(a.Values[0]))
-			} else if q.Value < 0 {
+		case "dcr", "series", "capacity":
+			spec := quantityAttrs[key]
+			switch {
+			case q.Dim != spec.Dim || q.Percent:
+				bad(um, "%s %s must be a %s in %s", key, b.describe(a.Values[0]), spec.Dim.Noun(), spec.Dim.Symbol())
+			case spec.Zero && q.Value < 0:
 				bad(CodeBadValue, "%s %s must not be negative", key, units.Format(q.Value, q.Dim))
-			} else if key == "dcr" {
-				p.DCR = q.Value
-			} else {
-				p.Series = q.Value
+			case !spec.Zero && q.Value <= 0:
+				bad(CodeBadValue, "%s %s must be positive", key, units.Format(q.Value, q.Dim))
+			default:
+				*spec.Field(p) = q.Value
 			}
 		case "ideality":
 			if q.Dim != units.None || q.Percent {

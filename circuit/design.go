@@ -77,6 +77,8 @@ type Part struct {
 	// tjmax); nil when none is written.
 	Heat *Thermal
 
+	Capacity float64 // batteries: the charge they hold when full (C; 1 Ah = 3600 C)
+
 	Pos    diag.Pos // start of the statement
 	End    diag.Pos // end of the statement
 	PinPos [2]diag.Pos

@@ -27,6 +27,7 @@ const (
 	Fuse
 	Switch
 	Wire
+	Battery
 	numKinds
 )
 
@@ -87,6 +88,9 @@ type Rating struct {
 	// FromValue says the part's value is this rating (a fuse's current);
 	// "rated" does not take it.
 	FromValue bool
+	// Rule is the rule that reports a use past the rating; "" takes
+	// the usual one for the unit (see RuleName).
+	Rule string
 	// Says is how a finding states the use, a format for the value
 	// ("carries %s"), and Of what the rating is called ("compliance
 	// voltage"); empty for the wording of What.
@@ -98,13 +102,30 @@ type Rating struct {
 	Default  float64
 }
 
+// RuleName returns the rule that reports a use of r past the rating:
+// over-power, over-current, reverse-voltage for a Reverse voltage, and
+// over-voltage, unless the table names another.
+func (r *Rating) RuleName() string {
+	switch {
+	case r.Rule != "":
+		return r.Rule
+	case r.Dim == units.Power:
+		return "over-power"
+	case r.Dim == units.Current:
+		return "over-current"
+	case r.Measure == Reverse:
+		return "reverse-voltage"
+	}
+	return "over-voltage"
+}
+
 // Model is how a part stamps into the DC equations.
 type Model uint8
 
 const (
 	Open        Model = iota // carries no current at DC
 	Short                    // an ideal short: its pins are one node
-	Conductance              // a linear resistance, DC.R
+	Conductance              // a linear resistance DC.R, in series with an EMF DC.E
 	VoltageDrop              // a fixed voltage, the part's value, from first pin to second
 	CurrentFlow              // a fixed current, the part's value, from first pin to second
 	Junction                 // a Shockley junction (vf at, ideality) behind DC.R
@@ -116,6 +137,10 @@ type DC struct {
 	// R is the resistance of a Conductance, or the series resistance of
 	// a Junction (0 for none).
 	R float64
+	// E is the EMF in series with a Conductance, first pin positive: the
+	// part carries (V − E)/R from its first pin to its second. 0 for a
+	// plain resistance.
+	E float64
 }
 
 // Branch says how a part's branch counts for the topology rules.
@@ -140,6 +165,23 @@ func (dc DC) Branch() Branch {
 		return OpenAtDC
 	}
 	return Resistive
+}
+
+// quantityAttr is an attribute that takes one quantity into a field of
+// Part.
+type quantityAttr struct {
+	Dim  units.Dim
+	Zero bool // 0 is allowed
+	// Field is where the value goes.
+	Field func(p *Part) *float64
+}
+
+// quantityAttrs declares the attributes that take one quantity; the kinds
+// that take each list it in Attrs.
+var quantityAttrs = map[string]quantityAttr{
+	"dcr":      {Dim: units.Resistance, Zero: true, Field: func(p *Part) *float64 { return &p.DCR }},
+	"series":   {Dim: units.Resistance, Zero: true, Field: func(p *Part) *float64 { return &p.Series }},
+	"capacity": {Dim: units.Charge, Field: func(p *Part) *float64 { return &p.Capacity }},
 }
 
 // The common rating declarations.
@@ -235,6 +277,22 @@ var kinds = [numKinds]KindInfo{
 		NoValue: "no value; a wire is a zero-ohm link (use a resistor for a resistance)",
 		Ratings: []Rating{ratedCurrent},
 		DC:      func(*Part) DC { return DC{Model: Short} }},
+	Battery: {Word: "battery", Pins: []string{"pos", "neg"},
+		Roles: []string{"the positive terminal", "the negative terminal"}, Value: units.Voltage,
+		ValueHint: ": its open-circuit voltage in V",
+		Attrs:     []string{"tol", "series", "capacity"},
+		// Its rated current is the discharge current: what flows out of
+		// pos, against the first-pin-to-second convention.
+		Ratings: []Rating{derated(Rating{Dim: units.Current, What: "discharge current", Measure: Reverse,
+			Says: "delivers %s", Of: "discharge rating"}, "supply-current", 0.90)},
+		// Its internal resistance is written as series; without one it is
+		// an ideal voltage.
+		DC: func(p *Part) DC {
+			if p.Series > 0 {
+				return DC{Model: Conductance, R: p.Series, E: p.Value}
+			}
+			return DC{Model: VoltageDrop}
+		}},
 }
 
 // Kinds lists every built-in kind, in a fixed order.

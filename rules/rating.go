@@ -67,10 +67,10 @@ func (d Derating) limitOf(r *circuit.Rating) float64 {
 	return r.Default
 }
 
-// ratingRule makes a rule that reports every use of a rating named what
-// (Use.What) past the rating, on any kind: a rating the language accepts
-// is always judged.
-func ratingRule(name, what, doc string) *Analyzer {
+// ratingRule makes a rule that reports every use of a rating past the
+// rating that the kind table gives to it (Use.Rule), on any kind: a rating
+// the language accepts is always judged.
+func ratingRule(name, doc string) *Analyzer {
 	return &Analyzer{
 		Name:     name,
 		Severity: diag.Error,
@@ -85,7 +85,7 @@ func ratingRule(name, what, doc string) *Analyzer {
 			for i := range d.Parts {
 				q := &d.Parts[i]
 				for _, u := range Judge(q, pt.Part(circuit.PartID(i)), p.Config.Derating) {
-					if u.What == what && u.Over() {
+					if u.Rule == name && u.Over() {
 						p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: q.Name, Message: Describe(q, u)})
 					}
 				}
@@ -96,20 +96,21 @@ func ratingRule(name, what, doc string) *Analyzer {
 }
 
 // OverPower reports parts dissipating more than their rated power.
-var OverPower = ratingRule("over-power", "power", `a part dissipates more than its rated power
+var OverPower = ratingRule("over-power", `a part dissipates more than its rated power
 Every part with a power rating (resistors, diodes, LEDs) is compared with
 the power it absorbs at the DC operating point. A part past its power
 rating overheats: it can char its board, burn, or fail open or short.`)
 
 // OverCurrent reports parts carrying more than their rated current.
-var OverCurrent = ratingRule("over-current", "current", `a part carries more than its rated current
+var OverCurrent = ratingRule("over-current", `a part carries more than its rated current
 Every part with a current rating: LEDs and diodes (forward current),
 inductors, fuses (their value is their rated current), wires and switches,
-and voltage sources asked for more than their rated current. Past its
+voltage sources asked for more than their rated current, and batteries
+discharged past theirs. Past its
 current rating a part overheats; a fuse may open.`)
 
 // OverVoltage reports parts with more than their rated voltage across them.
-var OverVoltage = ratingRule("over-voltage", "voltage", `a part has more than its rated voltage across it
+var OverVoltage = ratingRule("over-voltage", `a part has more than its rated voltage across it
 Every part with a voltage rating: capacitors, resistors, fuses, switches
 (open or closed), and current sources beyond their compliance voltage
 (rated V on a current source). A diode's or LED's rated voltage is its
@@ -117,7 +118,7 @@ reverse rating, judged by reverse-voltage.`)
 
 // ReverseVoltage reports diodes and LEDs reverse-biased beyond their
 // rated voltage.
-var ReverseVoltage = ratingRule("reverse-voltage", "reverse voltage", `a diode or LED is reverse-biased beyond its rated voltage
+var ReverseVoltage = ratingRule("reverse-voltage", `a diode or LED is reverse-biased beyond its rated voltage
 The rated voltage of a diode or LED is its reverse rating: the most it may
 see from cathode to anode.`)
 

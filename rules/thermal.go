@@ -74,7 +74,7 @@ func resistorPowerUse(p *circuit.Part, q Quantities, rated, limit float64, der D
 	knee, zero := kneeOf(p, der)
 	f := DeratingFactor(knee, zero, ta)
 	pw := math.Abs(q.P)
-	u := Use{What: "power", Dim: units.Power, Value: pw, Rating: rated * f, Limit: limit, Uncertified: q.Uncertified}
+	u := Use{What: "power", Rule: "over-power", Dim: units.Power, Value: pw, Rating: rated * f, Limit: limit, Uncertified: q.Uncertified}
 	if f < 1 {
 		u.Nameplate, u.At = rated, ta
 	}
@@ -99,7 +99,7 @@ func junctionUse(p *circuit.Part, q Quantities) (Use, bool) {
 	}
 	ta := ambientOf(q)
 	tj := JunctionTemperature(ta, h.Theta, math.Abs(q.P))
-	u := Use{What: "junction temperature", Dim: units.Temperature, Value: tj, Rating: h.TjMax, At: ta, Uncertified: q.Uncertified}
+	u := Use{What: "junction temperature", Rule: "over-temperature", Dim: units.Temperature, Value: tj, Rating: h.TjMax, At: ta, Uncertified: q.Uncertified}
 	switch room := h.TjMax - ta; {
 	case room > 0:
 		u.Frac = (tj - ta) / room
@@ -125,7 +125,7 @@ func describeJunction(p *circuit.Part, u Use) string {
 
 // OverTemperature reports diodes and LEDs whose junction passes its
 // maximum temperature.
-var OverTemperature = ratingRule("over-temperature", "junction temperature", `a junction runs hotter than its maximum temperature
+var OverTemperature = ratingRule("over-temperature", `a junction runs hotter than its maximum temperature
 A diode or LED with both theta (its thermal resistance from junction to
 ambient, K/W) and tjmax gets a junction temperature Tj = Ta + θ·P from the
 power it dissipates at the DC operating point and the ambient temperature;

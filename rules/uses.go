@@ -92,7 +92,8 @@ func Clean(v, scale, floor float64) float64 {
 
 // Use is how much of one rating a part uses at an operating point.
 type Use struct {
-	What   string    // "power", "current", "voltage" or "reverse voltage"
+	What   string    // "power", "current", "voltage", "reverse voltage", "discharge current"
+	Rule   string    // the rule that reports it past the rating
 	Dim    units.Dim // of Value and Rating
 	Value  float64   // the magnitude the rating limits
 	Rating float64
@@ -160,7 +161,7 @@ func Judge(p *circuit.Part, q Quantities, der Derating) []Use {
 			out = append(out, resistorPowerUse(p, q, rating, der.limitOf(r), der))
 			continue
 		}
-		out = append(out, Use{What: r.What, Dim: r.Dim, Value: x, Rating: rating, Frac: x / rating,
+		out = append(out, Use{What: r.What, Rule: r.RuleName(), Dim: r.Dim, Value: x, Rating: rating, Frac: x / rating,
 			Limit: der.limitOf(r), Uncertified: q.Uncertified})
 	}
 	if u, ok := junctionUse(p, q); ok {

@@ -159,7 +159,15 @@ func (m *model) assemble(lambda, gmin float64) {
 		p := &d.Parts[i]
 		switch dc := p.DC(); dc.Model {
 		case circuit.Conductance:
-			m.netConductance(p.Pins[0], p.Pins[1], 1/dc.R)
+			g := 1 / dc.R
+			m.netConductance(p.Pins[0], p.Pins[1], g)
+			if dc.E != 0 {
+				// An EMF behind the resistance: the part carries g·(V − E),
+				// a conductance and a current of −g·E from its first pin to
+				// its second (Norton's theorem).
+				s.inject(m.node[p.Pins[0]], lambda*g*dc.E)
+				s.inject(m.node[p.Pins[1]], -lambda*g*dc.E)
+			}
 		case circuit.VoltageDrop:
 			if k := m.branch[i]; k >= 0 {
 				a, b := m.node[p.Pins[0]], m.node[p.Pins[1]]

@@ -47,7 +47,7 @@ func (m *model) result() *Result {
 		r.V[i] = v
 		switch dc := p.DC(); dc.Model {
 		case circuit.Conductance:
-			r.I[i] = v / dc.R
+			r.I[i] = (v - dc.E) / dc.R
 		case circuit.VoltageDrop:
 			if k := m.branch[i]; k >= 0 {
 				r.I[i] = m.x[k]

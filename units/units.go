@@ -14,8 +14,8 @@
 //
 // Parse reads the text of a quantity as it appears in a design: a decimal
 // number, an optional SI prefix (p n u µ μ m k M G T) and a unit symbol (Ω,
-// Ω, ohm, F, H, V, A, W, %), with or without a space between number and
-// suffix. It also reads the resistor letter-and-digit code of IEC 60062
+// Ω, ohm, F, H, V, A, W, Ah (the ampere-hour, held as 3600 C), %), with
+// or without a space between number and suffix. It also reads the resistor letter-and-digit code of IEC 60062
 // (4k7 = 4.7 kΩ, 2R2 = 2.2 Ω, 1M0 = 1 MΩ). Errors carry a hint for the usual
 // slips: "meg" for mega, a missing unit, a prefix with no unit.
 //
@@ -52,6 +52,7 @@ var (
 	ThermalResistance = Dim{K: 1, V: -1, A: -1}
 	// TempCoefficient is a relative change per kelvin (ppm/K).
 	TempCoefficient = Dim{K: -1}
+	Charge          = Dim{A: 1, S: 1}
 )
 
 // Mul returns the dimension of a product.
@@ -77,6 +78,7 @@ var named = []struct {
 	{Temperature, "°C", "temperature"},
 	{ThermalResistance, "K/W", "thermal resistance"},
 	{TempCoefficient, "ppm/K", "temperature coefficient"},
+	{Charge, "C", "charge"},
 }
 
 // Symbol returns the unit symbol of d (Ω, V, A ...) or a product of powers
@@ -159,6 +161,18 @@ var prefixes = map[string]float64{
 var symbols = map[string]Dim{
 	"\u03a9": Resistance, "\u2126": Resistance, "ohm": Resistance,
 	"F": Capacitance, "H": Inductance, "V": Voltage, "A": Current, "W": Power,
+	"Ah": Charge,
+}
+
+// scales holds the units that are not SI base units: an ampere-hour is
+// 3600 C. A quantity in one is held in the base unit.
+var scales = map[string]float64{"Ah": 3600}
+
+func unitScale(sym string) float64 {
+	if f, ok := scales[sym]; ok {
+		return f
+	}
+	return 1
 }
 
 // Error is a quantity that cannot be read, with a hint for the fix.
@@ -194,12 +208,12 @@ func splitUnit(s string) (scale float64, d Dim, ok bool) {
 		return u.scale, u.d, true
 	}
 	if d, ok := symbols[s]; ok {
-		return 1, d, true
+		return unitScale(s), d, true
 	}
 	for p, f := range prefixes {
 		if strings.HasPrefix(s, p) {
 			if d, ok := symbols[s[len(p):]]; ok {
-				return f, d, true
+				return f * unitScale(s[len(p):]), d, true
 			}
 		}
 	}
@@ -238,13 +252,13 @@ func Parse(num, unit string) (Quantity, error) {
 			return Quantity{}, badSuffix(num + " " + unit)
 		}
 		s, d, ok := splitUnit(unit)
-		if !ok || s != 1 || unit == "%" {
+		if !ok || s != unitScale(unit) || unit == "%" {
 			return Quantity{}, badSuffix(num + " " + unit)
 		}
 		if _, thermal := thermalUnits[unit]; thermal {
 			return Quantity{}, &Error{Text: num + " " + unit, Msg: fmt.Sprintf("%s %s: %s takes no prefix", num, unit, unit), Hint: "write the number in full, e.g. " + digits + " " + unit}
 		}
-		scale, dim = f, d
+		scale, dim = f*s, d
 	} else if rest != "" {
 		s, d, ok := splitUnit(rest)
 		if !ok {
@@ -294,7 +308,7 @@ func badSuffix(text string) *Error {
 	if strings.Contains(lower, "meg") {
 		return &Error{Text: text, Msg: fmt.Sprintf("%q: \"meg\" is not a prefix", text), Hint: "write M for mega (1 MΩ) and m for milli (1 mA)"}
 	}
-	return &Error{Text: text, Msg: fmt.Sprintf("%q is not a unit", text), Hint: "units are Ω (or ohm), F, H, V, A, W and %, with an optional prefix p n u µ m k M G T, and °C (or degC), K/W and ppm/K"}
+	return &Error{Text: text, Msg: fmt.Sprintf("%q is not a unit", text), Hint: "units are Ω (or ohm), F, H, V, A, W, Ah and %, with an optional prefix p n u µ m k M G T, and °C (or degC), K/W and ppm/K"}
 }
 
 // splitNumber separates the numeric part of s from any letters glued to it.

@@ -201,3 +201,20 @@ func TestDimAlgebra(t *testing.T) {
 		t.Errorf("F noun = %q", n)
 	}
 }
+
+// TestAmpereHour: an ampere-hour is 3600 C (SI Brochure, 9th ed., 2019,
+// table 8: the hour is 3600 s), with prefixes as for any unit.
+func TestAmpereHour(t *testing.T) {
+	for _, c := range []struct {
+		num, unit string
+		want      float64
+	}{{"2.5", "Ah", 9000}, {"2500", "mAh", 9000}, {"2500m", "Ah", 9000}, {"2500mAh", "", 9000}} {
+		q, err := Parse(c.num, c.unit)
+		if err != nil || q.Dim != Charge || math.Abs(q.Value-c.want) > 1e-9*c.want {
+			t.Errorf("Parse(%q, %q) = %v, %v; want %v C", c.num, c.unit, q, err, c.want)
+		}
+	}
+	if _, err := Parse("2.5m", "mAh"); err == nil {
+		t.Error("two prefixes accepted")
+	}
+}

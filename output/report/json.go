@@ -30,6 +30,9 @@ type jsonPart struct {
 	// Limit names the rating the use is of ("power", "current", "voltage"
 	// or "reverse_voltage"); null with use.
 	Limit *string `json:"limit"`
+	// Capacity (C) and Runtime (s) of a battery; see Part.
+	Capacity float64 `json:"capacity,omitempty"`
+	Runtime  float64 `json:"runtime,omitempty"`
 }
 
 // key is a rating's name as a JSON key: "reverse voltage" → "reverse_voltage".
@@ -47,7 +50,7 @@ func (t *Table) WriteJSON(w io.Writer) error {
 	for i := range t.Parts {
 		p := &t.Parts[i]
 		jp := jsonPart{Name: p.Name, Kind: p.Kind.String(), Voltage: round(p.Voltage), Current: round(p.Current),
-			Power: round(p.Power), Ratings: map[string]float64{}}
+			Power: round(p.Power), Ratings: map[string]float64{}, Capacity: round(p.Capacity), Runtime: round(p.Runtime)}
 		for _, r := range p.Ratings {
 			jp.Ratings[key(r.What)] = round(r.Rating)
 		}

@@ -33,6 +33,7 @@ var forms = map[circuit.Kind][]string{
 	circuit.Fuse:          {"fuse X (%s, %s) 500 mA dcr 100 mΩ", "fuse X (%s, %s) 500 mA"},
 	circuit.Switch:        {"switch X (%s, %s) open", "switch X (%s, %s) closed"},
 	circuit.Wire:          {"wire X (%s, %s)"},
+	circuit.Battery:       {"battery X (%s, %s) 4 V series 2 Ω", "battery X (%s, %s) 4 V"},
 }
 
 // ratingRules are the rules that judge a use past its rating.
@@ -40,8 +41,9 @@ var ratingRules = map[string]bool{"over-power": true, "over-current": true, "ove
 
 // measure is what a rating in dimension dim limits on a part of kind k,
 // as docs/language.md defines "rated": a diode's or LED's rated current is
-// its forward current and its rated voltage its reverse voltage; every
-// other rating limits the magnitude.
+// its forward current and its rated voltage its reverse voltage; a
+// battery's rated current is its discharge current, out of its pos pin;
+// every other rating limits the magnitude.
 func measure(k circuit.Kind, dim units.Dim, q rules.Quantities) float64 {
 	junction := k == circuit.Diode || k == circuit.LED
 	switch {
@@ -49,6 +51,8 @@ func measure(k circuit.Kind, dim units.Dim, q rules.Quantities) float64 {
 		return math.Abs(q.P)
 	case dim == units.Current && junction:
 		return math.Max(q.I, 0)
+	case dim == units.Current && k == circuit.Battery:
+		return math.Max(-q.I, 0)
 	case dim == units.Current:
 		return math.Abs(q.I)
 	case dim == units.Voltage && junction:
@@ -154,4 +158,37 @@ func judge(t *testing.T, src string) (bool, report.Level) {
 	}
 	t.Fatal("no part X in the report")
 	return found, 0
+}
+
+// TestBatteryRuntime: a battery's runtime is its capacity over its
+// discharge current (the simple estimate the report states; 1 Ah =
+// 3600 C), and a battery being charged has none.
+func TestBatteryRuntime(t *testing.T) {
+	src := "ground gnd\nbattery B1 (vb, gnd) 12 V series 100 mΩ capacity 2.5 Ah\nresistor RL (vb, gnd) 10 Ω\n" +
+		"source VC (vc, gnd) 14 V\nresistor RC (vc, vd) 1 Ω\nbattery B2 (vd, gnd) 12 V series 1 Ω capacity 1 Ah\n"
+	res, err := check.Source("t.nodal", []byte(src), nil)
+	if err != nil || res.Solved == nil || res.Solved.OP == nil {
+		t.Fatalf("%v %v", err, res.Diags)
+	}
+	tb := report.New("t.nodal", res.Build.Design, res.Solved.OP, rules.DefaultDerating())
+	for _, p := range tb.Parts {
+		switch p.Name {
+		case "B1":
+			want := 2.5 * 3600 / (12 / 10.1)
+			if math.Abs(p.Runtime-want) > 1e-9*want {
+				t.Errorf("B1 runtime %v s, want %v s", p.Runtime, want)
+			}
+		case "B2":
+			if p.Current <= 0 || p.Runtime != 0 {
+				t.Errorf("B2 charging at %v A has runtime %v", p.Current, p.Runtime)
+			}
+		}
+	}
+	var b strings.Builder
+	if err := tb.WriteText(&b, report.TextOptions{}); err != nil {
+		t.Fatal(err)
+	}
+	if out := b.String(); !strings.Contains(out, "about 2.1 h") || !strings.Contains(out, "not discharging") || !strings.Contains(out, "fire") {
+		t.Errorf("battery section:\n%s", out)
+	}
 }

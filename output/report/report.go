@@ -52,6 +52,11 @@ type Part struct {
 	// Worst indexes the rating with the largest use, or is -1 when the
 	// part has no rating.
 	Worst int
+	// Capacity is a battery's capacity in coulombs (0 for none given),
+	// and Runtime how long it lasts at the operating point's discharge
+	// current, in seconds: capacity ÷ current, a simple estimate that
+	// ignores rate, temperature and age. 0 when it is not discharging.
+	Capacity, Runtime float64
 }
 
 // Use returns the largest fraction of any rating, and false when the part
@@ -128,13 +133,16 @@ func NewAt(file string, d *circuit.Design, r *solve.Result, der rules.Derating, 
 	t.Parts = make([]Part, len(d.Parts))
 	for i := range d.Parts {
 		q := &d.Parts[i]
-		if m := q.DC().Model; (m == circuit.VoltageDrop || m == circuit.CurrentFlow) && q.Value != 0 {
+		if dc := q.DC(); (dc.Model == circuit.VoltageDrop || dc.Model == circuit.CurrentFlow) && q.Value != 0 || dc.E != 0 {
 			t.Undriven = false
 		}
 		// The values the rating rules judge, by the same function.
 		qs := pt.Part(circuit.PartID(i))
 		p := Part{Name: q.Name, Kind: q.Kind, Voltage: qs.V, Current: qs.I, Power: qs.P}
 		p.Ratings = rules.Judge(q, qs, der)
+		if p.Capacity = q.Capacity; p.Capacity > 0 && qs.I < 0 {
+			p.Runtime = p.Capacity / -qs.I // its current flows out of its first pin
+		}
 		p.Worst = rules.Worst(p.Ratings)
 		t.Parts[i] = p
 	}

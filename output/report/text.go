@@ -4,6 +4,7 @@ import (
 	"bufio"
 	"io"
 	"math"
+	"strconv"
 	"strings"
 	"unicode/utf8"
 
@@ -109,6 +110,8 @@ func (t *Table) WriteText(w io.Writer, opt TextOptions) error {
 	}
 	writeColumns(bw, rows, []bool{false, false, true, true, true, true, true, false}, paint)
 
+	t.writeBatteries(bw)
+
 	bw.WriteString("\nVoltage is V(first pin) − V(second pin); current flows from the first pin\n" +
 		"to the second through the part; power is positive when absorbed.\n")
 	if over {
@@ -117,6 +120,47 @@ func (t *Table) WriteText(w io.Writer, opt TextOptions) error {
 			"licensed practice for mains and battery energy.\n")
 	}
 	return bw.Flush()
+}
+
+// writeBatteries lists every part with a capacity and how long it lasts at
+// the operating point.
+func (t *Table) writeBatteries(bw *bufio.Writer) {
+	rows := [][]string{{"part", "capacity", "discharge", "runtime"}}
+	for i := range t.Parts {
+		p := &t.Parts[i]
+		if p.Capacity <= 0 {
+			continue
+		}
+		run, out := "— (not discharging)", "0 A"
+		if p.Runtime > 0 {
+			run, out = "about "+Duration(p.Runtime), units.Format(-p.Current, units.Current)
+		}
+		rows = append(rows, []string{p.Name, FormatCapacity(p.Capacity), out, run})
+	}
+	if len(rows) == 1 {
+		return
+	}
+	bw.WriteString("\nBatteries, runtime at this operating point\n")
+	writeColumns(bw, rows, []bool{false, true, true, false}, nil)
+	bw.WriteString("Runtime is capacity ÷ discharge current: a simple estimate that ignores\n" +
+		"the discharge rate, temperature and age, and the cut-off voltage. A battery\n" +
+		"holds enough energy to start a fire: follow its maker's limits, local codes\n" +
+		"and licensed practice for charging, protection and enclosure.\n")
+}
+
+// FormatCapacity prints a charge in ampere-hours: 9000 C → "2.50 Ah".
+func FormatCapacity(c float64) string { return units.Format(c/3600, units.Current) + "h" }
+
+// Duration prints a time in seconds in the unit that reads best: "45 min",
+// "2.1 h", "3.5 days".
+func Duration(s float64) string {
+	switch {
+	case s < 3600:
+		return strconv.FormatFloat(s/60, 'f', 0, 64) + " min"
+	case s < 48*3600:
+		return strconv.FormatFloat(s/3600, 'f', 1, 64) + " h"
+	}
+	return strconv.FormatFloat(s/86400, 'f', 1, 64) + " days"
 }
 
 // painter returns what colours the use column of a row, or nil.

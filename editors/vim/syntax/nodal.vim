@@ -24,16 +24,16 @@ syntax keyword nodalKeyword design ground port include block
 " Built-in part kinds where a statement starts; any other first word
 " followed by a name is a block instance.
 syntax match nodalInstance "^\s*\zs\h\w*\ze\s\+\S\+\s*("
-syntax match nodalKind "^\s*\zs\%(resistor\|capacitor\|inductor\|source\|diode\|led\|fuse\|switch\|wire\)\>"
+syntax match nodalKind "^\s*\zs\%(resistor\|capacitor\|inductor\|source\|diode\|led\|fuse\|switch\|wire\|battery\)\>"
 " Attributes and switch states.
-syntax keyword nodalAttribute tol rated vf at ideality series dcr
+syntax keyword nodalAttribute tol rated vf at ideality series dcr capacity
 syntax keyword nodalState open closed
 
 " Quantities: a number with anything glued to it (4.7kΩ, 4k7, 100nF, 5%),
 " a unit standing alone after it, and resistor codes (R47).
 syntax match nodalNumber "\<\d[0-9.]*\%([eE][+-]\=\d\+\)\=\%(\k\|%\)*"
 syntax match nodalNumber "\%(^\|[^[:alnum:]_]\)\zs\.\d\+\%(\k\|%\)*"
-syntax match nodalUnit "\<[pnuµμmkMGT]\=\%(Ω\|Ω\|ohm\|F\|H\|V\|A\|W\)\>"
+syntax match nodalUnit "\<[pnuµμmkMGT]\=\%(Ω\|Ω\|ohm\|F\|H\|V\|Ah\|A\|W\)\>"
 syntax match nodalUnit "\s\zs%"
 " A code after the pins or parameters; elsewhere R1 is a name.
 syntax match nodalCode "\%(\%()\|]\)\s*\)\@<=R\d\+\>"
