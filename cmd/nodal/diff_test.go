@@ -253,3 +253,24 @@ func TestDiffBrokenConfig(t *testing.T) {
 		t.Errorf("broken HEAD settings: exit %d, %s", code, errs)
 	}
 }
+
+// --ambient judges both revisions at that temperature: R1's 250 mW rating
+// derated linearly from its 70 °C knee to zero at 155 °C (the IEC 60115-1
+// shape with the defaults nodal documents, common practice for
+// thick-film chips) is 250 mW · (155 − 125) / (155 − 70) = 88.2 mW at
+// 125 °C, so 100 mW is 113 % of it.
+func TestDiffAmbient(t *testing.T) {
+	dir := gitRepo(t)
+	write(t, filepath.Join(dir, "psu.nodal"), psuBefore)
+	git(t, dir, "add", ".")
+	git(t, dir, "commit", "-qm", "psu")
+	write(t, filepath.Join(dir, "psu.nodal"), psuAfter)
+	doc, _, errs := diffJSON(t, dir, "--ambient", "125 °C")
+	if len(doc.Designs) != 1 || len(doc.Designs[0].Parts) != 1 {
+		t.Fatalf("%+v\n%s", doc.Designs, errs)
+	}
+	want := 0.1 / (0.25 * 30 / 85)
+	if got := doc.Designs[0].Parts[0].Before.Use; math.Abs(got-want) > 1e-6 {
+		t.Errorf("R1 at 125 °C uses %v of its derated rating before the change; want %v", got, want)
+	}
+}

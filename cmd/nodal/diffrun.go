@@ -232,7 +232,7 @@ func checkInTree(t *gitTree, loader *configLoader, p string, lim limits) (side *
 	if err != nil {
 		return nil, false, err
 	}
-	rc := loader.rulesConfig(cfg)
+	rc := withAmbient(loader.rulesConfig(cfg), lim.ambient)
 	res, err := checkSource(p, src, &check.Options{Config: rc, ReadFile: read, Identify: cleanIdentity, MaxDepth: lim.maxDepth, MaxParts: lim.maxParts})
 	if err != nil {
 		return nil, false, fmt.Errorf("internal error: %v", err)
@@ -242,7 +242,7 @@ func checkInTree(t *gitTree, loader *configLoader, p string, lim limits) (side *
 		side.Findings[i].Design = p
 	}
 	if s := res.Solved; s != nil && s.OP != nil && res.Build != nil && res.Build.Design != nil {
-		side.Table = report.New(p, res.Build.Design, s.OP, rc.Derating)
+		side.Table = report.NewAt(p, res.Build.Design, s.OP, rc.Derating, s.Ambient)
 	} else {
 		side.NoOP = noOperatingPoint(res)
 	}
