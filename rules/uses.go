@@ -64,7 +64,8 @@ func (pt *Point) At(celsius float64) *Point {
 // noise reads 0 (see Clean); the power is the product of the two.
 func (pt *Point) Part(i circuit.PartID) Quantities {
 	v, c := Clean(pt.r.V[i], pt.vs, FloorV), Clean(pt.r.I[i], pt.is, FloorI)
-	return Quantities{V: v, I: c, P: v * c, Ambient: pt.ambient, HasAmbient: pt.hasAmbient}
+	return Quantities{V: v, I: c, P: v * c, Ambient: pt.ambient, HasAmbient: pt.hasAmbient,
+		Uncertified: pt.r.Uncertified != nil && pt.r.Uncertified[i]}
 }
 
 // Net returns net n's voltage, cleaned as Part cleans a part's.
