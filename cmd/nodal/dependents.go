@@ -75,9 +75,9 @@ func sayDependents(stderr io.Writer, deps []string) {
 	if len(deps) == 0 {
 		return
 	}
-	list := deps
-	if len(list) > 5 {
-		list = list[:5]
+	var list []string
+	for _, d := range deps[:min(len(deps), 5)] {
+		list = append(list, output.TextSafe(d))
 	}
 	more := ""
 	if len(deps) > len(list) {

@@ -246,3 +246,20 @@ func TestParseGrepZ(t *testing.T) {
 		t.Error("output without a NUL was accepted")
 	}
 }
+
+// The note that names the designs added keeps a hostile name on its line.
+func TestDependentsNoteEscapesNames(t *testing.T) {
+	dir := libRepo(t)
+	odd := "boards/odd\nname\x1b[31m.nodal"
+	write(t, filepath.Join(dir, filepath.FromSlash(odd)), boardUsingLib)
+	git(t, dir, "add", ".")
+	_, _, errs := runNodal(t, filepath.Join(dir, "lib"), "", "check", "loads.nodal")
+	for _, line := range strings.Split(strings.TrimSpace(errs), "\n") {
+		if strings.Contains(line, "\x1b") || strings.HasPrefix(line, "name") {
+			t.Errorf("stderr line %q", line)
+		}
+	}
+	if !strings.Contains(errs, `odd\nname\x1b[31m.nodal`) {
+		t.Errorf("the odd name is not shown escaped:\n%s", errs)
+	}
+}
