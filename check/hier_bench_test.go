@@ -46,3 +46,30 @@ func BenchmarkCheckHier(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkMergedFindings checks a design whose block has a bad value and
+// an overloaded resistor, used by 100 000 instances: the findings of every
+// instance are merged as they are made, so memory stays that of the design.
+func BenchmarkMergedFindings(b *testing.B) {
+	var sb strings.Builder
+	sb.WriteString("block bad (s, k) {\n  resistor R (s, k) 100 Ω rated 125 mW\n  resistor Z (s, k) 0 Ω\n}\nblock ten (s, k) {\n")
+	for i := 0; i < 10; i++ {
+		fmt.Fprintf(&sb, "  bad B%d (s, k)\n", i)
+	}
+	sb.WriteString("}\nblock hundred (s, k) {\n")
+	for i := 0; i < 10; i++ {
+		fmt.Fprintf(&sb, "  ten T%d (s, k)\n", i)
+	}
+	sb.WriteString("}\nground gnd\nsource V (vin, gnd) 5 V\n")
+	for i := 0; i < 1000; i++ {
+		fmt.Fprintf(&sb, "hundred H%d (vin, gnd)\n", i)
+	}
+	src := []byte(sb.String())
+	b.ReportAllocs()
+	for b.Loop() {
+		r, err := Source("merged.nodal", src, nil)
+		if err != nil || len(r.Diags) != 1 {
+			b.Fatalf("%v: %d findings, want the one bad value merged", err, len(r.Diags))
+		}
+	}
+}

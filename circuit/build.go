@@ -93,8 +93,9 @@ type builder struct {
 
 	sc *scope // the scope being elaborated
 	// subject is the instance path of the part or instance whose
-	// statement is being elaborated; findings made meanwhile are about it.
-	subject string
+	// statement is being elaborated, in two pieces (the instance's prefix
+	// and the name), joined only when a finding is made about it.
+	subject [2]string
 	count   int64 // parts and instances made so far
 	refused bool  // an instance was refused for the size limit
 
@@ -129,7 +130,7 @@ func (b *builder) report(code Code, pos, end diag.Pos, format string, args ...an
 // repeats across instances.
 func (b *builder) reportSev(code Code, sev diag.Severity, pos, end diag.Pos, format string, args ...any) {
 	f := Finding{Diagnostic: diag.Diagnostic{Pos: pos, End: end, Rule: code.String(), Severity: sev,
-		Message: fmt.Sprintf(format, args...), Subject: b.subject}, Code: code, Inst: -1}
+		Message: fmt.Sprintf(format, args...), Subject: b.subject[0] + b.subject[1]}, Code: code, Inst: -1}
 	if sc := b.sc; sc != nil && (sc.inst >= 0 || b.probing) {
 		f.Path = strings.TrimSuffix(sc.prefix, ".")
 		if !b.probing {

@@ -54,8 +54,12 @@ const maxAlso = 8
 
 // Findings collects findings, merging repeats across instances.
 type Findings struct {
-	list  []Finding
-	index map[mergeKey]int
+	list []Finding
+	// index finds, by place, rule and severity, the first finding that
+	// could take a repeat; next chains the others of the same key, -1
+	// ending the chain.
+	index map[mergeKey]int32
+	next  []int32
 	// paths returns the path of an instance of the design the findings
 	// are about; nil until Use names the design.
 	paths func(int32) string
@@ -71,7 +75,6 @@ type mergeKey struct {
 	pos  diag.Pos
 	rule string
 	sev  diag.Severity
-	msg  string // the message with the instance path taken out
 }
 
 // Len returns how many findings the collector holds.
@@ -85,32 +88,73 @@ func (fs *Findings) All() []Finding { return fs.list }
 // place in another instance.
 func (fs *Findings) Add(f Finding) {
 	if f.Path == "" || f.Inst == Unresolved {
-		fs.list = append(fs.list, f)
+		fs.push(f, -1)
 		return
 	}
-	key := mergeKey{f.Pos, f.Rule, f.Severity, strings.ReplaceAll(f.Message, f.Path+".", "")}
+	key := mergeKey{f.Pos, f.Rule, f.Severity}
 	if fs.index == nil {
-		fs.index = map[mergeKey]int{}
+		fs.index = map[mergeKey]int32{}
 	}
-	i, ok := fs.index[key]
-	if !ok {
-		fs.index[key] = len(fs.list)
-		fs.list = append(fs.list, f)
+	head, ok := fs.index[key]
+	i := head
+	for ok && i >= 0 && !sameBut(fs.list[i].Message, fs.list[i].Path, f.Message, f.Path) {
+		i = fs.next[i]
+	}
+	if !ok || i < 0 {
+		if !ok {
+			head = -1
+		}
+		fs.index[key] = int32(len(fs.list))
+		fs.push(f, head)
 		return
 	}
 	kept := &fs.list[i]
-	more := kept.More + f.More + 1
-	also := kept.Also
-	if f.Subject < kept.Subject || f.Subject == kept.Subject && f.Path < kept.Path {
-		f, *kept = *kept, f
+	prev := *kept
+	loser := f
+	if f.Subject < prev.Subject || f.Subject == prev.Subject && f.Path < prev.Path {
+		*kept, loser = f, prev
 	}
-	// f is now the one not kept: its instances are among the others.
-	kept.Also = also
-	kept.addAlso(f.Inst, fs.paths)
+	// The others: those already listed, the one not kept, and those
+	// that came merged with f.
+	kept.Also = prev.Also
+	kept.addAlso(loser.Inst, fs.paths)
 	for _, in := range f.Also {
 		kept.addAlso(in, fs.paths)
 	}
-	kept.More = more
+	kept.More = prev.More + f.More + 1
+}
+
+// push appends f, chained before next.
+func (fs *Findings) push(f Finding, next int32) {
+	fs.list = append(fs.list, f)
+	fs.next = append(fs.next, next)
+}
+
+// sameBut reports whether messages a and b are the same once the instance
+// paths pa and pb (each followed by a dot) are taken out of them, without
+// building either.
+func sameBut(a, pa, b, pb string) bool {
+	i, j := 0, 0
+	for {
+		i = skipPath(a, i, pa)
+		j = skipPath(b, j, pb)
+		if i == len(a) || j == len(b) {
+			return i == len(a) && j == len(b)
+		}
+		if a[i] != b[j] {
+			return false
+		}
+		i++
+		j++
+	}
+}
+
+// skipPath moves i past every "path." that starts at it.
+func skipPath(s string, i int, path string) int {
+	for len(path) > 0 && strings.HasPrefix(s[i:], path) && i+len(path) < len(s) && s[i+len(path)] == '.' {
+		i += len(path) + 1
+	}
+	return i
 }
 
 // addAlso records instance in among the other instances of a merged
@@ -150,7 +194,7 @@ func (fs *Findings) Finish(d *Design) diag.List {
 	if len(late) > 0 {
 		insts := d.instancesOf(fs.list, late)
 		all := fs.list
-		fs.list, fs.index = make([]Finding, 0, len(all)), nil
+		fs.list, fs.next, fs.index = make([]Finding, 0, len(all)), nil, nil
 		for _, f := range all {
 			if f.Inst == Unresolved {
 				f.Inst = -1

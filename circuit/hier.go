@@ -375,13 +375,13 @@ func (b *builder) prepare(bd *blockDef) {
 	localIndex := map[string]int{}
 	names := make(map[string]*bodyStmt, len(bd.body))
 	pinUsed := make([]bool, len(bd.pins))
-	defer func() { b.subject = "" }()
+	defer func() { b.subject = [2]string{} }()
 	for _, st := range bd.body {
 		pt := st.pt
 		st.ok = true
-		b.subject = ""
+		b.subject = [2]string{}
 		if bd.isTop {
-			b.subject = pt.Name.Text // a block's text has no instance path
+			b.subject[1] = pt.Name.Text // a block's text has no instance path
 		}
 		if len(pt.Pins) <= len(st.pinNets) {
 			st.nets = st.pinNets[:len(pt.Pins)]
@@ -677,7 +677,7 @@ func (b *builder) measure(bd *blockDef, stack []*blockDef) {
 func (b *builder) stmt(sc *scope, st *bodyStmt) {
 	b.sc = sc
 	savedSubject := b.subject
-	b.subject = sc.prefix + st.pt.Name.Text
+	b.subject = [2]string{sc.prefix, st.pt.Name.Text}
 	defer func() { b.sc, b.subject = nil, savedSubject }()
 	nets := make([]NetID, len(st.nets))
 	for i := range st.nets {
