@@ -55,6 +55,9 @@ type Options struct {
 	// MaxParts bounds the parts and instances a design expands to (0: 10
 	// million).
 	MaxParts int64
+	// MaxNameBytes bounds the bytes of instance-path names a design
+	// expands to (0: 256 MiB; see circuit.Options).
+	MaxNameBytes int64
 }
 
 // files returns the reading functions for a check of the file name.
@@ -107,7 +110,7 @@ func Source(name string, src []byte, opt *Options) (*Result, error) {
 	ast := grammar.ParseShared(name, src)
 	read, identify := opt.files(name)
 	b := circuit.BuildFile(fset, file, src, ast, &circuit.Options{
-		ReadFile: read, Identify: identify, MaxDepth: opt.MaxDepth, MaxParts: opt.MaxParts,
+		ReadFile: read, Identify: identify, MaxDepth: opt.MaxDepth, MaxParts: opt.MaxParts, MaxNameBytes: opt.MaxNameBytes,
 	})
 	// The rules need only the comments (kept in b.Files); the tree itself,
 	// most of the memory a large design takes, is dropped here.

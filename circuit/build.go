@@ -63,6 +63,9 @@ func BuildFile(fset *diag.FileSet, file *diag.File, src []byte, ast *grammar.Fil
 	if b.opt.MaxDepth <= 0 {
 		b.opt.MaxDepth = DefaultMaxDepth
 	}
+	if b.opt.MaxNameBytes <= 0 {
+		b.opt.MaxNameBytes = DefaultMaxNameBytes
+	}
 	if b.opt.MaxParts <= 0 {
 		b.opt.MaxParts = DefaultMaxParts
 	}
@@ -97,6 +100,7 @@ type builder struct {
 	// and the name), joined only when a finding is made about it.
 	subject [2]string
 	count   int64 // parts and instances made so far
+	text    int64 // bytes of the instance-path names made so far
 	refused bool  // an instance was refused for the size limit
 
 	// Findings inside blocks are made once per instance; the collector

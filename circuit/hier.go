@@ -39,6 +39,9 @@ import (
 const (
 	DefaultMaxDepth = 64
 	DefaultMaxParts = 10_000_000
+	// DefaultMaxNameBytes bounds the instance-path text of one design:
+	// 256 MiB, some 25 bytes a name at the part limit.
+	DefaultMaxNameBytes = 256 << 20
 )
 
 // Options change elaboration.
@@ -56,6 +59,9 @@ type Options struct {
 	// MaxParts bounds the parts and instances the design expands to; 0
 	// means DefaultMaxParts.
 	MaxParts int64
+	// MaxNameBytes bounds the bytes of the dotted names (parts, local
+	// nets, instances) that instances make; 0 means DefaultMaxNameBytes.
+	MaxNameBytes int64
 }
 
 // blockDef is a block definition, or (isTop) the top level of the checked
@@ -81,6 +87,8 @@ type blockDef struct {
 	state     uint8 // measure: 0 new, 1 on the stack, 2 done
 	recursive bool
 	size      int64 // parts and instances one instance makes, itself included
+	names     int64 // names one instance makes below its own path: parts, instances, local nets
+	text      int64 // bytes of those names, without the instance's own path in front
 	parts     int64 // built-in parts one instance makes
 	depth     int   // 1 for a block that instantiates no block
 	used      bool  // named by some instance statement
@@ -609,6 +617,19 @@ func paramList(c *blockDef) string {
 	return listWords(s, 12)
 }
 
+// pathText is the bytes of the names an instance of c makes, its own path
+// of n bytes included: every name below it carries that path and a dot.
+func pathText(n int64, c *blockDef) int64 {
+	return addSat(addSat(n, mulSat(n+1, c.names)), c.text)
+}
+
+func mulSat(a, b int64) int64 {
+	if a != 0 && b > math.MaxInt64/a {
+		return math.MaxInt64
+	}
+	return a * b
+}
+
 func addSat(a, b int64) int64 {
 	if a > math.MaxInt64-b {
 		return math.MaxInt64
@@ -625,6 +646,11 @@ func (b *builder) measure(bd *blockDef, stack []*blockDef) {
 	bd.state = 1
 	stack = append(stack, bd)
 	size, parts, depth := int64(1), int64(0), 0
+	names := int64(len(bd.locals))
+	var text int64
+	for _, l := range bd.locals {
+		text = addSat(text, int64(len(l)))
+	}
 	for _, st := range bd.body {
 		if !st.ok {
 			continue
@@ -633,6 +659,8 @@ func (b *builder) measure(bd *blockDef, stack []*blockDef) {
 		if c == nil {
 			size = addSat(size, 1)
 			parts = addSat(parts, 1)
+			names = addSat(names, 1)
+			text = addSat(text, int64(len(st.pt.Name.Text)))
 			continue
 		}
 		if c.state == 1 {
@@ -668,8 +696,11 @@ func (b *builder) measure(bd *blockDef, stack []*blockDef) {
 		size = addSat(size, c.size)
 		parts = addSat(parts, c.parts)
 		depth = max(depth, c.depth)
+		names = addSat(names, addSat(1, c.names))
+		text = addSat(text, pathText(int64(len(st.pt.Name.Text)), c))
 	}
 	bd.size, bd.parts, bd.depth = size, parts, depth+1
+	bd.names, bd.text = names, text
 	bd.state = 2
 }
 
@@ -734,6 +765,19 @@ func (b *builder) instance(parent *scope, st *bodyStmt, nets []NetID) {
 		b.report(CodeExpansionLimit, st.pos, st.end, "instance %s of block %s expands to %s parts and instances; with the %s before it that is over the limit of %s (--max-parts)", path, c.name, count(c.size), count(b.count), count(b.opt.MaxParts))
 		b.countOnly(nets)
 		return
+	}
+	// An instance at the top level accounts for every name below it (see
+	// measure); nested ones are counted there.
+	if text := pathText(int64(len(path)), c); parent.blk.isTop && addSat(b.text, text) > b.opt.MaxNameBytes {
+		// Every part keeps its whole instance path, so long names nested
+		// deep multiply: the names are bounded as the parts are.
+		b.refused = true
+		b.report(CodeExpansionLimit, st.pos, st.end, "instance %s of block %s makes %s of part, net and instance names; with the %s before it that is over the limit of %s on the names of one design (nest fewer levels or use shorter names)", path, c.name, byteCount(text), byteCount(b.text), byteCount(b.opt.MaxNameBytes))
+		b.countOnly(nets)
+		return
+	}
+	if parent.blk.isTop {
+		b.text = addSat(b.text, pathText(int64(len(path)), c))
 	}
 	b.count++
 	c.expanded = true
@@ -926,7 +970,7 @@ func (b *builder) probeUnused() {
 	real := b.r.Design
 	incomplete, invalid := b.r.Incomplete, b.r.Invalid
 	for _, c := range b.blockList {
-		if c.used || c.expanded || c.recursive || c.size > b.opt.MaxParts || c.depth > b.opt.MaxDepth {
+		if c.used || c.expanded || c.recursive || c.size > b.opt.MaxParts || c.depth > b.opt.MaxDepth || c.text > b.opt.MaxNameBytes {
 			continue
 		}
 		scratch := NewDesign(real.File)
@@ -995,4 +1039,17 @@ func showPath(p string) string {
 		return p
 	}
 	return strconv.Quote(p)
+}
+
+// byteCount formats a number of bytes for a message.
+func byteCount(n int64) string {
+	switch {
+	case n >= 1<<30:
+		return fmt.Sprintf("%.1f GiB", float64(n)/(1<<30))
+	case n >= 1<<20:
+		return fmt.Sprintf("%.1f MiB", float64(n)/(1<<20))
+	case n >= 1<<10:
+		return fmt.Sprintf("%.1f KiB", float64(n)/(1<<10))
+	}
+	return fmt.Sprintf("%d bytes", n)
 }
