@@ -26,6 +26,10 @@ type Result struct {
 	// Solved is the result of the Solve pass: the DC operating point, or
 	// why there is none. Nil when the rules run did not include it.
 	Solved *rules.SolveResult
+	// Worst is the result of the WorstCase pass: every rating's worst case
+	// over tolerances and temperature, and every net's range. Nil when the
+	// rules run did not include it.
+	Worst *rules.WorstResult
 }
 
 // collectAfterBuild is the source size (8 MB, some 200 000 part lines)
@@ -133,5 +137,6 @@ func Source(name string, src []byte, opt *Options) (*Result, error) {
 	cfg.NoSuppress = cfg.NoSuppress || opt.NoSuppress
 	diags, results, err := rules.RunResults(fset, b, as, &cfg)
 	solved, _ := results[rules.Solve].(*rules.SolveResult)
-	return &Result{Fset: fset, Build: b, Diags: diags, Solved: solved}, err
+	worst, _ := results[rules.WorstCase].(*rules.WorstResult)
+	return &Result{Fset: fset, Build: b, Diags: diags, Solved: solved, Worst: worst}, err
 }

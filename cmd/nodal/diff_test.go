@@ -274,3 +274,53 @@ func TestDiffAmbient(t *testing.T) {
 		t.Errorf("R1 at 125 °C uses %v of its derated rating before the change; want %v", got, want)
 	}
 }
+
+// Where the worst-case analysis judges a design, the comparison carries
+// it. An invented divider: V1 10 V ± 5 %, R1 and R2 1 kΩ ± 5 %. R1's
+// power V²·R1/(R1 + R2)² is largest with V1 high and R2 low, and, over
+// R1's own band, where R1 = R2 = 950 Ω (the maximum power transfer
+// theorem): 10.5² · 950 / 1900² = 29.01 mW, 11.6 % of 250 mW. vin spans
+// V1's band, 9.5 V to 10.5 V.
+func TestDiffWorstCase(t *testing.T) {
+	dir := gitRepo(t)
+	const divider = "ground gnd\nsource V1 (vin, gnd) 10 V tol 5%\nresistor R1 (vin, mid) 1 kΩ tol 5% rated 250 mW\nresistor R2 (mid, gnd) 1 kΩ tol 5% rated 250 mW\n"
+	write(t, filepath.Join(dir, "div.nodal"), divider)
+	git(t, dir, "add", ".")
+	git(t, dir, "commit", "-qm", "divider")
+	write(t, filepath.Join(dir, "div.nodal"), strings.Replace(divider, "10 V", "15 V", 1))
+	_, out, errs := runNodal(t, dir, "", "diff", "--format", "json")
+	var doc struct {
+		Designs []struct {
+			Parts []struct {
+				Name        string   `json:"name"`
+				WorstBefore *float64 `json:"worst_before"`
+				WorstAfter  *float64 `json:"worst_after"`
+			} `json:"parts"`
+			Nets []struct {
+				Name        string      `json:"name"`
+				BeforeRange *[2]float64 `json:"before_range"`
+			} `json:"nets"`
+		} `json:"designs"`
+	}
+	if err := json.Unmarshal([]byte(out), &doc); err != nil || len(doc.Designs) != 1 {
+		t.Fatalf("%v\n%s%s", err, out, errs)
+	}
+	want := 10.5 * 10.5 * 950 / (1900 * 1900) / 0.25
+	found := false
+	for _, p := range doc.Designs[0].Parts {
+		if p.Name == "R1" {
+			found = true
+			if p.WorstBefore == nil || math.Abs(*p.WorstBefore-want) > 1e-3*want || p.WorstAfter == nil || *p.WorstAfter <= *p.WorstBefore {
+				t.Errorf("R1's worst case %v → %v; want %v before, and more after", p.WorstBefore, p.WorstAfter, want)
+			}
+		}
+	}
+	if !found {
+		t.Errorf("R1 is not listed:\n%s", out)
+	}
+	for _, n := range doc.Designs[0].Nets {
+		if n.Name == "vin" && (n.BeforeRange == nil || math.Abs(n.BeforeRange[0]-9.5) > 1e-9 || math.Abs(n.BeforeRange[1]-10.5) > 1e-9) {
+			t.Errorf("vin's range before: %v; want 9.5 V to 10.5 V", n.BeforeRange)
+		}
+	}
+}

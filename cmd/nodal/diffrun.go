@@ -243,6 +243,7 @@ func checkInTree(t *gitTree, loader *configLoader, p string, lim limits) (side *
 	}
 	if s := res.Solved; s != nil && s.OP != nil && res.Build != nil && res.Build.Design != nil {
 		side.Table = report.NewAt(p, res.Build.Design, s.OP, rc.Derating, s.Ambient)
+		side.WorstUse, side.NetRange = worstOf(res)
 	} else {
 		side.NoOP = noOperatingPoint(res)
 	}
@@ -275,4 +276,31 @@ func configErrorText(err error) string {
 	var b strings.Builder
 	printConfigError(&b, err)
 	return b.String()
+}
+
+// worstOf reads the worst case over tolerances and temperature of a
+// checked design, by part and net name; nil maps when it was not judged.
+func worstOf(res *check.Result) (uses map[string]float64, ranges map[string][2]float64) {
+	if res.Worst == nil || res.Worst.R == nil || res.Build == nil || res.Build.Design == nil {
+		return nil, nil
+	}
+	d, r := res.Build.Design, res.Worst.R
+	uses = map[string]float64{}
+	for i, cases := range r.Worst {
+		if i >= len(d.Parts) {
+			break
+		}
+		for _, c := range cases {
+			if c.Frac > uses[d.Parts[i].Name] {
+				uses[d.Parts[i].Name] = c.Frac
+			}
+		}
+	}
+	ranges = map[string][2]float64{}
+	for i := range d.Nets {
+		if i < len(r.NetLow) && i < len(r.NetHigh) && d.Nets[i].Pins > 0 {
+			ranges[d.Nets[i].Name] = [2]float64{r.NetLow[i], r.NetHigh[i]}
+		}
+	}
+	return uses, ranges
 }

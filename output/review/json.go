@@ -51,12 +51,20 @@ type jsonPart struct {
 	Before *jsonUse `json:"before"`
 	After  *jsonUse `json:"after"`
 	Change float64  `json:"change"` // after − before, a fraction of the rating
+	// WorstBefore and WorstAfter are the worst-case uses over tolerances
+	// and temperature, present when either differs from the nominal use.
+	WorstBefore *float64 `json:"worst_before,omitempty"`
+	WorstAfter  *float64 `json:"worst_after,omitempty"`
 }
 
 type jsonNet struct {
 	Name   string  `json:"name"`
 	Before float64 `json:"before"`
 	After  float64 `json:"after"`
+	// BeforeRange and AfterRange are [low, high] over tolerances and
+	// temperature, present when either is wider than a point.
+	BeforeRange *[2]float64 `json:"before_range,omitempty"`
+	AfterRange  *[2]float64 `json:"after_range,omitempty"`
 }
 
 type jsonFinding struct {
@@ -112,10 +120,21 @@ func (c *Comparison) WriteJSON(w io.Writer) error {
 			Parts: []jsonPart{}, Nets: []jsonNet{}, Findings: []jsonFinding{}}
 		for j := range d.Parts {
 			p := &d.Parts[j]
-			jd.Parts = append(jd.Parts, jsonPart{Name: p.Name, Kind: p.Kind, Before: useJSON(p.Before), After: useJSON(p.After), Change: round(p.Delta())})
+			jp := jsonPart{Name: p.Name, Kind: p.Kind, Before: useJSON(p.Before), After: useJSON(p.After), Change: round(p.Delta())}
+			if p.HasWorst() {
+				wb, wa := round(p.WorstBefore), round(p.WorstAfter)
+				jp.WorstBefore, jp.WorstAfter = &wb, &wa
+			}
+			jd.Parts = append(jd.Parts, jp)
 		}
 		for _, n := range d.Nets {
-			jd.Nets = append(jd.Nets, jsonNet{Name: n.Name, Before: round(n.Before), After: round(n.After)})
+			jn := jsonNet{Name: n.Name, Before: round(n.Before), After: round(n.After)}
+			if n.HasRange() {
+				br := [2]float64{round(n.BeforeRange[0]), round(n.BeforeRange[1])}
+				ar := [2]float64{round(n.AfterRange[0]), round(n.AfterRange[1])}
+				jn.BeforeRange, jn.AfterRange = &br, &ar
+			}
+			jd.Nets = append(jd.Nets, jn)
 		}
 		for _, fc := range d.Findings {
 			f := &fc.Finding

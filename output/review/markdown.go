@@ -85,9 +85,10 @@ func (c *Comparison) WriteMarkdown(w io.Writer) error {
 			bw.WriteByte('\n')
 		}
 		if len(d.Nets) > 0 {
-			fmt.Fprintf(bw, "Nets moved by more than %s:\n\n| net | before | after |\n|---|--:|--:|\n", c.Thresholds.netText())
+			fmt.Fprintf(bw, "Nets moved by more than %s:\n\n| net | before | after | range before | range after |\n|---|--:|--:|--:|--:|\n", c.Thresholds.netText())
 			for _, n := range d.Nets {
-				fmt.Fprintf(bw, "| %s | %s | %s |\n", code(n.Name), units.Format(n.Before, units.Voltage), units.Format(n.After, units.Voltage))
+				fmt.Fprintf(bw, "| %s | %s | %s | %s | %s |\n", code(n.Name), units.Format(n.Before, units.Voltage), units.Format(n.After, units.Voltage),
+					rangeText(n.BeforeRange), rangeText(n.AfterRange))
 			}
 			bw.WriteByte('\n')
 		}
@@ -119,11 +120,23 @@ func pluralNet(n int) string {
 }
 
 func partTable(bw *bufio.Writer, parts []PartChange) {
-	fmt.Fprintf(bw, "| part | kind | rating | before | after | change |\n|---|---|---|--:|--:|--:|\n")
+	worst := false
+	for i := range parts {
+		worst = worst || parts[i].HasWorst()
+	}
+	if worst {
+		fmt.Fprintf(bw, "| part | kind | rating | before | after | change | worst case over tolerances |\n|---|---|---|--:|--:|--:|--:|\n")
+	} else {
+		fmt.Fprintf(bw, "| part | kind | rating | before | after | change |\n|---|---|---|--:|--:|--:|\n")
+	}
 	for i := range parts {
 		p := &parts[i]
-		fmt.Fprintf(bw, "| %s | %s | %s | %s | %s | %s |\n", code(p.Name), p.Kind, partWhat(p),
+		fmt.Fprintf(bw, "| %s | %s | %s | %s | %s | %s |", code(p.Name), p.Kind, partWhat(p),
 			useText(p.Before), useText(p.After), signedPoints(p.Delta()))
+		if worst {
+			fmt.Fprintf(bw, " %s |", worstText(p))
+		}
+		bw.WriteByte('\n')
 	}
 }
 

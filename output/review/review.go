@@ -30,6 +30,14 @@
 // why not. Nets are matched by name and listed when their voltage moved by
 // more than Thresholds.Volts, or by more than Thresholds.Relative of the
 // larger magnitude (and at least a millivolt).
+//
+// # Worst case
+//
+// Where a revision was judged over its tolerances and ambient temperature
+// (package worst), each part's worst-case use and each net's range come
+// along (Side.WorstUse, Side.NetRange): a part is also listed when its
+// worst-case use moved past the threshold, ranked by the larger of its two
+// moves, and a net when either end of its range moved.
 package review
 
 import (
@@ -99,6 +107,13 @@ func abs(x float64) float64 {
 type Side struct {
 	Findings []output.Finding // with Design set
 	Table    *report.Table    // the operating point, or nil
+	// WorstUse is each part's largest use of any rating over the box of
+	// tolerances and ambient temperature, by instance path, and NetRange
+	// each net's voltage range over it; nil when the design was not
+	// judged at its worst case (no tolerance, no temperature range). A
+	// part or net missing from them is at its nominal value throughout.
+	WorstUse map[string]float64
+	NetRange map[string][2]float64
 	// NoOP says why Table is nil (the wiring rules reject the design, the
 	// solver gave up, it is too large); "" when the design has no parts
 	// to solve, as a library of blocks has not.
@@ -129,7 +144,25 @@ type PartChange struct {
 	Kind   string
 	Before *Use // nil: the part is new, or had no rating
 	After  *Use // nil: the part is gone, or has no rating
+	// WorstBefore and WorstAfter are the worst-case uses over tolerances
+	// and temperature (the nominal use where nothing moves it); 0 on a
+	// side whose Use is nil.
+	WorstBefore, WorstAfter float64
 }
+
+// WorstDelta is the move of the part's worst-case use.
+func (p *PartChange) WorstDelta() float64 { return p.WorstAfter - p.WorstBefore }
+
+// HasWorst reports whether the worst case differs from the nominal use on
+// either side, and so is worth showing.
+func (p *PartChange) HasWorst() bool {
+	return p.Before != nil && p.WorstBefore > p.Before.Frac*(1+1e-9) ||
+		p.After != nil && p.WorstAfter > p.After.Frac*(1+1e-9)
+}
+
+// rank orders part changes: the larger of the nominal and worst-case
+// moves.
+func (p *PartChange) rank() float64 { return max(p.Delta(), p.WorstDelta()) }
 
 // Delta is the move of the part's use, a fraction of its rating (0.55 is
 // 55 percentage points); a missing side counts as zero.
@@ -148,6 +181,15 @@ func (p *PartChange) Delta() float64 {
 type NetChange struct {
 	Name          string
 	Before, After float64 // volts
+	// BeforeRange and AfterRange are the voltage ranges over the box of
+	// tolerances and temperature ([nominal, nominal] where nothing moves
+	// the net).
+	BeforeRange, AfterRange [2]float64
+}
+
+// HasRange reports whether either side's range is wider than a point.
+func (n *NetChange) HasRange() bool {
+	return n.BeforeRange[0] != n.BeforeRange[1] || n.AfterRange[0] != n.AfterRange[1]
 }
 
 // Design is one design's comparison.
@@ -189,7 +231,7 @@ func (d *Design) worstRise() float64 {
 	if len(d.Parts) == 0 {
 		return 0
 	}
-	return max(d.Parts[0].Delta(), 0)
+	return max(d.Parts[0].rank(), 0)
 }
 
 // Comparison is the whole review of a change.
@@ -229,12 +271,12 @@ func Compare(path string, base, head *Side, th Thresholds) Design {
 	}
 	switch {
 	case base.Table != nil && head.Table != nil:
-		d.Parts = compareParts(base.Table, head.Table, th)
-		d.Nets = compareNets(base.Table, head.Table, th)
+		d.Parts = compareParts(base, head, th)
+		d.Nets = compareNets(base, head, th)
 	case d.BaseNote == "" && d.HeadNote == "" && (base.Table != nil || head.Table != nil):
 		// One side has no parts at all (an added design, a library that
 		// became a design): its parts count from nothing.
-		d.Parts = compareParts(base.Table, head.Table, th)
+		d.Parts = compareParts(base, head, th)
 	}
 	return d
 }

@@ -209,3 +209,27 @@ func TestTextIsOneLinePerFinding(t *testing.T) {
 		t.Errorf("%d lines end in (new) for %d new findings:\n%s", n, c.Designs[0].Count(New), out)
 	}
 }
+
+// A part whose nominal use holds still but whose worst case over
+// tolerances moves past the threshold is listed, ranked by that move.
+func TestWorstCaseMoveListsPart(t *testing.T) {
+	base, head := side(t, "a.nodal", stressBefore), side(t, "a.nodal", stressBefore)
+	base.WorstUse = map[string]float64{"R1": 0.45}
+	head.WorstUse = map[string]float64{"R1": 0.70}
+	head.NetRange = map[string][2]float64{"vin": {9, 11}}
+	d := Compare("a.nodal", base, head, DefaultThresholds)
+	if len(d.Parts) != 1 || d.Parts[0].Name != "R1" || !d.Parts[0].HasWorst() || math.Abs(d.Parts[0].WorstDelta()-0.25) > 1e-12 {
+		t.Fatalf("parts %+v; want R1 with a worst case moved by 25 points", d.Parts)
+	}
+	if len(d.Nets) != 1 || d.Nets[0].AfterRange != [2]float64{9, 11} || d.Nets[0].BeforeRange != [2]float64{10, 10} {
+		t.Errorf("nets %+v; want vin with its new range", d.Nets)
+	}
+	var buf bytes.Buffer
+	c := &Comparison{Base: "a", Head: "b", Thresholds: DefaultThresholds, Designs: []Design{d}}
+	if err := c.WriteText(&buf); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(buf.String(), "worst case over tolerances 45 % → 70 % (+25 points)") || !strings.Contains(buf.String(), "over tolerances 10.0 V → 9.00 V … 11.0 V") {
+		t.Errorf("text form:\n%s", buf.String())
+	}
+}

@@ -18,10 +18,12 @@ func worst(p *report.Part) *Use {
 	return &u
 }
 
-// compareParts lists the parts whose worst use moved by more than the
-// threshold, worst first. A nil table is a design without parts: every
-// rated part of the other counts from zero.
-func compareParts(base, head *report.Table, th Thresholds) []PartChange {
+// compareParts lists the parts whose use of a rating moved by more than
+// the threshold, at nominal or at the worst case over tolerances, the
+// largest rise first. A side without a table is a design without parts:
+// every rated part of the other counts from zero.
+func compareParts(bs, hs *Side, th Thresholds) []PartChange {
+	base, head := bs.Table, hs.Table
 	before := map[string]*report.Part{}
 	var order []string
 	if base != nil {
@@ -54,12 +56,14 @@ func compareParts(base, head *report.Table, th Thresholds) []PartChange {
 		if pc.Before == nil && pc.After == nil {
 			continue
 		}
-		if d := pc.Delta(); d > th.Use || -d > th.Use {
+		pc.WorstBefore = worstUse(bs, name, pc.Before)
+		pc.WorstAfter = worstUse(hs, name, pc.After)
+		if d, w := pc.Delta(), pc.WorstDelta(); d > th.Use || -d > th.Use || w > th.Use || -w > th.Use {
 			out = append(out, pc)
 		}
 	}
 	sort.SliceStable(out, func(i, j int) bool {
-		di, dj := out[i].Delta(), out[j].Delta()
+		di, dj := out[i].rank(), out[j].rank()
 		if di != dj {
 			return di > dj
 		}
@@ -68,9 +72,31 @@ func compareParts(base, head *report.Table, th Thresholds) []PartChange {
 	return out
 }
 
-// compareNets lists the nets of both revisions whose voltage moved past
-// the threshold, largest move first.
-func compareNets(base, head *report.Table, th Thresholds) []NetChange {
+// worstUse is a part's worst-case use on one side: from the worst-case
+// analysis, or its nominal use where nothing moves it; 0 without a use.
+func worstUse(s *Side, name string, u *Use) float64 {
+	if u == nil {
+		return 0
+	}
+	if w, ok := s.WorstUse[name]; ok && w > u.Frac {
+		return w
+	}
+	return u.Frac
+}
+
+// netRange is a net's range on one side, or the point v.
+func netRange(s *Side, name string, v float64) [2]float64 {
+	if r, ok := s.NetRange[name]; ok {
+		return [2]float64{min(r[0], v), max(r[1], v)}
+	}
+	return [2]float64{v, v}
+}
+
+// compareNets lists the nets of both revisions whose voltage, or either
+// end of its range over tolerances, moved past the threshold, largest
+// move first.
+func compareNets(bs, hs *Side, th Thresholds) []NetChange {
+	base, head := bs.Table, hs.Table
 	before := map[string]float64{}
 	seen := map[string]bool{}
 	for _, n := range base.Nets {
@@ -81,8 +107,10 @@ func compareNets(base, head *report.Table, th Thresholds) []NetChange {
 		if !seen[n.Name] {
 			continue
 		}
-		if th.netMoved(before[n.Name], n.Voltage) {
-			out = append(out, NetChange{Name: n.Name, Before: before[n.Name], After: n.Voltage})
+		nc := NetChange{Name: n.Name, Before: before[n.Name], After: n.Voltage,
+			BeforeRange: netRange(bs, n.Name, before[n.Name]), AfterRange: netRange(hs, n.Name, n.Voltage)}
+		if th.netMoved(nc.Before, nc.After) || th.netMoved(nc.BeforeRange[0], nc.AfterRange[0]) || th.netMoved(nc.BeforeRange[1], nc.AfterRange[1]) {
+			out = append(out, nc)
 		}
 	}
 	sort.SliceStable(out, func(i, j int) bool {

@@ -32,13 +32,21 @@ func (c *Comparison) WriteText(w io.Writer) error {
 		if len(d.Parts) > 0 {
 			fmt.Fprintf(bw, "  use of a rating moved by more than %s, worst first:\n", points(c.Thresholds.Use))
 			for _, p := range d.Parts {
-				fmt.Fprintf(bw, "    %s (%s) %s: %s → %s (%s)\n", oneLine(p.Name), p.Kind, partWhat(&p), useText(p.Before), useText(p.After), signedPoints(p.Delta()))
+				fmt.Fprintf(bw, "    %s (%s) %s: %s → %s (%s)", oneLine(p.Name), p.Kind, partWhat(&p), useText(p.Before), useText(p.After), signedPoints(p.Delta()))
+				if p.HasWorst() {
+					fmt.Fprintf(bw, "; worst case over tolerances %s", worstText(&p))
+				}
+				bw.WriteByte('\n')
 			}
 		}
 		if len(d.Nets) > 0 {
 			fmt.Fprintf(bw, "  nets moved by more than %s:\n", c.Thresholds.netText())
 			for _, n := range d.Nets {
-				fmt.Fprintf(bw, "    %s: %s → %s\n", oneLine(n.Name), units.Format(n.Before, units.Voltage), units.Format(n.After, units.Voltage))
+				fmt.Fprintf(bw, "    %s: %s → %s", oneLine(n.Name), units.Format(n.Before, units.Voltage), units.Format(n.After, units.Voltage))
+				if n.HasRange() {
+					fmt.Fprintf(bw, "; over tolerances %s → %s", rangeText(n.BeforeRange), rangeText(n.AfterRange))
+				}
+				bw.WriteByte('\n')
 			}
 		}
 		if len(d.Findings) == 0 {
@@ -126,4 +134,23 @@ func (t Thresholds) netText() string {
 		return units.Format(t.Volts, units.Voltage)
 	}
 	return units.FormatPercent(t.Relative)
+}
+
+// worstText prints a part's worst-case uses: "46 % → 109 % (+63 points)".
+func worstText(p *PartChange) string {
+	side := func(u *Use, w float64) string {
+		if u == nil {
+			return "none"
+		}
+		return units.FormatPercent(w)
+	}
+	return fmt.Sprintf("%s → %s (%s)", side(p.Before, p.WorstBefore), side(p.After, p.WorstAfter), signedPoints(p.WorstDelta()))
+}
+
+// rangeText prints a voltage range: "9.50 V … 10.5 V".
+func rangeText(r [2]float64) string {
+	if r[0] == r[1] {
+		return units.Format(r[0], units.Voltage)
+	}
+	return units.Format(r[0], units.Voltage) + " … " + units.Format(r[1], units.Voltage)
 }
