@@ -22,49 +22,29 @@ func build(d *circuit.Design, vt float64, mna bool) (*model, error) {
 	nn := len(d.Nets)
 	m := &model{d: d, mna: mna, node: make([]int32, nn), off: make([]float64, nn),
 		tree: make([]bool, len(d.Parts)), branch: make([]int32, len(d.Parts)), lambda: 1}
-	uf := make([]int32, nn)
-	pot := make([]float64, nn) // V(x) − V(uf[x])
-	for i := range uf {
-		uf[i] = int32(i)
+	var err error
+	if m.closing, err = findClosing(d); err != nil {
+		return nil, err
 	}
-	// find returns the root of x and V(x) − V(root), compressing the path.
-	find := func(x int32) (int32, float64) {
-		r, s := x, 0.0
-		for uf[r] != r {
-			s += pot[r]
-			r = uf[r]
-		}
-		for y, t := x, s; uf[y] != y; {
-			next, py := uf[y], pot[y]
-			uf[y], pot[y] = r, t
-			t -= py
-			y = next
-		}
-		return r, s
-	}
+	m.floating = findFloating(d)
+	uf := newPotentialUF(nn)
 	for i := range d.Parts {
 		p := &d.Parts[i]
 		dc := p.DC()
 		src := !mna && dc.Model == circuit.VoltageDrop
-		if dc.Model != circuit.Short && !src {
+		if dc.Model != circuit.Short && !src || m.closing != nil && m.closing[i] {
 			continue
 		}
 		v := 0.0
 		if src {
 			v = p.Value
 		}
-		ra, pa := find(int32(p.Pins[0]))
-		rb, pb := find(int32(p.Pins[1]))
-		if ra == rb {
-			if !src && pa == pb {
-				continue // a short in parallel with shorts: carries 0 A
-			}
-			return nil, errSourceLoop
-		}
-		// V(pin 0) − V(pin 1) = v, V(pin) = V(root) + potential.
-		uf[ra], pot[ra] = rb, v-pa+pb
+		// V(pin 0) − V(pin 1) = v. The parts that close loops are left
+		// out, so the rest form a forest.
+		uf.union(int32(p.Pins[0]), int32(p.Pins[1]), v)
 		m.tree[i] = true
 	}
+	find := uf.find
 	groundRoot, groundPot := int32(-1), 0.0
 	if d.Ground != circuit.NoNet {
 		groundRoot, groundPot = find(int32(d.Ground))
@@ -78,8 +58,8 @@ func build(d *circuit.Design, vt float64, mna bool) (*model, error) {
 		switch {
 		case r == groundRoot:
 			m.node[i], m.off[i] = -1, o-groundPot
-		case d.Nets[i].Pins == 0:
-			m.node[i] = -1
+		case d.Nets[i].Pins == 0 || m.floating != nil && m.floating[i]:
+			m.node[i] = -1 // no voltage of its own to solve for
 		default:
 			if idx[r] < 0 {
 				idx[r] = int32(m.nNodes)
@@ -94,7 +74,7 @@ func build(d *circuit.Design, vt float64, mna bool) (*model, error) {
 	for i := range d.Parts {
 		p := &d.Parts[i]
 		m.branch[i] = -1
-		if p.DC().Model != circuit.Junction {
+		if p.DC().Model != circuit.Junction || m.floating != nil && m.floating[p.Pins[0]] {
 			continue
 		}
 		n := Ideality(p)
@@ -116,7 +96,7 @@ func build(d *circuit.Design, vt float64, mna bool) (*model, error) {
 	m.n = m.nNodes
 	for i := range d.Parts {
 		p := &d.Parts[i]
-		if p.DC().Model != circuit.VoltageDrop || !mna {
+		if p.DC().Model != circuit.VoltageDrop || !mna || m.closing != nil && m.closing[i] || m.floating != nil && m.floating[p.Pins[0]] {
 			continue
 		}
 		if m.node[p.Pins[0]] == m.node[p.Pins[1]] {

@@ -307,20 +307,6 @@ func TestWheatstone(t *testing.T) {
 	})
 }
 
-// TestParallelShorts documents the current reported for shorts in a loop
-// of shorts: the short written first carries it all.
-func TestParallelShorts(t *testing.T) {
-	b := newBuilder()
-	b.v("in", "gnd", 10)
-	w1 := b.wire("in", "mid")
-	w2 := b.wire("in", "mid")
-	b.r("mid", "gnd", 100)
-	r := b.solve(t, nil)
-	if !near(r.I[w1], 0.1, 1e-12) || r.I[w2] != 0 {
-		t.Errorf("parallel wires: %g A and %g A, want 0.1 A and 0 A", r.I[w1], r.I[w2])
-	}
-}
-
 // TestRandomJunctions adds diodes and LEDs to random circuits: the solver
 // must converge (or say why) without hanging, every junction must sit on
 // its Shockley curve, and Kirchhoff's and Tellegen's laws must hold.

@@ -53,22 +53,14 @@ func (m *model) eachCheck(f func(part int32, a int32, oa float64, b int32, ob fl
 		p := &d.Parts[i]
 		a, oa := m.node[p.Pins[0]], m.off[p.Pins[0]]
 		b, ob := m.node[p.Pins[1]], m.off[p.Pins[1]]
-		switch p.Kind {
-		case circuit.Resistor:
-			f(int32(i), a, oa, b, ob, 1/p.Value)
-		case circuit.Inductor, circuit.Fuse:
-			if p.DCR > 0 {
-				f(int32(i), a, oa, b, ob, 1/p.DCR)
-			}
-		case circuit.Capacitor, circuit.CurrentSource:
+		switch dc := p.DC(); dc.Model {
+		case circuit.Conductance:
+			f(int32(i), a, oa, b, ob, 1/dc.R)
+		case circuit.Open, circuit.CurrentFlow:
 			f(int32(i), a, oa, b, ob, 0)
-		case circuit.Switch:
-			if !p.IsShort() {
-				f(int32(i), a, oa, b, ob, 0)
-			}
-		case circuit.Diode, circuit.LED:
+		case circuit.Junction:
 			if k := m.branch[i]; k >= 0 {
-				f(int32(i), a, oa, k, 0, 1/p.Series)
+				f(int32(i), a, oa, k, 0, 1/dc.R)
 				f(int32(i), k, 0, b, ob, 0)
 			} else {
 				f(int32(i), a, oa, b, ob, 0)

@@ -32,6 +32,7 @@ func (m *model) result() *Result {
 		r.NetV[i] = v.hi + v.lo
 	}
 	r.Uncertified = m.uncertified
+	r.Floating = m.floating
 	r.RefineSteps = m.refineSteps
 	for k := range m.junc {
 		j := &m.junc[k]
@@ -178,6 +179,9 @@ func (r *Result) selfCheck(d *circuit.Design) error {
 	tol := KCLTol*r.KCLScale + 1e-18 // an attoampere floor for circuits with no current at all
 	var bad []circuit.NetID
 	for i, v := range res {
+		if r.Floating != nil && r.Floating[i] {
+			continue // its voltage, and so its balance, is not solved for
+		}
 		r.KCL = math.Max(r.KCL, math.Abs(v))
 		if math.Abs(v) > tol || math.IsNaN(v) {
 			bad = append(bad, circuit.NetID(i))

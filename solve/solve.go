@@ -94,6 +94,17 @@ type Result struct {
 	// RefineSteps counts the refinement steps of all linear solves.
 	RefineSteps int
 
+	// Undetermined says, per part, which of its values the circuit does
+	// not determine (see Unknown); those read 0 in V, I and P. Nil when
+	// every value is determined.
+	Undetermined []Unknown
+	// Floating marks the nets with no DC path to ground, whose voltages
+	// are not determined (they read 0); nil when there are none.
+	Floating []bool
+	// Groups are the groups of ideal shorts in parallel, with the current
+	// each group carries in all.
+	Groups []ShortGroup
+
 	// Self-checks: the largest KCL residual at any net and the largest part
 	// current; the sum of the absorbed powers and the sum of their
 	// magnitudes.
@@ -156,14 +167,15 @@ type model struct {
 	// refinement steps in all.
 	uncertified []bool
 	refineSteps int
+	// closing marks the parts that close a loop of ideal shorts and
+	// voltage sources, and floating the nets with no DC path to ground
+	// (nil when none; see determinacy.go).
+	closing  []bool
+	floating []bool
 	// ddFactor is the double-double factorisation of the last system
 	// when its float64 one failed, nil otherwise.
 	ddFactor *ddLU
 }
-
-// errSourceLoop says that a voltage source closes a loop of sources and
-// shorts, which the elimination cannot represent.
-var errSourceLoop = errors.New("a voltage source closes a loop of voltage-defining parts")
 
 // Solve finds the DC operating point of d. It expects a design the
 // topology checks accept (topology.Result.WellPosed); a design they would
@@ -178,9 +190,6 @@ func Solve(d *circuit.Design, opt *Options) (*Result, error) {
 	}
 	vt := ThermalVoltage(t)
 	m, err := build(d, vt, opt.MNA)
-	if err == errSourceLoop {
-		m, err = build(d, vt, true)
-	}
 	if err != nil {
 		return nil, err
 	}
@@ -262,6 +271,7 @@ func Solve(d *circuit.Design, opt *Options) (*Result, error) {
 	if err != nil {
 		return r, err
 	}
+	m.markUndetermined(r)
 	return r, nil
 }
 

@@ -182,23 +182,6 @@ func TestAutoChoice(t *testing.T) {
 	}
 }
 
-// TestSourceLoopFallsBackToMNA: a voltage source in parallel with an equal
-// one closes a loop the elimination cannot represent; the general
-// formulation is used and says the equations are singular, as the
-// branch-current equations of such a loop are (Chua, Desoer & Kuh, Linear
-// and Nonlinear Circuits, 1987, from memory: no unique solution).
-func TestSourceLoopFallsBackToMNA(t *testing.T) {
-	b := newBuilder()
-	b.v("a", "gnd", 5)
-	b.v("a", "gnd", 5)
-	b.r("a", "gnd", 10)
-	_, err := Solve(b.d, nil)
-	var se *Error
-	if !errors.As(err, &se) || se.Kind != Singular {
-		t.Fatalf("parallel sources: %v; want a Singular error", err)
-	}
-}
-
 // greenhouse is the sensor node of the language description (issue 2):
 // D2 sits behind an open switch, at 0 V with about 1e-12 S, beside an
 // 80 mΩ dcr and 10 kΩ resistors.
