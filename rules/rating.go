@@ -90,6 +90,9 @@ func ratingRule(name, doc string) *Analyzer {
 					}
 				}
 			}
+			if name == "over-current" {
+				reportGroups(p, false) // parallel ideal shorts, judged on their total (unrated.go)
+			}
 			return nil, nil
 		},
 	}
@@ -106,8 +109,9 @@ var OverCurrent = ratingRule("over-current", `a part carries more than its rated
 Every part with a current rating: LEDs and diodes (forward current),
 inductors, fuses (their value is their rated current), wires and switches,
 voltage sources asked for more than their rated current, and batteries
-discharged past theirs. Past its
-current rating a part overheats; a fuse may open.`)
+discharged past theirs. Ideal shorts in parallel are judged as a group:
+their total current against the sum of their ratings. Past its current
+rating a part overheats; a fuse may open.`)
 
 // OverVoltage reports parts with more than their rated voltage across them.
 var OverVoltage = ratingRule("over-voltage", `a part has more than its rated voltage across it
@@ -157,6 +161,7 @@ ambient temperature gets the warning too, naming the corner.`,
 				}
 			}
 		}
+		reportGroups(p, true) // parallel ideal shorts, judged on their total (unrated.go)
 		return nil, nil
 	},
 }

@@ -12,7 +12,7 @@ var All = []*Analyzer{
 	FloatingNet, NoDCPath, SourceLoop, CurrentCutset, ShortedPart, CaseClash,
 	AcceptReason, StaleAccept, BadAccept,
 	SolveFailed, NoConvergence, IllConditioned,
-	OverPower, OverCurrent, OverVoltage, ReverseVoltage, OverTemperature, CornerOverRating, NearRating, CornersNotJudged,
+	OverPower, OverCurrent, OverVoltage, ReverseVoltage, OverTemperature, CornerOverRating, NearRating, CornersNotJudged, UnratedParts,
 }
 
 // Lookup returns the rule with the given id, or nil.

@@ -15,15 +15,20 @@ import (
 )
 
 // SolveResult is the result of the Solve pass. OP is nil when the solve
-// did not run (the topology rules rejected the design, or the build was
-// incomplete) or failed; Err says why it failed.
+// did not run or failed: NotRun says why it did not run, Err why it failed.
+// unrated-parts reports every such design that has ratings.
 type SolveResult struct {
 	OP  *solve.Result
 	Err error
 	Ran bool
+	// NotRun says why the solve was not tried: the design cannot be
+	// modelled (its build failed), has no ground, or its wiring leaves no
+	// operating point at all (a loop of voltage sources whose voltages do
+	// not sum to zero, current sources that cannot all be obeyed).
+	NotRun string
 	// Skipped says why the solve was not tried on a design the topology
 	// rules accept: it is too large for this version's solver (an
-	// *solve.Error of kind TooLarge). The rating rules then say nothing.
+	// *solve.Error of kind TooLarge).
 	Skipped error
 	// NoCondEstimate says that the solve made no condition estimate (the
 	// iterative solver, used for the largest designs, makes none), so
@@ -69,33 +74,52 @@ func (s *SolveResult) Point() *Point {
 }
 
 // Solve computes the DC operating point; it reports nothing itself. Its
-// result is a *SolveResult. It runs only on designs whose build is complete
-// and valid and whose topology is well-posed.
+// result is a *SolveResult. It runs on every design whose node voltages are
+// determined, whatever the wiring findings' severities or acceptances:
+// loops of shorts and sources whose voltages sum to zero and sections with
+// no DC path are solved around (package solve marks what they leave
+// open). It does not run when the build is incomplete or invalid, when
+// there is no ground, or when no operating point exists (an unbalanced
+// loop of sources, a current-source cutset); NotRun says which.
 var Solve = &Analyzer{
 	Name:     "solve",
 	Doc:      "DC operating point shared by the rating rules",
 	Requires: []*Analyzer{Topology},
 	Run: func(p *Pass) (any, error) {
-		t := topo(p)
-		if p.Build.Incomplete || p.Build.Invalid || !t.WellPosed() {
-			return &SolveResult{}, nil
-		}
-		for _, id := range t.Shorted {
-			if p.Design.Parts[id].DC().Model == circuit.VoltageDrop {
-				return &SolveResult{}, nil // shorted-part says so
-			}
+		if why := notSolvable(p); why != "" {
+			return &SolveResult{NotRun: why}, nil
 		}
 		amb := AmbientOf(p.Design, p.Config)
 		op, err := solve.Solve(p.Design.AtTemperature(amb.Nominal), &solve.Options{Temperature: units.Kelvin(amb.Nominal)})
 		var se *solve.Error
 		if errors.As(err, &se) && se.Kind == solve.TooLarge {
-			return &SolveResult{Skipped: err}, nil
+			return &SolveResult{Skipped: err, Ambient: amb}, nil
 		}
 		if err != nil {
 			return &SolveResult{Err: err, Ran: true, Ambient: amb}, nil
 		}
 		return &SolveResult{OP: op, Ran: true, NoCondEstimate: !op.CondEstimated, Ambient: amb}, nil
 	},
+}
+
+// notSolvable says why design p cannot be solved at all, or "" when its
+// node voltages are determined.
+func notSolvable(p *Pass) string {
+	t := topo(p)
+	switch {
+	case p.Build.Incomplete || p.Build.Invalid:
+		return "the design has errors that stop it from being modelled"
+	case !t.Grounded:
+		return "the design has no ground to measure voltages from"
+	case len(t.Cutsets) > 0:
+		return "current sources force currents that cannot all flow (current-cutset), so no operating point exists"
+	}
+	for i := range t.Loops {
+		if !t.Loops[i].Balanced() {
+			return "voltage sources around a loop contradict each other (source-loop), so no operating point exists"
+		}
+	}
+	return ""
 }
 
 func solved(p *Pass) *SolveResult { return p.ResultOf[Solve].(*SolveResult) }

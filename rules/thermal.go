@@ -94,7 +94,7 @@ func resistorPowerUse(p *circuit.Part, q Quantities, rated, limit float64, der D
 // rise is past it. ok is false unless theta and tjmax are both written.
 func junctionUse(p *circuit.Part, q Quantities) (Use, bool) {
 	h := p.Heat
-	if h == nil || h.Theta <= 0 || !h.HasTjMax {
+	if h == nil || h.Theta <= 0 || !h.HasTjMax || q.unknown(units.Power) {
 		return Use{}, false
 	}
 	ta := ambientOf(q)

@@ -27,6 +27,24 @@ type Quantities struct {
 	// junction temperatures (see thermal.go).
 	Ambient    float64
 	HasAmbient bool
+	// VoltageUnknown and CurrentUnknown say that the circuit does not
+	// determine the part's voltage (a pin on a section with no DC path) or
+	// its current (it closes a loop of ideal shorts and voltage sources):
+	// Judge then leaves the ratings that need them unjudged, and
+	// unrated-parts names them. (Set from solve.Result.Undetermined.)
+	VoltageUnknown, CurrentUnknown bool
+}
+
+// unknown reports whether a rating of dimension dim needs a value the
+// circuit does not determine: power needs both.
+func (q Quantities) unknown(dim units.Dim) bool {
+	switch dim {
+	case units.Voltage:
+		return q.VoltageUnknown
+	case units.Current:
+		return q.CurrentUnknown
+	}
+	return q.VoltageUnknown || q.CurrentUnknown
 }
 
 // Point reads parts' quantities from a solved operating point, with
@@ -64,8 +82,15 @@ func (pt *Point) At(celsius float64) *Point {
 // noise reads 0 (see Clean); the power is the product of the two.
 func (pt *Point) Part(i circuit.PartID) Quantities {
 	v, c := Clean(pt.r.V[i], pt.vs, FloorV), Clean(pt.r.I[i], pt.is, FloorI)
-	return Quantities{V: v, I: c, P: v * c, Ambient: pt.ambient, HasAmbient: pt.hasAmbient,
-		Uncertified: pt.r.Uncertified != nil && pt.r.Uncertified[i]}
+	q := Quantities{V: v, I: c, P: v * c, Ambient: pt.ambient, HasAmbient: pt.hasAmbient}
+	// The solver's own verdicts on these values (solve owns them): what it
+	// could not certify, and what the circuit leaves undetermined.
+	q.Uncertified = pt.r.Uncertified != nil && pt.r.Uncertified[i]
+	if pt.r.Undetermined != nil {
+		u := pt.r.Undetermined[i]
+		q.VoltageUnknown, q.CurrentUnknown = u&solve.UnknownVoltage != 0, u&solve.UnknownCurrent != 0
+	}
+	return q
 }
 
 // Net returns net n's voltage, cleaned as Part cleans a part's.
@@ -138,7 +163,7 @@ func Judge(p *circuit.Part, q Quantities, der Derating) []Use {
 	for i := range rs {
 		r := &rs[i]
 		rating := p.Rated(r)
-		if !(rating > 0) {
+		if !(rating > 0) || q.unknown(r.Dim) { // a value the circuit leaves open is not judged (unrated-parts says so)
 			continue
 		}
 		var x float64

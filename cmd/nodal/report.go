@@ -189,13 +189,14 @@ func noReport(res *check.Result) string {
 	case s == nil:
 		return "no operating point, so no report: the solve did not run"
 	}
-	if e, w := count(res.Diags); e+w > 0 {
-		return "no operating point, so no report: fix the findings above first"
-	}
 	if res.Build == nil || res.Build.Design == nil || !res.Build.Design.HasParts() {
 		return "no operating point, so no report: the design has no parts"
 	}
-	return "no operating point, so no report: the design is not complete enough to solve (\"nodal check\" says more with its default settings)"
+	if why := res.Solved.NotRun; why != "" {
+		// The reason "nodal check" gives in its unrated-parts finding.
+		return "no operating point, so no report: " + why
+	}
+	return "no operating point, so no report: fix the findings above first"
 }
 
 func count(l diag.List) (errs, warns int) {

@@ -1,0 +1,71 @@
+package check_test
+
+import (
+	"strings"
+	"testing"
+
+	"nodal/check"
+	"nodal/diag"
+	"nodal/output/report"
+	"nodal/rules"
+)
+
+// Ratings are judged whatever the wiring findings' severities: each design
+// below has wiring a rule questions (a warning, an accepted error, an
+// error switched off) and a 10 Ω load on 5 V dissipating 2.5 W, 250 % of
+// its 1 W rating (Ohm's law: P = V²/R). Each must report over-power, and
+// nodal report must show the same load past its rating.
+func TestRatingsJudgedWhateverTheWiringSeverities(t *testing.T) {
+	const load = "resistor RL (vin, gnd) 10 Ω rated 1 W\n"
+	cases := []struct {
+		name, src string
+		cfg       *rules.Config
+	}{
+		{"equal supplies tied together (a warning)", "ground gnd\nsource V1 (vin, gnd) 5 V\nsource V2 (vin, gnd) 5 V\n" + load, nil},
+		{"parallel wires", "ground gnd\nsource V1 (a, gnd) 5 V\nwire W1 (a, vin)\nwire W2 (a, vin)\n" + load, nil},
+		{"an accepted no-dc-path", "ground gnd\nport sig  # nodal: accept no-dc-path because driven on the other board\ncapacitor C1 (sig, x) 100 nF\nresistor R9 (x, gnd) 10 kΩ\nsource V1 (vin, gnd) 5 V\n" + load, nil},
+		{"no-dc-path switched off", "ground gnd\nport sig\ncapacitor C1 (sig, x) 100 nF\nresistor R9 (x, gnd) 10 kΩ\nsource V1 (vin, gnd) 5 V\n" + load,
+			&rules.Config{Severity: map[string]diag.Severity{"no-dc-path": diag.Off}}},
+	}
+	for _, c := range cases {
+		res, err := check.Source("t.nodal", []byte(c.src), &check.Options{Config: c.cfg})
+		if err != nil {
+			t.Fatal(err)
+		}
+		found := false
+		for _, d := range res.Diags {
+			if d.Rule == "over-power" && strings.Contains(d.Message, "RL dissipates 2.50 W, 250 %") {
+				found = true
+			}
+		}
+		if !found {
+			t.Errorf("%s: no over-power finding for RL:\n%s", c.name, strings.Join(lines(res), "\n"))
+			continue
+		}
+		if res.Solved == nil || res.Solved.OP == nil {
+			t.Errorf("%s: report would have no operating point", c.name)
+			continue
+		}
+		tab := report.NewAt("t.nodal", res.Build.Design, res.Solved.OP, rules.Derating{}, res.Solved.Ambient)
+		for _, p := range tab.Parts {
+			if p.Name == "RL" && p.Level() != report.Over {
+				t.Errorf("%s: report shows RL at level %v, check says over-power", c.name, p.Level())
+			}
+		}
+	}
+}
+
+// A design that cannot be solved says so, naming its rated parts, instead
+// of passing with no findings: here 5 V and 6 V sources contradict each
+// other around a loop, and that error is switched off.
+func TestUnsolvableDesignSaysRatingsNotChecked(t *testing.T) {
+	src := "ground gnd\nsource V1 (vin, gnd) 5 V rated 1 A\nsource V2 (vin, gnd) 6 V\nresistor RL (vin, gnd) 10 Ω rated 1 W\n"
+	res, err := check.Source("t.nodal", []byte(src), &check.Options{Config: &rules.Config{Severity: map[string]diag.Severity{"source-loop": diag.Off}}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	got := lines(res)
+	if len(got) != 1 || !strings.Contains(got[0], "ratings not checked on 2 parts") || !strings.Contains(got[0], "not judged: RL, V1") || !strings.HasSuffix(got[0], "[unrated-parts]") {
+		t.Fatalf("got\n%s\nwant one unrated-parts finding naming RL and V1", strings.Join(got, "\n"))
+	}
+}
