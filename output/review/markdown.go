@@ -63,6 +63,8 @@ func (c *Comparison) WriteMarkdown(w io.Writer) error {
 			fmt.Fprintf(bw, "New findings:\n\n")
 			findingTable(bw, fresh[:min(len(fresh), MaxRows)], false)
 			bw.WriteByte('\n')
+		} else if d.Quiet() {
+			fmt.Fprintf(bw, "No use of a rating or net voltage moved past the thresholds, and no finding changed.\n\n")
 		} else {
 			fmt.Fprintf(bw, "No new findings.\n\n")
 		}

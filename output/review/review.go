@@ -215,6 +215,15 @@ func (d *Design) Count(s State) int {
 	return n
 }
 
+// Quiet reports whether a changed design's change shows in nothing the
+// comparison lists: no part or net moved past the thresholds, no finding
+// is new, fixed or updated, and the ratings were compared (a layout-only
+// edit, say).
+func (d *Design) Quiet() bool {
+	return d.Status == Changed && len(d.Parts) == 0 && len(d.Nets) == 0 && d.BaseNote == "" && d.HeadNote == "" &&
+		d.Count(New) == 0 && d.Count(Absent) == 0 && d.Count(Updated) == 0
+}
+
 // newErrors counts the new findings at error level.
 func (d *Design) newErrors() int {
 	n := 0

@@ -233,3 +233,16 @@ func TestWorstCaseMoveListsPart(t *testing.T) {
 		t.Errorf("text form:\n%s", buf.String())
 	}
 }
+
+// A layout-only edit changes the file but nothing the comparison lists,
+// and says so.
+func TestLayoutOnlyChangeIsQuiet(t *testing.T) {
+	moved := "# a comment above\n\n" + strings.ReplaceAll(stressBefore, " (", "  (")
+	d := Compare("a.nodal", side(t, "a.nodal", stressBefore), side(t, "a.nodal", moved), DefaultThresholds)
+	if !d.Quiet() {
+		t.Fatalf("a layout-only edit is not quiet: %+v", d)
+	}
+	if d := Compare("a.nodal", side(t, "a.nodal", stressBefore), side(t, "a.nodal", stressAfter), DefaultThresholds); d.Quiet() {
+		t.Error("a change that moves R1 is quiet")
+	}
+}

@@ -49,6 +49,9 @@ func (c *Comparison) WriteText(w io.Writer) error {
 				bw.WriteByte('\n')
 			}
 		}
+		if d.Quiet() {
+			fmt.Fprintf(bw, "  no use of a rating or net voltage moved past the thresholds, and no finding changed\n")
+		}
 		if len(d.Findings) == 0 {
 			fmt.Fprintf(bw, "  findings: none in either revision\n")
 		} else {
