@@ -77,6 +77,7 @@ func BuildFile(fset *diag.FileSet, file *diag.File, src []byte, ast *grammar.Fil
 }
 
 type builder struct {
+	fixes      []diag.Fix                     // for the next finding reported (see reportFix)
 	quantities map[quantityKey]units.Quantity // see quantity
 	fset       *diag.FileSet
 	opt        Options
@@ -134,7 +135,8 @@ func (b *builder) report(code Code, pos, end diag.Pos, format string, args ...an
 // repeats across instances.
 func (b *builder) reportSev(code Code, sev diag.Severity, pos, end diag.Pos, format string, args ...any) {
 	f := Finding{Diagnostic: diag.Diagnostic{Pos: pos, End: end, Rule: code.String(), Severity: sev,
-		Message: fmt.Sprintf(format, args...), Subject: b.subject[0] + b.subject[1]}, Code: code, Inst: -1}
+		Message: fmt.Sprintf(format, args...), Subject: b.subject[0] + b.subject[1], Fixes: b.fixes}, Code: code, Inst: -1}
+	b.fixes = nil
 	if sc := b.sc; sc != nil && (sc.inst >= 0 || b.probing) {
 		f.Path = strings.TrimSuffix(sc.prefix, ".")
 		if !b.probing {
@@ -519,14 +521,14 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 		if err == nil {
 			err = &units.Error{Msg: fmt.Sprintf("%q is not a unit", v.Num+" "+w)}
 		}
-		b.report(CodeUnitMismatch, vpos, b.unitWordEnd(pt, vend), "%s %s: %s", word, p.Name, b.unitHint(p.Kind, err))
+		b.reportFix(b.megWordFix(pt, info.Value), CodeUnitMismatch, vpos, b.unitWordEnd(pt, vend), "%s %s: %s", word, p.Name, b.unitHint(p.Kind, err))
 		return false
 	}
 	q, err := b.quantity(v)
 	if err != nil {
 		rule, silent := errRule(err)
 		if !silent {
-			b.report(rule, vpos, vend, "%s %s: %s", word, p.Name, b.unitHint(p.Kind, err))
+			b.reportFix(b.megFix(v, vpos, vend, info.Value), rule, vpos, vend, "%s %s: %s", word, p.Name, b.unitHint(p.Kind, err))
 		}
 		return false
 	}
@@ -553,7 +555,7 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 	}
 	if q.Dim != info.Value {
 		if q.Dim == units.None {
-			b.report(um, vpos, vend, "%s %s: %s has no unit; write %s %s", word, p.Name, b.describe(v), b.describe(v), info.Value.Symbol())
+			b.reportFix(unitFix(vend, info.Value), um, vpos, vend, "%s %s: %s has no unit; write %s %s", word, p.Name, b.describe(v), b.describe(v), info.Value.Symbol())
 		} else {
 			b.report(um, vpos, vend, "%s %s is given as a %s (%s); %s takes a %s in %s", word, p.Name, q.Dim.Noun(), b.describeQ(v, q), article(word), info.Value.Noun(), info.Value.Symbol())
 		}

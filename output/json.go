@@ -28,6 +28,23 @@ type jsonDiag struct {
 	Message   string        `json:"message"`
 	Related   []jsonRelated `json:"related"`
 	HelpURI   string        `json:"help_uri"`
+	Fixes     []jsonFix     `json:"fixes,omitempty"`
+}
+
+type jsonFix struct {
+	Message string     `json:"message"`
+	Edits   []jsonEdit `json:"edits"`
+}
+
+// jsonEdit replaces the text from line:column up to end_line:end_column
+// (equal to insert) with new_text; columns count bytes from 1.
+type jsonEdit struct {
+	File      string `json:"file"`
+	Line      int    `json:"line"`
+	Column    int    `json:"column"`
+	EndLine   int    `json:"end_line"`
+	EndColumn int    `json:"end_column"`
+	NewText   string `json:"new_text"`
 }
 
 type jsonRelated struct {
@@ -47,6 +64,13 @@ func writeJSON(w io.Writer, r *Report) error {
 		}
 		for _, rel := range f.Related {
 			d.Related = append(d.Related, jsonRelated{File: rel.File, Line: rel.Line, Column: rel.Column, Message: rel.Message})
+		}
+		for _, fix := range f.Fixes {
+			jf := jsonFix{Message: fix.Message}
+			for _, e := range fix.Edits {
+				jf.Edits = append(jf.Edits, jsonEdit{File: e.File, Line: e.Line, Column: e.Column, EndLine: e.EndLine, EndColumn: e.EndColumn, NewText: e.NewText})
+			}
+			d.Fixes = append(d.Fixes, jf)
 		}
 		doc.Diagnostics = append(doc.Diagnostics, d)
 	}

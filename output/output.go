@@ -43,6 +43,24 @@ type Finding struct {
 	// comparison ("new", "unchanged", "updated" or "absent"; SARIF 2.1.0
 	// §3.27.24), or "" outside one.
 	Baseline string
+	// Fixes are edits that would resolve the finding (diag.Fix).
+	Fixes []Fix
+}
+
+// Fix is one way to resolve a finding: what it does, and its edits.
+type Fix struct {
+	Message string
+	Edits   []Edit
+}
+
+// Edit replaces a range of a file (empty to insert) with NewText.
+type Edit struct {
+	File      string
+	Line      int
+	Column    int
+	EndLine   int
+	EndColumn int
+	NewText   string
 }
 
 // Related is another place a finding names.
@@ -100,6 +118,21 @@ func FromDiags(fset *diag.FileSet, l diag.List) []Finding {
 			}
 			f.Related = append(f.Related, Related{File: p.Filename, Line: p.Line, Column: p.Column,
 				EndLine: e.Line, EndColumn: e.Column, Message: r.Message})
+		}
+		for _, fix := range d.Fixes {
+			of := Fix{Message: fix.Message}
+			for _, e := range fix.Edits {
+				p, q := fset.Position(e.Pos), fset.Position(e.End)
+				if !p.IsValid() || !q.IsValid() || q.Filename != p.Filename {
+					of.Edits = nil
+					break
+				}
+				of.Edits = append(of.Edits, Edit{File: p.Filename, Line: p.Line, Column: p.Column,
+					EndLine: q.Line, EndColumn: q.Column, NewText: e.NewText})
+			}
+			if len(of.Edits) > 0 {
+				f.Fixes = append(f.Fixes, of)
+			}
 		}
 		out = append(out, f)
 	}

@@ -77,6 +77,26 @@ type sarifResult struct {
 	PartialFingerprints map[string]string `json:"partialFingerprints,omitempty"`
 	// BaselineState (§3.27.24) is set in a comparison of two revisions.
 	BaselineState string `json:"baselineState,omitempty"`
+	// Fixes (§3.27.30) are edits that would resolve the finding.
+	Fixes []sarifFix `json:"fixes,omitempty"`
+}
+
+// sarifFix is a fix object (§3.55): a description and the changes to
+// each file (§3.56), each a replacement (§3.57) of a region, empty for
+// an insertion, with the inserted text.
+type sarifFix struct {
+	Description     sarifText             `json:"description"`
+	ArtifactChanges []sarifArtifactChange `json:"artifactChanges"`
+}
+
+type sarifArtifactChange struct {
+	ArtifactLocation sarifArtifact      `json:"artifactLocation"`
+	Replacements     []sarifReplacement `json:"replacements"`
+}
+
+type sarifReplacement struct {
+	DeletedRegion   sarifRegion `json:"deletedRegion"`
+	InsertedContent sarifText   `json:"insertedContent"`
 }
 
 type sarifLocation struct {
@@ -166,6 +186,20 @@ func writeSARIF(w io.Writer, r *Report, opt Options) error {
 			res.RelatedLocations = append(res.RelatedLocations, sarifLocation{ID: &id,
 				PhysicalLocation: physical(rel.File, rel.Line, rel.Column, rel.EndLine, rel.EndColumn, opt, cols),
 				Message:          &sarifText{Text: rel.Message}})
+		}
+		for _, fix := range f.Fixes {
+			sf := sarifFix{Description: sarifText{Text: fix.Message}}
+			for _, e := range fix.Edits {
+				p := physical(e.File, e.Line, e.Column, e.EndLine, e.EndColumn, opt, cols)
+				if p.Region == nil {
+					continue
+				}
+				sf.ArtifactChanges = append(sf.ArtifactChanges, sarifArtifactChange{ArtifactLocation: p.ArtifactLocation,
+					Replacements: []sarifReplacement{{DeletedRegion: *p.Region, InsertedContent: sarifText{Text: e.NewText}}}})
+			}
+			if len(sf.ArtifactChanges) > 0 {
+				res.Fixes = append(res.Fixes, sf)
+			}
 		}
 		run.Results = append(run.Results, res)
 	}

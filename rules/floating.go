@@ -80,7 +80,7 @@ mean".`,
 			default:
 				msg += "; connect it, or declare it with port if it leaves the file"
 			}
-			p.Report(diag.Diagnostic{Pos: net.Pos, End: net.End, Message: msg, Subject: net.Name})
+			p.Report(diag.Diagnostic{Pos: net.Pos, End: net.End, Message: msg, Subject: net.Name, Fixes: floatingFixes(p, net, s)})
 		}
 		return nil, nil
 	},
@@ -109,4 +109,44 @@ func pinOwners(d *circuit.Design, nets []circuit.NetID) map[circuit.NetID]pinRef
 		}
 	}
 	return out
+}
+
+// floatingFixes are the edits an editor can offer for a net of the top
+// level that only one pin touches: the close name, and a port statement
+// on a line of its own above the net's first use.
+func floatingFixes(p *Pass, net *circuit.Net, suggestion string) []diag.Fix {
+	if net.Inst >= 0 || !net.Pos.IsValid() {
+		return nil
+	}
+	var fixes []diag.Fix
+	if suggestion != "" && !strings.Contains(suggestion, "\"") && net.End.IsValid() {
+		fixes = append(fixes, diag.Fix{Message: "write " + suggestion,
+			Edits: []diag.Edit{{Pos: net.Pos, End: net.End, NewText: writtenName(suggestion)}}})
+	}
+	if pos := p.Fset.Position(net.Pos); pos.IsValid() && !strings.Contains(net.Name, "\"") {
+		lineStart := net.Pos - diag.Pos(pos.Column-1)
+		fixes = append(fixes, diag.Fix{Message: "declare " + netNameText(net.Name) + " a port (a net that leaves the file)",
+			Edits: []diag.Edit{{Pos: lineStart, End: lineStart, NewText: "port " + writtenName(net.Name) + "\n"}}})
+	}
+	return fixes
+}
+
+// writtenName is a net name as a statement writes it: quoted unless it is
+// a plain name.
+func writtenName(s string) string {
+	if s != "" && netNameText(s) == s && (s[0] < '0' || s[0] > '9') && !strings.Contains(s, ".") {
+		return s
+	}
+	return "\"" + s + "\""
+}
+
+// netNameText is netName for a name alone.
+func netNameText(s string) string {
+	for i := 0; i < len(s); i++ {
+		c := s[i]
+		if !(c == '_' || c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z' || c >= '0' && c <= '9') {
+			return "\"" + s + "\""
+		}
+	}
+	return s
 }
