@@ -11,17 +11,15 @@
 // union–find over them (each net carries its potential above its parent)
 // turns every group of nets they tie together into one unknown plus known
 // offsets — the group holding ground into known voltages — before the
-// equations are built. Topology guarantees that they form a forest once the
-// design is well posed. The remaining equations, from resistors, dcr,
+// equations are built. A part that would close a loop of them is left out
+// (see Determinacy), so they form a forest. The remaining equations, from resistors, dcr,
 // series resistance, the Newton companion conductances of the junctions
 // (always positive) and current sources, form a weighted graph Laplacian
 // with grounding: symmetric positive definite. The currents of shorts and
 // sources are recovered afterwards from Kirchhoff's current law over their
 // forest.
 //
-// The general path, used when a source closes a loop of sources and shorts
-// (which the elimination cannot represent) or when Options.MNA asks for it,
-// is Modified Nodal Analysis (Ho, Ruehli & Brennan, "The modified nodal
+// The general path, used when Options.MNA asks for it, is Modified Nodal Analysis (Ho, Ruehli & Brennan, "The modified nodal
 // approach to network analysis", IEEE Trans. Circuits and Systems 22(6),
 // 1975): one unknown per group of shorted nets except ground's, plus one
 // branch current per voltage source; its equations are symmetric but
@@ -85,10 +83,24 @@
 // net tied to the rest only by a junction's leakage then raises no alarm,
 // while a milliohm link between nets held by teraohms still does. PCG makes
 // no estimate: Cond is 0 and CondEstimated false.
-// Where shorts alone form a loop (two wires in parallel, say) the split of
-// current between them is not determined by the circuit; nodal then gives
-// the whole current to the short written first and reports 0 A in each short
-// that closes such a loop.
+//
+// # Determinacy
+//
+// What the circuit does not determine is not guessed. A loop of ideal
+// shorts and voltage sources whose voltages sum to zero (two equal
+// supplies tied together, two wires in parallel) fixes the node voltages
+// but not the current circulating around it: the parts that close such
+// loops (found by a weighted union–find in statement order) are left out
+// of the equations, the node voltages are solved, and every short or source
+// on such a loop — every part of their graph that is not a bridge — has its
+// current marked in Result.Undetermined and reported as 0, whichever order
+// the statements come in. Shorts in parallel between the same two nets
+// form a ShortGroup whose total current is determined and reported. A loop
+// whose voltages do not sum to zero (to 1e-9 of its largest voltage, as
+// the topology rules judge it) has no solution: a Singular error naming
+// the part that closes it. Nets with no DC path to ground get no unknown
+// (Result.Floating, read as 0 V), the parts on them are marked, and the
+// rest is solved; Kirchhoff's current law is not checked at those nets.
 //
 // # Sign convention
 //

@@ -8,6 +8,8 @@ package topology
 // in parts and nets however many voltage-defining parts there are.
 
 import (
+	"sort"
+
 	"nodal/circuit"
 )
 
@@ -35,18 +37,25 @@ func findLoops(d *circuit.Design, r *Result) {
 		next = append(next, head[a])
 		head[a] = int32(len(edges) - 1)
 	}
+	// The parts in name order, not statement order, so that which parts
+	// close loops, and so the loops reported, do not depend on the order
+	// the statements are written in (names are unique).
+	var order []circuit.PartID
 	for i := range d.Parts {
-		p := &d.Parts[i]
-		if !p.IsVoltageDefining() || p.Pins[0] == p.Pins[1] {
-			continue
+		if p := &d.Parts[i]; p.IsVoltageDefining() && p.Pins[0] != p.Pins[1] {
+			order = append(order, circuit.PartID(i))
 		}
+	}
+	sort.Slice(order, func(x, y int) bool { return d.Parts[order[x]].Name < d.Parts[order[y]].Name })
+	for _, i := range order {
+		p := &d.Parts[i]
 		a, b := int32(p.Pins[0]), int32(p.Pins[1])
 		if uf.union(a, b) {
-			link(a, b, circuit.PartID(i))
-			link(b, a, circuit.PartID(i))
+			link(a, b, i)
+			link(b, a, i)
 			continue
 		}
-		closing = append(closing, circuit.PartID(i))
+		closing = append(closing, i)
 	}
 	if len(closing) == 0 {
 		return
@@ -60,7 +69,7 @@ func findLoops(d *circuit.Design, r *Result) {
 		depth[i] = -1
 	}
 	var queue []int32
-	for i := range d.Parts {
+	for _, i := range order {
 		p := &d.Parts[i]
 		for _, start := range p.Pins {
 			s := int32(start)
