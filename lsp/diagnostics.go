@@ -54,6 +54,7 @@ type snapshot struct {
 	text    *text
 	res     *check.Result // nil when the check failed
 	name    string        // the file name the check used
+	cfg     *rules.Config // the settings it used; nil: the defaults
 	files   []string      // the files it read, the document first
 	diags   []published   // the findings shown on this document
 }
@@ -189,6 +190,7 @@ func (s *Server) check(path string, src []byte, overlay map[string][]byte, utf8 
 					rc.Derating.Set(k, f)
 				}
 				opts.Config = rc
+				snap.cfg = rc
 			}
 		}
 	}
@@ -264,7 +266,7 @@ func topFinding(t *text, msg string) published {
 		Range:    t.rangeOf(0, 0),
 		Severity: protocol.DiagnosticSeverityError,
 		Source:   protocol.NewOptional("nodal"),
-		Message:  protocol.String(msg),
+		Message:  protocol.String(valid(msg)),
 	}}
 }
 
@@ -333,7 +335,7 @@ func convert(res *check.Result, t *text, name string) []published {
 			Severity: severities[d.Severity],
 			Code:     protocol.String(d.Rule),
 			Source:   protocol.NewOptional("nodal"),
-			Message:  protocol.String(msg),
+			Message:  protocol.String(valid(msg)),
 		}
 		for _, r := range d.Related {
 			f, rf, rt := span(r.Pos, r.End)
@@ -343,7 +345,7 @@ func convert(res *check.Result, t *text, name string) []published {
 			}
 			pd.RelatedInformation = append(pd.RelatedInformation, protocol.DiagnosticRelatedInformation{
 				Location: protocol.Location{URI: fileURI(f), Range: x.rangeOf(rf, max(rt, rf))},
-				Message:  r.Message,
+				Message:  valid(r.Message),
 			})
 		}
 		if !own {

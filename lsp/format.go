@@ -3,6 +3,7 @@ package lsp
 import (
 	"bytes"
 	"context"
+	"unicode/utf8"
 
 	"go.lsp.dev/protocol"
 
@@ -18,7 +19,9 @@ func (s *Server) Formatting(ctx context.Context, p *protocol.DocumentFormattingP
 		return nil, nil
 	}
 	out := format.Source(t.src)
-	if bytes.Equal(out, t.src) {
+	if bytes.Equal(out, t.src) || !utf8.Valid(t.src) {
+		// A text that is not UTF-8 cannot travel back to the editor
+		// unchanged; it is left as it is.
 		return []protocol.TextEdit{}, nil
 	}
 	return []protocol.TextEdit{{Range: t.rangeOf(0, len(t.src)), NewText: string(out)}}, nil

@@ -2,6 +2,7 @@ package lsp
 
 import (
 	"sort"
+	"strings"
 	"unicode/utf16"
 	"unicode/utf8"
 
@@ -97,3 +98,8 @@ func utf16Len(b []byte) int {
 	}
 	return n
 }
+
+// valid returns s with any bytes that are not UTF-8 replaced: the
+// protocol's JSON carries only valid UTF-8, and names and messages quote
+// files that may hold anything.
+func valid(s string) string { return strings.ToValidUTF8(s, "\uFFFD") }
