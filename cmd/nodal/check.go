@@ -52,9 +52,10 @@ A change reaches the designs that include the changed file: every design
 that includes a named (or, with --staged, staged) file, directly or
 through other files, is checked too, and so is every design below the
 folder of a named or staged nodal.toml. A deleted library brings in its
-includers the same way. The include graph is read from git's index with
---staged and from the work tree otherwise, over the files git tracks or
-would track; outside a git repository only the named files are checked.
+includers the same way, whether it is named or not. The include graph is
+read from git's index with --staged and from the work tree otherwise,
+over the files git tracks or would track; outside a git repository only
+the named files are checked.
 
 The text form is one finding per line, the form editors parse:
 

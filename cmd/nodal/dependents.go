@@ -91,8 +91,9 @@ func sayDependents(stderr io.Writer, deps []string) {
 func isConfigName(p string) bool { return filepath.Base(p) == "nodal.toml" }
 
 // worktreeDependents adds to names (paths as the user gave them) the
-// designs of the work tree that depend on them or on the named paths
-// (deleted .nodal files and nodal.toml files among them).
+// designs of the work tree that depend on them, on the named paths
+// (deleted .nodal files and nodal.toml files among them), or on a .nodal
+// file git knows that is gone from the disk.
 func worktreeDependents(names, paths []string, stderr io.Writer) []string {
 	root, _, err := gitRoot(".")
 	if err != nil {
@@ -143,6 +144,23 @@ func worktreeDependents(names, paths []string, stderr io.Writer) []string {
 		case strings.HasSuffix(p, ".nodal"):
 			if _, err := os.Lstat(p); err != nil {
 				ch.files = append(ch.files, abs(p)) // deleted: its includers change
+			}
+		}
+	}
+	// Files git knows that are gone from the disk, deleted in the work
+	// tree or with the deletion staged: their includers change too, though
+	// a hook's file list never names a deleted file.
+	for _, args := range [][]string{
+		{"ls-files", "-z", "--full-name", "--deleted", "--", "*.nodal"},
+		{"diff", "--cached", "--name-only", "-z", "--diff-filter=D", "--", "*.nodal"},
+	} {
+		out, err := gitOutput(root, args...)
+		if err != nil {
+			continue // a repository without commits has no staged deletions
+		}
+		for _, p := range strings.Split(string(out), "\x00") {
+			if p != "" {
+				ch.files = append(ch.files, filepath.Join(root, filepath.FromSlash(p)))
 			}
 		}
 	}
@@ -199,6 +217,16 @@ func stagedDependents(root, prefix string, names, paths []string, stderr io.Writ
 				ch.configs = append(ch.configs, rp)
 			case strings.HasSuffix(p, ".nodal") && !seen[filepath.ToSlash(rp)]:
 				ch.files = append(ch.files, rp) // not in the index: deleted
+			}
+		}
+		// Staged deletions, named or not: their includers change.
+		out, err := gitOutput(root, "diff", "--cached", "--name-only", "-z", "--diff-filter=D", "--", "*.nodal")
+		if err != nil {
+			return names, err
+		}
+		for _, p := range strings.Split(string(out), "\x00") {
+			if p != "" {
+				ch.files = append(ch.files, filepath.FromSlash(p))
 			}
 		}
 	}

@@ -94,9 +94,11 @@ func TestStagedLibraryChangeChecksIncluders(t *testing.T) {
 func TestStagedLibraryDeletionChecksIncluders(t *testing.T) {
 	dir := libRepo(t)
 	git(t, dir, "rm", "-q", "lib/loads.nodal")
-	code, out, errs := runNodal(t, dir, "", "check", "--staged")
-	if code != 1 || !strings.Contains(out, "boards/direct.nodal:1:1: error: ") || !strings.Contains(out, "[bad-include]") {
-		t.Errorf("exit %d\n%s%s", code, out, errs)
+	for _, args := range [][]string{{"check", "--staged"}, {"check", "--staged", "boards/other.nodal"}} {
+		code, out, errs := runNodal(t, dir, "", args...)
+		if code != 1 || !strings.Contains(out, "boards/direct.nodal:1:1: error: ") || !strings.Contains(out, "[bad-include]") {
+			t.Errorf("%v: exit %d\n%s%s", args, code, out, errs)
+		}
 	}
 }
 
@@ -111,6 +113,27 @@ func TestStagedConfigChecksDesignsBelow(t *testing.T) {
 	code, out, errs := runNodal(t, dir, "", "check", "--staged")
 	if code != 1 || !strings.Contains(out, "boards/other.nodal:4:1: error: ") {
 		t.Errorf("removing the nodal.toml that made the loop a note: exit %d\n%s%s", code, out, errs)
+	}
+}
+
+// A library deleted (in the work tree, or with the deletion staged)
+// brings in its includers whatever file is named.
+func TestDeletedLibraryChecksIncluders(t *testing.T) {
+	dir := libRepo(t)
+	git(t, dir, "rm", "-q", "lib/loads.nodal")
+	code, out, errs := runNodal(t, dir, "", "check", "boards/other.nodal")
+	if code != 1 || !strings.Contains(out, "boards/direct.nodal:1:1: error: ") || !strings.Contains(out, "boards/deep/top.nodal") {
+		t.Errorf("staged deletion: exit %d\n%s%s", code, out, errs)
+	}
+	git(t, dir, "reset", "-q", "HEAD", "lib/loads.nodal")
+	code, out, errs = runNodal(t, dir, "", "check", "boards/other.nodal")
+	if code != 1 || !strings.Contains(out, "boards/direct.nodal:1:1: error: ") {
+		t.Errorf("deleted in the work tree: exit %d\n%s%s", code, out, errs)
+	}
+	git(t, dir, "checkout", "lib/loads.nodal")
+	code, out, errs = runNodal(t, dir, "", "check", "boards/other.nodal")
+	if code != 0 || !strings.Contains(errs, "in 1 file") {
+		t.Errorf("nothing deleted: exit %d\n%s%s", code, out, errs)
 	}
 }
 
@@ -183,6 +206,16 @@ func TestPreCommitFrameworkFollowsIncludes(t *testing.T) {
 	git(t, dir, "add", "lib/unused.nodal")
 	if out, err := run("git", "commit", "-m", "rename an unused block"); err != nil {
 		t.Fatalf("hook blocked a change to an unused library: %v\n%s", err, out)
+	}
+
+	// The framework never names a deleted file; once the hook runs, the
+	// includers of a library deleted in the same commit are checked.
+	git(t, dir, "rm", "-q", "lib/loads.nodal")
+	write(t, filepath.Join(dir, "boards", "other.nodal"), goodDesign+"# touched\n")
+	git(t, dir, "add", "boards/other.nodal")
+	out, err = run("git", "commit", "-m", "delete the loads library")
+	if err == nil || !strings.Contains(out, "boards/direct.nodal:1:1: error: ") {
+		t.Errorf("the hook let a library deletion through that breaks its includers: %v\n%s", err, out)
 	}
 }
 
