@@ -1,0 +1,209 @@
+package circuit
+
+// attrs.go: a part's attributes (tol, rated, vf … at, dcr, …) read and
+// checked against what its kind takes.
+
+import (
+	"fmt"
+	"strings"
+
+	"nodal/grammar"
+	"nodal/units"
+)
+
+// attrKinds maps each attribute to the kinds that take it, from the kind
+// table.
+var attrKinds = func() map[string]string {
+	m := map[string]string{"rated": "every kind"}
+	for _, w := range KindWords {
+		k, _ := kindOf(w)
+		for _, a := range k.Info().Attrs {
+			if m[a] == "" {
+				m[a] = w
+			} else {
+				m[a] += ", " + w
+			}
+		}
+	}
+	return m
+}()
+
+// attrs reads the attributes. It returns false when one is unusable.
+// A kind's required attribute (vf) is asked for when needs is set.
+func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo, needs bool) bool {
+	word := pt.Kind.Text
+	ok := true
+	seen := map[string]bool{}
+	apos, aend := p.Pos, p.End // the attribute being read
+	bad := func(rule Code, format string, args ...any) {
+		b.report(rule, apos, aend, "%s %s: %s", word, p.Name, fmt.Sprintf(format, args...))
+		ok = false
+	}
+	attrs := pt.Attrs
+	if unitWord(pt) != "" {
+		attrs = attrs[1:] // reported with the value
+	}
+	for _, a := range attrs {
+		key := a.Key.Text
+		apos, aend = b.attrSpan(a)
+		kinds, knownAttr := attrKinds[key]
+		if !knownAttr {
+			bad(CodeBadAttribute, "unknown attribute %q; %s", key, takes(p.Kind))
+			continue
+		}
+		if key != "rated" && !contains(info.Attrs, key) {
+			bad(CodeBadAttribute, "%s takes no %s (%s is for: %s)", article(p.Kind.String()), key, key, kinds)
+			continue
+		}
+		if seen[key] {
+			bad(CodeBadAttribute, "%s is given twice", key)
+			continue
+		}
+		seen[key] = true
+		if a.At != nil && key != "vf" {
+			bad(CodeBadAttribute, "only vf takes \"at\" (vf 2.0 V at 20 mA)")
+			continue
+		}
+		if a.To != nil && key != "derate" {
+			bad(CodeBadAttribute, "only derate takes \"to\" (derate 70 °C to 155 °C)")
+			continue
+		}
+		if len(a.Values) == 0 {
+			bad(CodeMissingValue, "%s needs a value", key)
+			continue
+		}
+		if key != "rated" && len(a.Values) > 1 {
+			bad(CodeBadAttribute, "%s takes one value", key)
+			continue
+		}
+		qs := make([]units.Quantity, len(a.Values))
+		failed := false
+		for i, v := range a.Values {
+			q, err := b.quantity(v)
+			if err != nil {
+				failed = true
+				if rule, silent := errRule(err); !silent {
+					bad(rule, "%s %s", key, err)
+				} else {
+					ok = false
+				}
+				break
+			}
+			qs[i] = q
+		}
+		if failed {
+			continue
+		}
+		q := qs[0]
+		um := b.unitRule(a.Values...)
+		if a.At != nil {
+			um = b.unitRule(append(a.Values[:len(a.Values):len(a.Values)], a.At)...)
+		}
+		switch key {
+		case "tempco", "derate", "theta", "tjmax":
+			b.thermalAttr(p, a, q, um, bad)
+		case "tol":
+			if !q.Percent {
+				bad(um, "tol %s must be a percentage, e.g. tol 5%%", b.describe(a.Values[0]))
+			} else if q.Value < 0 || q.Value > 1 {
+				bad(CodeBadValue, "tol %s is outside 0 %% … 100 %%", units.FormatPercent(q.Value))
+			} else {
+				p.Tol = q.Value
+			}
+		case "dcr", "series", "capacity":
+			spec := quantityAttrs[key]
+			switch {
+			case q.Dim != spec.Dim || q.Percent:
+				bad(um, "%s %s must be a %s in %s", key, b.describe(a.Values[0]), spec.Dim.Noun(), spec.Dim.Symbol())
+			case spec.Zero && q.Value < 0:
+				bad(CodeBadValue, "%s %s must not be negative", key, units.Format(q.Value, q.Dim))
+			case !spec.Zero && q.Value <= 0:
+				bad(CodeBadValue, "%s %s must be positive", key, units.Format(q.Value, q.Dim))
+			default:
+				*spec.Field(p) = q.Value
+			}
+		case "ideality":
+			if q.Dim != units.None || q.Percent {
+				bad(um, "ideality is a plain number (1 to 2 for most junctions), not %s", b.describe(a.Values[0]))
+			} else if q.Value <= 0 {
+				bad(CodeBadValue, "ideality %g must be positive", q.Value)
+			} else {
+				p.Ideality = q.Value
+			}
+		case "vf":
+			if q.Dim != units.Voltage {
+				bad(um, "vf %s must be a voltage in V", b.describe(a.Values[0]))
+				continue
+			}
+			if a.At == nil {
+				bad(CodeMissingValue, "vf needs the current it is measured at: vf %s at 10 mA", b.describe(a.Values[0]))
+				continue
+			}
+			at, err := b.quantity(a.At)
+			if err != nil {
+				if rule, silent := errRule(err); !silent {
+					bad(rule, "vf … at %s", err)
+				} else {
+					ok = false
+				}
+				continue
+			}
+			if at.Dim != units.Current {
+				bad(um, "vf %s at %s: the operating point must be a current in A", b.describe(a.Values[0]), b.describe(a.At))
+				continue
+			}
+			if q.Value <= 0 || at.Value <= 0 {
+				bad(CodeBadValue, "vf %s at %s: both must be positive", units.Format(q.Value, units.Voltage), units.Format(at.Value, units.Current))
+				continue
+			}
+			p.VF, p.VFAt = q.Value, at.Value
+		case "rated":
+			for i, r := range qs {
+				if r.Percent || !containsDim(info.RatedDims(), r.Dim) {
+					bad(um, "rated %s: %s is rated in %s", b.describe(a.Values[i]), article(p.Kind.String()), dimList(info.RatedDims()))
+					continue
+				}
+				if r.Value <= 0 {
+					bad(CodeBadValue, "rated %s must be positive", units.Format(r.Value, r.Dim))
+					continue
+				}
+				var slot *float64
+				switch r.Dim {
+				case units.Power:
+					slot = &p.RatedPower
+				case units.Voltage:
+					slot = &p.RatedVoltage
+				case units.Current:
+					slot = &p.RatedCurrent
+				}
+				if *slot != 0 {
+					bad(CodeBadAttribute, "rated gives two %s ratings", r.Dim.Noun())
+					continue
+				}
+				*slot = r.Value
+			}
+		}
+	}
+	if need := info.Needs; need != "" && !seen[need] && needs {
+		apos, aend = p.Pos, p.End
+		bad(CodeMissingValue, "%s", info.NeedsHint)
+	}
+	return ok
+}
+
+func containsDim(list []units.Dim, d units.Dim) bool {
+	for _, x := range list {
+		if x == d {
+			return true
+		}
+	}
+	return false
+}
+
+func dimList(list []units.Dim) string {
+	s := make([]string, len(list))
+	for i, d := range list {
+		s[i] = d.Symbol() + " (" + d.Noun() + ")"
+	}
+	return strings.Join(s, " or ")
+}

@@ -1,0 +1,141 @@
+package circuit
+
+// part.go: one built-in part statement made into a Part: its pins bound,
+// its value and attributes read (value.go, attrs.go).
+
+import (
+	"fmt"
+	"strings"
+
+	"nodal/grammar"
+)
+
+// part elaborates one built-in part statement in scope sc, its nets already
+// bound.
+func (b *builder) part(sc *scope, st *bodyStmt, nets []NetID) {
+	d := b.r.Design
+	pt := st.pt
+	pos, end := st.pos, st.end
+	name := pt.Name.Text
+	if sc.prefix != "" {
+		name = sc.prefix + name
+	}
+	word := pt.Kind.Text
+	kind := st.kind
+	if len(pt.Params) > 0 {
+		b.report(CodeSyntax, b.pos(pt.Params[0].Pos), end, "%s %s: parameters in [ ] are for block instances, not built-in parts", word, name)
+		b.countOnly(nets)
+		return
+	}
+	p := Part{Kind: kind, Name: name, Pos: pos, End: end, Inst: sc.inst, Ideality: 0}
+
+	// Value first: for a source its unit decides the kind, and so the pins.
+	valueOK := b.value(&p, pt)
+	if !valueOK {
+		b.r.Invalid = true
+		if p.Kind.shared() {
+			// Without a usable value a source is neither kind: its
+			// pins cannot be placed.
+			b.countOnly(nets)
+			return
+		}
+	}
+	info := p.Kind.Info()
+	if !b.pins(&p, pt, nets, info) {
+		b.countOnly(nets)
+		return
+	}
+	// A refused value has said what the kind needs instead.
+	if !b.attrs(&p, pt, info, valueOK || pt.Value == nil) {
+		b.r.Invalid = true
+	}
+	b.count++
+	d.AddPart(p)
+}
+
+// countOnly counts a statement's nets as used even though the statement
+// cannot be placed, so that one bad line does not make its neighbours look
+// floating; and it marks them unsure, so that a net only that line names
+// is not reported floating either: the line's own finding says what to
+// fix.
+func (b *builder) countOnly(nets []NetID) {
+	for _, n := range nets {
+		net := &b.r.Design.Nets[n]
+		net.Pins++
+		if !b.probing { // a scratch design's names are not the design's
+			if b.r.Unsure == nil {
+				b.r.Unsure = map[string]bool{}
+			}
+			b.r.Unsure[net.Name] = true
+		}
+	}
+	b.r.Incomplete = true
+}
+
+// plural writes a count with its noun: "1 pin", "3 pins", "no pins".
+func plural(n int, noun string) string {
+	switch n {
+	case 0:
+		return "no " + noun + "s"
+	case 1:
+		return "1 " + noun
+	}
+	return fmt.Sprintf("%d %ss", n, noun)
+}
+
+// pins binds the statement's nets to the kind's pins, by position or name.
+func (b *builder) pins(p *Part, pt *grammar.Part, nets []NetID, info *KindInfo) bool {
+	word := pt.Kind.Text
+	if len(pt.Pins) != 2 {
+		b.report(CodePinCount, p.Pos, p.End, "%s %s has %s; %s has two: (%s, %s)", word, p.Name, plural(len(pt.Pins), "pin"), article(p.Kind.String()), info.Pins[0], info.Pins[1])
+		return false
+	}
+	var set [2]bool
+	for i, pin := range pt.Pins {
+		slot := i
+		if pin.Label != nil {
+			slot = -1
+			for j, pn := range info.Pins {
+				if pn == pin.Label.Text {
+					slot = j
+				}
+			}
+			if slot < 0 {
+				b.report(CodePinCount, p.Pos, p.End, "%s %s has no pin named %q; its pins are %s and %s", word, p.Name, pin.Label.Text, info.Pins[0], info.Pins[1])
+				return false
+			}
+		} else if i > 0 && pt.Pins[0].Label != nil {
+			b.report(CodePinCount, p.Pos, p.End, "%s %s mixes named and positional pins; name both (%s=…, %s=…) or neither", word, p.Name, info.Pins[0], info.Pins[1])
+			return false
+		}
+		if set[slot] {
+			b.report(CodePinCount, p.Pos, p.End, "%s %s binds pin %s twice", word, p.Name, info.Pins[slot])
+			return false
+		}
+		set[slot] = true
+		p.Pins[slot] = nets[i]
+		p.PinPos[slot] = b.pos(pin.Net.Pos)
+	}
+	return true
+}
+
+// article puts "a" or "an" before a kind: "an inductor", "a led" is
+// written "an LED".
+func article(kind string) string {
+	switch {
+	case kind == "led":
+		return "an LED"
+	case strings.IndexByte("aeiou", kind[0]) >= 0:
+		return "an " + kind
+	}
+	return "a " + kind
+}
+
+func contains(list []string, s string) bool {
+	for _, x := range list {
+		if x == s {
+			return true
+		}
+	}
+	return false
+}
