@@ -43,6 +43,13 @@ numbers:
 "use" is the largest fraction of any rating and "limit" names that rating;
 both are null for a part with no rating.
 
+Values the circuit does not fix (a section with no DC path to ground, the
+current around a loop of ideal shorts and voltage sources) are shown as
+"undetermined" (in JSON, listed in a part's "undetermined" and read as 0),
+and the ratings that need them are not judged; "nodal check" names them
+(unrated-parts). Ideal shorts in parallel are listed with the current they
+carry together ("groups" in JSON).
+
 A design with no operating point (one the topology rules reject, one that
 does not parse, or one the solver could not solve) gets its findings
 instead, in the form "nodal check" prints them (on standard error with

@@ -12,11 +12,21 @@ type jsonDoc struct {
 	Title  string     `json:"title,omitempty"`
 	Nets   []jsonNet  `json:"nets"`
 	Parts  []jsonPart `json:"parts"`
+	// Groups are the groups of ideal shorts in parallel, with the current
+	// they carry together; omitted when there are none.
+	Groups []jsonGroup `json:"groups,omitempty"`
 }
 
 type jsonNet struct {
 	Name    string  `json:"name"`
 	Voltage float64 `json:"voltage"`
+	// Undetermined is set for a net with no DC path to ground.
+	Undetermined bool `json:"undetermined,omitempty"`
+}
+
+type jsonGroup struct {
+	Parts   []string `json:"parts"`
+	Current float64  `json:"current"`
 }
 
 type jsonPart struct {
@@ -30,6 +40,9 @@ type jsonPart struct {
 	// Limit names the rating the use is of ("power", "current", "voltage"
 	// or "reverse_voltage"); null with use.
 	Limit *string `json:"limit"`
+	// Undetermined lists the values the circuit does not fix ("voltage",
+	// "current", "power"), which read 0; omitted when there are none.
+	Undetermined []string `json:"undetermined,omitempty"`
 	// Capacity (C) and Runtime (s) of a battery; see Part.
 	Capacity float64 `json:"capacity,omitempty"`
 	Runtime  float64 `json:"runtime,omitempty"`
@@ -45,7 +58,7 @@ func key(what string) string { return strings.ReplaceAll(what, " ", "_") }
 func (t *Table) WriteJSON(w io.Writer) error {
 	doc := jsonDoc{File: t.File, Design: t.Design, Title: t.Title, Nets: []jsonNet{}, Parts: []jsonPart{}}
 	for _, n := range t.Nets {
-		doc.Nets = append(doc.Nets, jsonNet{Name: n.Name, Voltage: round(n.Voltage)})
+		doc.Nets = append(doc.Nets, jsonNet{Name: n.Name, Voltage: round(n.Voltage), Undetermined: n.Undetermined})
 	}
 	for i := range t.Parts {
 		p := &t.Parts[i]
@@ -59,7 +72,19 @@ func (t *Table) WriteJSON(w io.Writer) error {
 			k := key(p.Ratings[p.Worst].What)
 			jp.Use, jp.Limit = &u, &k
 		}
+		if p.VoltageUnknown {
+			jp.Undetermined = append(jp.Undetermined, "voltage")
+		}
+		if p.CurrentUnknown {
+			jp.Undetermined = append(jp.Undetermined, "current")
+		}
+		if p.VoltageUnknown || p.CurrentUnknown {
+			jp.Undetermined = append(jp.Undetermined, "power")
+		}
 		doc.Parts = append(doc.Parts, jp)
+	}
+	for _, g := range t.Groups {
+		doc.Groups = append(doc.Groups, jsonGroup{Parts: g.Parts, Current: round(g.Current)})
 	}
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")

@@ -34,6 +34,16 @@ import (
 type Net struct {
 	Name    string
 	Voltage float64
+	// Undetermined: the net has no DC path to ground, so its voltage is
+	// not fixed by the circuit (Voltage reads 0).
+	Undetermined bool
+}
+
+// Group is a group of ideal shorts in parallel (solve.ShortGroup): the
+// current through them together is determined, its split is not.
+type Group struct {
+	Parts   []string // by name
+	Current float64  // from the first member's first pin to its second
 }
 
 // Rating is one rating of a part and the use the operating point makes of
@@ -52,6 +62,10 @@ type Part struct {
 	// Worst indexes the rating with the largest use, or is -1 when the
 	// part has no rating.
 	Worst int
+	// VoltageUnknown and CurrentUnknown say that the circuit does not
+	// fix the part's voltage or current (they read 0, and the ratings
+	// that need them are not judged: see rules.Quantities).
+	VoltageUnknown, CurrentUnknown bool
 	// Capacity is a battery's capacity in coulombs (0 for none given),
 	// and Runtime how long it lasts at the operating point's discharge
 	// current, in seconds: capacity ÷ current, a simple estimate that
@@ -110,6 +124,9 @@ type Table struct {
 	// Undriven is true when no source in the design has a non-zero value
 	// (its supply comes in through ports, say): every value is then 0.
 	Undriven bool
+	// Groups are the groups of ideal shorts in parallel, by the name of
+	// their first member.
+	Groups []Group
 }
 
 // New builds the table of design d solved as r. der gives the derating
@@ -127,7 +144,8 @@ func NewAt(file string, d *circuit.Design, r *solve.Result, der rules.Derating, 
 		if d.Nets[i].Pins == 0 {
 			continue // declared but never used: it has no voltage
 		}
-		t.Nets = append(t.Nets, Net{Name: d.Nets[i].Name, Voltage: pt.Net(circuit.NetID(i))})
+		t.Nets = append(t.Nets, Net{Name: d.Nets[i].Name, Voltage: pt.Net(circuit.NetID(i)),
+			Undetermined: r.Floating != nil && r.Floating[i]})
 	}
 	t.Undriven = true
 	t.Parts = make([]Part, len(d.Parts))
@@ -138,13 +156,21 @@ func NewAt(file string, d *circuit.Design, r *solve.Result, der rules.Derating, 
 		}
 		// The values the rating rules judge, by the same function.
 		qs := pt.Part(circuit.PartID(i))
-		p := Part{Name: q.Name, Kind: q.Kind, Voltage: qs.V, Current: qs.I, Power: qs.P}
+		p := Part{Name: q.Name, Kind: q.Kind, Voltage: qs.V, Current: qs.I, Power: qs.P,
+			VoltageUnknown: qs.VoltageUnknown, CurrentUnknown: qs.CurrentUnknown}
 		p.Ratings = rules.Judge(q, qs, der)
 		if p.Capacity = q.Capacity; p.Capacity > 0 && qs.I < 0 {
 			p.Runtime = p.Capacity / -qs.I // its current flows out of its first pin
 		}
 		p.Worst = rules.Worst(p.Ratings)
 		t.Parts[i] = p
+	}
+	for _, g := range r.Groups {
+		var names []string
+		for _, id := range g.Parts {
+			names = append(names, d.Parts[id].Name)
+		}
+		t.Groups = append(t.Groups, Group{Parts: names, Current: rules.Clean(g.I, 0, rules.FloorI)})
 	}
 	sort.SliceStable(t.Parts, func(a, b int) bool {
 		ua, oka := t.Parts[a].Use()

@@ -82,8 +82,13 @@ func (t *Table) WriteText(w io.Writer, opt TextOptions) error {
 
 	bw.WriteString("Nets\n")
 	nets := [][]string{{"net", "voltage"}}
+	unknown := false
 	for _, n := range t.Nets {
-		nets = append(nets, []string{output.LineSafe(n.Name), units.Format(n.Voltage, units.Voltage)})
+		v := units.Format(n.Voltage, units.Voltage)
+		if n.Undetermined {
+			v, unknown = undetermined, true
+		}
+		nets = append(nets, []string{output.LineSafe(n.Name), v})
 	}
 	writeColumns(bw, nets, []bool{false, true}, nil)
 
@@ -104,8 +109,17 @@ func (t *Table) WriteText(w io.Writer, opt TextOptions) error {
 		}
 		lv := p.Level()
 		over = over || lv == Over
-		rows = append(rows, []string{output.LineSafe(p.Name), p.Kind.String(), units.Format(p.Voltage, units.Voltage),
-			units.Format(p.Current, units.Current), units.Format(p.Power, units.Power), rating, use, bar})
+		v, c, pw := units.Format(p.Voltage, units.Voltage), units.Format(p.Current, units.Current), units.Format(p.Power, units.Power)
+		if p.VoltageUnknown {
+			v = undetermined
+		}
+		if p.CurrentUnknown {
+			c = undetermined
+		}
+		if p.VoltageUnknown || p.CurrentUnknown {
+			pw, unknown = undetermined, true
+		}
+		rows = append(rows, []string{output.LineSafe(p.Name), p.Kind.String(), v, c, pw, rating, use, bar})
 		paint = append(paint, painter(lv, opt.Color))
 	}
 	writeColumns(bw, rows, []bool{false, false, true, true, true, true, true, false}, paint)
@@ -114,6 +128,19 @@ func (t *Table) WriteText(w io.Writer, opt TextOptions) error {
 
 	bw.WriteString("\nVoltage is V(first pin) − V(second pin); current flows from the first pin\n" +
 		"to the second through the part; power is positive when absorbed.\n")
+	if unknown {
+		bw.WriteString("Values shown as " + undetermined + " are not fixed by the circuit (a section with no\n" +
+			"DC path to ground, or a loop of ideal shorts and voltage sources), so the\n" +
+			"ratings that need them are not judged; \"nodal check\" names them.\n")
+	}
+	for _, g := range t.Groups {
+		names := make([]string, len(g.Parts))
+		for i, n := range g.Parts {
+			names[i] = output.LineSafe(n)
+		}
+		bw.WriteString(strings.Join(names, ", ") + " in parallel carry " + units.Format(math.Abs(g.Current), units.Current) +
+			" together; how it divides between them is not determined.\n")
+	}
 	if over {
 		bw.WriteString("Parts past a rating (▶) can overheat, burn or fail. nodal is a design aid,\n" +
 			"not a sign-off: have the design reviewed, and follow local codes and\n" +
@@ -162,6 +189,9 @@ func Duration(s float64) string {
 	}
 	return strconv.FormatFloat(s/86400, 'f', 1, 64) + " days"
 }
+
+// undetermined stands in the table for a value the circuit does not fix.
+const undetermined = "undetermined"
 
 // painter returns what colours the use column of a row, or nil.
 func painter(lv Level, on bool) func(string) string {
