@@ -19,6 +19,7 @@ import (
 	"strings"
 
 	"nodal/check"
+	"nodal/input"
 	"nodal/output"
 )
 
@@ -97,6 +98,11 @@ func isConfigName(p string) bool { return filepath.Base(p) == "nodal.toml" }
 func worktreeDependents(names, paths []string, stderr io.Writer) []string {
 	root, _, err := gitRoot(".")
 	if err != nil {
+		if loc, lerr := input.Locate("."); lerr == nil && loc.Top != "" {
+			// A repository git could not be asked about: say what was not
+			// done rather than skip it quietly.
+			fmt.Fprintf(stderr, "nodal: note: designs that include the named files were not looked for: %s\n", output.TextSafe(err.Error()))
+		}
 		return names // no repository: no graph to follow
 	}
 	cwd, err := os.Getwd()
@@ -110,6 +116,7 @@ func worktreeDependents(names, paths []string, stderr io.Writer) []string {
 	}
 	out, err := gitOutput(root, "ls-files", "-z", "--full-name", "--cached", "--others", "--exclude-standard", "--", "*.nodal")
 	if err != nil {
+		fmt.Fprintf(stderr, "nodal: note: designs that include the named files were not looked for: %s\n", output.TextSafe(err.Error()))
 		return names
 	}
 	abs := func(p string) string {

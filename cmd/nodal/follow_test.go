@@ -296,3 +296,14 @@ func TestDependentsNoteEscapesNames(t *testing.T) {
 		t.Errorf("the odd name is not shown escaped:\n%s", errs)
 	}
 }
+
+// Inside a repository git cannot be asked about (here: no git on the
+// path), the includers are not looked for, and a note says so.
+func TestDependentsWithoutGitSaysSo(t *testing.T) {
+	dir := libRepo(t)
+	t.Setenv("PATH", t.TempDir())
+	code, _, errs := runNodal(t, dir, "", "check", "lib/loads.nodal")
+	if code != 0 || !strings.Contains(errs, "note: designs that include the named files were not looked for") {
+		t.Errorf("exit %d, stderr %q", code, errs)
+	}
+}
