@@ -138,7 +138,11 @@ func evalFactor(f *grammar.Factor, look Lookup) (units.Quantity, error) {
 	}
 	q, err := units.Parse(f.Num, f.Unit)
 	if err != nil {
-		return q, &ExprError{Code: CodeParamUnit, Offset: f.Pos.Offset, Msg: err.Error()}
+		code := CodeParamUnit
+		if ue, ok := err.(*units.Error); ok && ue.Range {
+			code = CodeBadValue // a value out of range, whatever its unit
+		}
+		return q, &ExprError{Code: code, Offset: f.Pos.Offset, Msg: err.Error()}
 	}
 	return q, nil
 }

@@ -66,6 +66,8 @@ func TestEval(t *testing.T) {
 		{expr: "1 V / 0 A", code: CodeBadValue, msg: "division by zero"},
 		{expr: "vdrop / (i - 10 mA)", code: CodeBadValue, msg: "division by zero"},
 		{expr: "1e300 V * 1e300", code: CodeBadValue, msg: "too large"},
+		{expr: "2 * 1e-400 Ω", code: CodeBadValue, msg: "1e-400 Ω underflows"},
+		{expr: "1e999 V", code: CodeBadValue, msg: "too large"},
 		{expr: "rr * 2", code: CodeUnknownParam, msg: "no parameter named rr"},
 		{expr: "1 kΩ / 1 Ω", value: 1000, dim: units.None},
 		// Resistor codes of IEC 60062: R47 is 0.47 Ω, 4k7 is 4.7 kΩ.

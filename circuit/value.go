@@ -204,7 +204,7 @@ func errRule(err error) (Code, bool) {
 	if ee, ok := err.(*ExprError); ok {
 		return ee.Code, ee.Code == NoCode
 	}
-	if ue, ok := err.(*units.Error); ok && (strings.Contains(ue.Msg, "unit") || strings.Contains(ue.Msg, "prefix")) {
+	if ue, ok := err.(*units.Error); ok && !ue.Range && (strings.Contains(ue.Msg, "unit") || strings.Contains(ue.Msg, "prefix")) {
 		return CodeUnitMismatch, false
 	}
 	return CodeBadValue, false

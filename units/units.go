@@ -184,6 +184,10 @@ type Error struct {
 	// after it ("10k"), so that a caller who knows the unit expected can
 	// say what to write.
 	Number, Prefix string
+	// Range is set when the text reads but its value is out of the range
+	// a float64 holds (too large, or so small it would read as 0): the
+	// value is wrong, not its unit.
+	Range bool
 }
 
 func (e *Error) Error() string {
@@ -230,7 +234,7 @@ func Parse(num, unit string) (Quantity, error) {
 	v, err := strconv.ParseFloat(digits, 64)
 	if err != nil || math.IsInf(v, 0) || math.IsNaN(v) {
 		if ne, ok := err.(*strconv.NumError); ok && ne.Err == strconv.ErrRange {
-			return Quantity{}, &Error{Text: num, Msg: fmt.Sprintf("%s is too large to represent", num), Hint: "values must be finite"}
+			return Quantity{}, &Error{Text: num, Msg: fmt.Sprintf("%s is too large to represent", num), Hint: "values must be finite", Range: true}
 		}
 		return Quantity{}, &Error{Text: num, Msg: fmt.Sprintf("%q is not a number", num)}
 	}
@@ -273,7 +277,7 @@ func Parse(num, unit string) (Quantity, error) {
 	}
 	w := v * scale
 	if math.IsInf(w, 0) {
-		return Quantity{}, &Error{Text: num, Msg: fmt.Sprintf("%s%s is too large to represent", num, unit), Hint: "values must be finite"}
+		return Quantity{}, &Error{Text: num, Msg: fmt.Sprintf("%s%s is too large to represent", num, unit), Hint: "values must be finite", Range: true}
 	}
 	if w == 0 && v != 0 {
 		return Quantity{}, underflow(num, unit)
@@ -300,7 +304,7 @@ func nonZero(digits string) bool {
 func underflow(num, unit string) *Error {
 	text := strings.TrimSpace(num + " " + unit)
 	return &Error{Text: text, Msg: fmt.Sprintf("%s underflows: it is too small to represent and would read as 0", text),
-		Hint: "check the exponent"}
+		Hint: "check the exponent", Range: true}
 }
 
 func badSuffix(text string) *Error {
