@@ -231,6 +231,12 @@ func (a *analysis) sensitivities() error {
 		a.tEnd[q] = tNom
 	}
 	rhs, dx := make([]float64, j.n), make([]float64, j.n)
+	// With more parameters than unknowns, a part parameter's right side
+	// (two entries) is cheaper as a combination of the columns of J⁻¹.
+	inverse := nparam > j.n && j.n <= maxInverse
+	if inverse {
+		j.invert()
+	}
 	dv, di, dnet := make([]float64, len(d.Parts)), make([]float64, len(d.Parts)), make([]float64, len(d.Nets))
 	for k := 0; k < nparam; k++ {
 		p := Param{Part: -1}
@@ -238,10 +244,7 @@ func (a *analysis) sensitivities() error {
 			p = ps[k]
 		}
 		j.rhs(rhs, p, d.Parts)
-		copy(dx, rhs)
-		if j.n > 0 {
-			j.lu.Solve(dx)
-		}
+		j.solve(dx, rhs, p.Part >= 0 && inverse)
 		j.partDeltas(dx, p, d.Parts, dv, di)
 		j.netDeltas(dx, dnet)
 		if p.Part >= 0 {

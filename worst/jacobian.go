@@ -24,6 +24,7 @@ type jacobian struct {
 	gd     []float64
 	n      int
 	lu     sparse.LU
+	inv    []float64 // columns of J⁻¹, when kept (see invert)
 }
 
 // newJacobian builds and factors the Jacobian of d (values at the nominal
@@ -249,6 +250,43 @@ func (j *jacobian) netDeltas(dx []float64, out []float64) {
 		out[i] = 0
 		if k >= 0 {
 			out[i] = dx[k]
+		}
+	}
+}
+
+// maxInverse is the largest system whose inverse is kept (8 MB per 1000
+// unknowns squared).
+const maxInverse = 3000
+
+// invert computes the columns of J⁻¹, one solve each.
+func (j *jacobian) invert() {
+	j.inv = make([]float64, j.n*j.n)
+	for k := 0; k < j.n; k++ {
+		col := j.inv[k*j.n : (k+1)*j.n]
+		col[k] = 1
+		j.lu.Solve(col)
+	}
+}
+
+// solve sets dx = J⁻¹·f: from the kept inverse when byInverse is set (f
+// then has few entries), else by the factors.
+func (j *jacobian) solve(dx, f []float64, byInverse bool) {
+	if j.n == 0 {
+		return
+	}
+	if !byInverse || j.inv == nil {
+		copy(dx, f)
+		j.lu.Solve(dx)
+		return
+	}
+	clear(dx)
+	for k, x := range f {
+		if x == 0 {
+			continue
+		}
+		col := j.inv[k*j.n : (k+1)*j.n]
+		for i, z := range col {
+			dx[i] += x * z
 		}
 	}
 }

@@ -80,10 +80,12 @@ func run(args []string, stdout, stderr io.Writer) int {
 		err = (&gen.Blocks{N: *n, Seed: *seed}).Write(stdout)
 	case "random":
 		parts := fl.Int("parts", 1000, "about this many parts")
+		tol := fl.Float64("tol", 0, "give every resistor and source this tolerance in percent")
+		rated := fl.Float64("rated", 0, "give every resistor this power rating in W")
 		if fl.Parse(args[1:]) != nil {
 			return 2
 		}
-		err = (&gen.Random{Parts: *parts, Seed: *seed}).Write(stdout)
+		err = (&gen.Random{Parts: *parts, Seed: *seed, Tol: *tol / 100, Rated: *rated}).Write(stdout)
 	default:
 		fmt.Fprintf(stderr, "nodal-gen: unknown kind %q\n\n%s", args[0], usage)
 		return 2

@@ -275,6 +275,10 @@ func (l *Ladder) Write(out io.Writer) error {
 type Random struct {
 	Parts int
 	Seed  uint64
+	// Tol, when set, gives every resistor and source this tolerance (a
+	// fraction) instead of the few that have one, and Rated every
+	// resistor this power rating in W: for the worst-case benchmarks.
+	Tol, Rated float64
 }
 
 // Write writes the random design.
@@ -285,6 +289,14 @@ func (g *Random) Write(out io.Writer) error {
 	x.s("ground gnd").end()
 	// Net 0 is gnd, net 1 the supply.
 	x.s("source vs (n1, gnd) 3.3 V tol 5%").end()
+	tolAll := func() {
+		if g.Tol > 0 {
+			x.s(" tol ").f(g.Tol * 100).s("%")
+		}
+		if g.Rated > 0 {
+			x.s(" rated ").f(g.Rated).s(" W")
+		}
+	}
 	nets := max(2, g.Parts/3)
 	name := func(i int) *w {
 		if i == 0 {
@@ -303,10 +315,14 @@ func (g *Random) Write(out io.Writer) error {
 		case 1:
 			x.f(float64(1+r.IntN(999)) / 10).s("kΩ")
 		case 2:
-			x.i(1 + r.IntN(999)).s(" Ω tol 1%")
+			x.i(1 + r.IntN(999)).s(" Ω")
+			if g.Tol == 0 {
+				x.s(" tol 1%")
+			}
 		default:
 			x.i(1 + r.IntN(99)).s(" mΩ")
 		}
+		tolAll()
 		x.end()
 		part++
 	}
@@ -345,7 +361,11 @@ func (g *Random) Write(out io.Writer) error {
 			name(b).s(") 100 nF tol 10%").end()
 		case 1:
 			x.s("source j").i(part).s(" (n").i(a).s(", ")
-			name(b).s(") ").i(1 + r.IntN(9)).s(" uA").end()
+			name(b).s(") ").i(1 + r.IntN(9)).s(" uA")
+			if g.Tol > 0 {
+				x.s(" tol ").f(g.Tol * 100).s("%")
+			}
+			x.end()
 		case 2:
 			x.s("diode d").i(part).s(" (anode=n").i(a).s(", cathode=")
 			name(b).s(") vf 0.7 V at 10 mA").end()
