@@ -339,3 +339,23 @@ func TestStagedGitStates(t *testing.T) {
 		}
 	})
 }
+
+// nodal report prints the title, the design name and net and part names
+// escaped: no line it writes can begin with "::" or hold a raw control
+// character.
+func TestReportForgedNames(t *testing.T) {
+	dir := t.TempDir()
+	write(t, filepath.Join(dir, ".git", "HEAD"), "")
+	src := "design board \"title\x1b[2J\x07\"\nground gnd\n" +
+		"source V1 (\"::warning::net\", gnd) 5 V\nresistor R1 (\"::warning::net\", \"<b>x</b>\") 1 kΩ\nresistor R2 (\"<b>x</b>\", gnd) 1 kΩ\n"
+	write(t, filepath.Join(dir, "r.nodal"), src)
+	t.Chdir(dir)
+	code, out, errOut := runCLI(t, "", "report", "r.nodal")
+	if code != 0 {
+		t.Fatalf("exit %d\n%s\n%s", code, out, errOut)
+	}
+	if !strings.Contains(out, `\x3a:warning::net`) || !strings.Contains(out, `title\x1b[2J\x07`) {
+		t.Errorf("the title or a net name is not shown escaped:\n%s", out)
+	}
+	checkSafe(t, "report", out, errOut)
+}
