@@ -77,7 +77,7 @@ func FuzzFormatVerdict(f *testing.F) {
 			f.Add(src)
 		}
 	}
-	f.Add([]byte("ground gnd\nsource V1 (a, gnd) - 5 V\nresistor R1 (a,gnd)1 kΩ # nodal: allow floating-net -- x\n"))
+	f.Add([]byte("ground gnd\nsource V1 (a, gnd) - 5 V\nresistor R1 (a,gnd)1 kΩ # nodal: accept floating-net because x\n"))
 	f.Fuzz(func(t *testing.T, src []byte) {
 		sameVerdict(t, src)
 	})

@@ -463,3 +463,36 @@ func TestParameterNotationMistakes(t *testing.T) {
 		}
 	}
 }
+
+// Small slips with their own messages: a byte-order mark an editor wrote
+// at the start of the file is no token; an empty quoted name is refused
+// where it stands; a capital K is told to be a lower-case k (SI Brochure,
+// 9th edition, 2019, section 3: prefix symbols are case-sensitive and kilo
+// is k); two ratings without a comma are told to take one.
+func TestSmallSlips(t *testing.T) {
+	res := run(t, "\ufeffground gnd\nsource V1 (a, gnd) 1 V\nresistor R1 (a, gnd) 1 kΩ\n")
+	if len(res.Diags) != 0 {
+		t.Errorf("a byte-order mark at the start: %v", lines(res))
+	}
+	cases := []struct{ line, want string }{
+		{`resistor R1 (a, "") 1 kΩ`, `3:17: error: a name cannot be empty`},
+		{`port ""`, `3:6: error: a name cannot be empty`},
+		{`resistor R1 (a, gnd) 1.5 KΩ`, `3:26: error: "KΩ" is not a unit; write kΩ (k is kilo, in lower case) [syntax]`},
+		{`resistor R1 (a, gnd) 1.5 Kohm`, `write kohm (k is kilo, in lower case) [unit-mismatch]`},
+		{`resistor R1 (a, gnd) 1.5KΩ`, `write kΩ (k is kilo, in lower case) [unit-mismatch]`},
+		{`resistor R1 (a, gnd) 100 MOHM`, `write Mohm or mohm (unit symbols and prefixes are case-sensitive)`},
+		{`resistor R1 (a, gnd) 1 kΩ rated 0.5 W 50 V`, `3:40: error: unexpected "50"; expected a comma between the values of rated (rated 0.5 W, 50 V) [syntax]`},
+	}
+	for _, c := range cases {
+		got := lines(run(t, "ground gnd\nsource V1 (a, gnd) 1 V\n"+c.line+"\n"))
+		if !strings.Contains(strings.Join(got, "\n"), c.want) {
+			t.Errorf("%s:\n  got  %s\n  want %s", c.line, strings.Join(got, "\n       "), c.want)
+		}
+	}
+	// An empty name costs its line like any syntax error, and the nets the
+	// line names are not then reported as floating.
+	got := lines(run(t, "ground gnd\nsource V1 (a, gnd) 1 V\nresistor R1 (a, \"\") 1 kΩ\n"))
+	if len(got) != 1 {
+		t.Errorf("an empty net name: %v, want the one syntax finding", got)
+	}
+}

@@ -179,9 +179,13 @@ func (w *walker) part() (int, string, bool) {
 		return at, e, ok
 	}
 	// Attributes.
+	lastKey, lastHadValues := "", false
 	for !w.eol() {
 		t := w.peek()
 		if !nameLike(t) || t.Type == TokString {
+			if lastHadValues && w.startsValue() {
+				return fail("a comma between the values of " + lastKey + " (rated 0.5 W, 50 V)")
+			}
 			if !hasValue {
 				return fail("a value, an attribute (tol, rated, vf, ideality, series, dcr) or end of line")
 			}
@@ -189,6 +193,7 @@ func (w *walker) part() (int, string, bool) {
 		}
 		key := t.Value
 		w.i++
+		lastKey, lastHadValues = key, key == "rated" && w.startsValue() // rated alone takes several values
 		if w.startsValue() {
 			for {
 				if at, e, ok := w.value(true); ok {

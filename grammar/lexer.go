@@ -2,6 +2,7 @@ package grammar
 
 import (
 	"io"
+	"strings"
 	"unicode"
 	"unicode/utf8"
 
@@ -46,6 +47,10 @@ var attrWords = map[string]bool{
 	"tol": true, "rated": true, "vf": true, "at": true, "ideality": true,
 	"series": true, "dcr": true, "open": true, "closed": true,
 }
+
+// byteOrderMark is U+FEFF in UTF-8, which some editors write at the start
+// of a file.
+const byteOrderMark = "\ufeff"
 
 // MaxLineTokens bounds the tokens of one line; a longer line is a syntax
 // error rather than a reason to allocate without limit.
@@ -114,6 +119,9 @@ func isWordPart(r rune) bool  { return r == '_' || unicode.IsLetter(r) || unicod
 func appendLine(toks []lexer.Token, src string, off, end, line int, comments *[]lexer.Token, words *wordCache) []lexer.Token {
 	start := len(toks)
 	i := off
+	if i == 0 && strings.HasPrefix(src[:end], byteOrderMark) {
+		i += len(byteOrderMark) // a byte-order mark opening the file is no token
+	}
 	for i < end {
 		c := src[i]
 		if c == ' ' || c == '\t' || c == '\r' || c == '\f' || c == '\v' {

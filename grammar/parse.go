@@ -26,6 +26,8 @@ import (
 
 	"github.com/alecthomas/participle/v2"
 	"github.com/alecthomas/participle/v2/lexer"
+
+	"nodal/units"
 )
 
 var parser = participle.MustBuild[Statement](
@@ -132,7 +134,7 @@ func parse(name string, src string, fast bool) *File {
 				if st, err := parseLine(toks); err != nil {
 					f.Errors = append(f.Errors, err)
 				} else {
-					f.Stmts = append(f.Stmts, finish(st, toks[len(toks)-2]))
+					f.add(st, toks[len(toks)-2])
 				}
 				toks = toks[:0]
 			}
@@ -142,6 +144,67 @@ func parse(name string, src string, fast bool) *File {
 	}
 	flush()
 	return f
+}
+
+// add records a parsed statement, or the syntax error of a statement that
+// parses but names a net with an empty string. The fast path and the
+// grammar both end here, so they agree on it.
+func (f *File) add(st *Statement, last lexer.Token) {
+	if n := emptyName(st); n != nil {
+		se := &SyntaxError{Offset: n.Pos.Offset, End: n.Pos.Offset + len(n.Text), Line: n.Pos.Line,
+			Msg: "a name cannot be empty: write the net's name between the quotes, or a plain name such as vin"}
+		if st.Part != nil {
+			for _, pin := range st.Part.Pins {
+				se.Words = append(se.Words, pin.Net.Text)
+			}
+		}
+		f.Errors = append(f.Errors, se)
+		return
+	}
+	f.Stmts = append(f.Stmts, finish(st, last))
+}
+
+// emptyName returns the first name of st written as "", or nil.
+func emptyName(st *Statement) *Name {
+	empty := func(n *Name) bool { return n != nil && n.Text == `""` }
+	switch {
+	case st.Part != nil:
+		p := st.Part
+		if empty(p.Kind) {
+			return p.Kind
+		}
+		if empty(p.Name) {
+			return p.Name
+		}
+		for _, pin := range p.Pins {
+			if empty(pin.Label) {
+				return pin.Label
+			}
+			if empty(pin.Net) {
+				return pin.Net
+			}
+		}
+	case st.Ground != nil && empty(st.Ground.Net):
+		return st.Ground.Net
+	case st.Port != nil:
+		for _, n := range st.Port.Nets {
+			if empty(n) {
+				return n
+			}
+		}
+	case st.Block != nil:
+		if empty(st.Block.Name) {
+			return st.Block.Name
+		}
+		for _, n := range st.Block.Pins {
+			if empty(n) {
+				return n
+			}
+		}
+	case st.Design != nil && empty(st.Design.Name):
+		return st.Design.Name
+	}
+	return nil
 }
 
 // finish ends a statement at its last token, not at a trailing comment or
@@ -172,7 +235,7 @@ func parseBatch(f *File, tb *tokenBuffer, toks []lexer.Token, spans []lineSpan, 
 		}
 		if b.Run != nil {
 			for _, st := range b.Run.sts {
-				f.Stmts = append(f.Stmts, finish(st, toks[spans[k].to-1]))
+				f.add(st, toks[spans[k].to-1])
 				k++
 			}
 		}
@@ -197,7 +260,7 @@ func parseAlone(f *File, toks []lexer.Token, sp lineSpan, lineToks *[]lexer.Toke
 	if st, err := parseLine(lt); err != nil {
 		f.Errors = append(f.Errors, err)
 	} else {
-		f.Stmts = append(f.Stmts, finish(st, lt[len(lt)-2]))
+		f.add(st, lt[len(lt)-2])
 	}
 }
 
@@ -227,7 +290,7 @@ func syntaxError(err error, toks []lexer.Token) *SyntaxError {
 	}
 	if at, expect, ok := explain(toks); ok && at < len(toks) {
 		t := toks[at]
-		return &SyntaxError{Offset: t.Pos.Offset, End: t.Pos.Offset + len(t.Value), Line: t.Pos.Line, Msg: describeUnexpected(t, expect)}
+		return &SyntaxError{Offset: t.Pos.Offset, End: t.Pos.Offset + len(t.Value), Line: t.Pos.Line, Msg: describeUnexpected(t, expect, afterNumber(toks, t))}
 	}
 	pos := toks[0].Pos
 	msg := err.Error()
@@ -236,14 +299,14 @@ func syntaxError(err error, toks []lexer.Token) *SyntaxError {
 	switch {
 	case errors.As(err, &unexpected):
 		pos = unexpected.Unexpected.Pos
-		msg = describeUnexpected(unexpected.Unexpected, unexpected.Expect)
+		msg = describeUnexpected(unexpected.Unexpected, unexpected.Expect, afterNumber(toks, unexpected.Unexpected))
 	case errors.As(err, &perr):
 		pos = perr.Position()
 		msg = perr.Message()
 		for _, t := range toks {
 			if t.Pos.Offset == pos.Offset {
 				if strings.HasPrefix(msg, "unexpected token") {
-					msg = describeUnexpected(t, "")
+					msg = describeUnexpected(t, "", afterNumber(toks, t))
 				}
 				break
 			}
@@ -259,7 +322,20 @@ func syntaxError(err error, toks []lexer.Token) *SyntaxError {
 	return &SyntaxError{Offset: pos.Offset, End: end, Line: pos.Line, Msg: msg}
 }
 
-func describeUnexpected(t lexer.Token, expect string) string {
+// afterNumber reports whether t follows a number on its line, where a word
+// is meant as a unit.
+func afterNumber(toks []lexer.Token, t lexer.Token) bool {
+	for i := 1; i < len(toks); i++ {
+		if toks[i].Pos.Offset == t.Pos.Offset {
+			return toks[i-1].Type == TokNumber
+		}
+	}
+	return false
+}
+
+// describeUnexpected words an unexpected token; unitPlace says a unit
+// would have stood there.
+func describeUnexpected(t lexer.Token, expect string, unitPlace bool) string {
 	var what string
 	switch t.Type {
 	case TokEOF:
@@ -272,6 +348,9 @@ func describeUnexpected(t lexer.Token, expect string) string {
 			return fmt.Sprintf("line has more than %d tokens", MaxLineTokens)
 		case strings.HasSuffix(t.Value, "…"):
 			return fmt.Sprintf("token longer than %d bytes", MaxTokenBytes)
+		}
+		if fix := units.CaseFix(t.Value); fix != "" && unitPlace {
+			return fmt.Sprintf("%q is not a unit; %s", t.Value, fix)
 		}
 		what = fmt.Sprintf("%q, which is not valid here (names use A-Z, a-z, 0-9 and _; other text belongs in double quotes)", t.Value)
 	default:

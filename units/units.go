@@ -26,6 +26,7 @@ package units
 import (
 	"fmt"
 	"math"
+	"sort"
 	"strconv"
 	"strings"
 )
@@ -204,6 +205,36 @@ func IsUnit(s string) bool {
 	return ok
 }
 
+// CaseFix says how to write a unit word that is a unit but for the case
+// of its letters ("KΩ", "Kohm", "mw"), or returns "". Prefixes and symbols
+// are case-sensitive: M is mega and m milli, and K is nothing.
+func CaseFix(word string) string {
+	if word == "" || IsUnit(word) {
+		return ""
+	}
+	if strings.HasPrefix(word, "K") && IsUnit("k"+word[1:]) {
+		return "write k" + word[1:] + " (k is kilo, in lower case)"
+	}
+	var found []string
+	for p := range prefixes {
+		for sym := range symbols {
+			if strings.EqualFold(p+sym, word) {
+				found = append(found, p+sym)
+			}
+		}
+	}
+	for sym := range symbols {
+		if strings.EqualFold(sym, word) {
+			found = append(found, sym)
+		}
+	}
+	if len(found) == 0 {
+		return ""
+	}
+	sort.Strings(found)
+	return "write " + strings.Join(found, " or ") + " (unit symbols and prefixes are case-sensitive)"
+}
+
 func splitUnit(s string) (scale float64, d Dim, ok bool) {
 	if s == "%" {
 		return 0.01, None, true
@@ -311,6 +342,11 @@ func badSuffix(text string) *Error {
 	lower := strings.ToLower(text)
 	if strings.Contains(lower, "meg") {
 		return &Error{Text: text, Msg: fmt.Sprintf("%q: \"meg\" is not a prefix", text), Hint: "write M for mega (1 MΩ) and m for milli (1 mA)"}
+	}
+	if i := strings.IndexFunc(text, func(r rune) bool { return !(r >= '0' && r <= '9' || r == '.' || r == ' ' || r == '-' || r == '+') }); i >= 0 {
+		if fix := CaseFix(text[i:]); fix != "" {
+			return &Error{Text: text, Msg: fmt.Sprintf("%q is not a unit", text), Hint: fix}
+		}
 	}
 	return &Error{Text: text, Msg: fmt.Sprintf("%q is not a unit", text), Hint: "units are Ω (or ohm), F, H, V, A, W, Ah and %, with an optional prefix p n u µ m k M G T, and °C (or degC), K/W and ppm/K"}
 }

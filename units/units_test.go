@@ -218,3 +218,23 @@ func TestAmpereHour(t *testing.T) {
 		t.Error("two prefixes accepted")
 	}
 }
+
+// Prefix and unit symbols are case-sensitive (SI Brochure, 9th edition,
+// 2019, section 3): a word that is a unit but for its case gets the
+// spelling it was meant to have, and a unit or an unrelated word gets none.
+func TestCaseFix(t *testing.T) {
+	for _, c := range []struct{ word, want string }{
+		{"KΩ", "write kΩ (k is kilo, in lower case)"},
+		{"KV", "write kV (k is kilo, in lower case)"},
+		{"v", "write V (unit symbols and prefixes are case-sensitive)"},
+		{"OHM", "write ohm (unit symbols and prefixes are case-sensitive)"},
+		{"kΩ", ""},
+		{"mA", ""},
+		{"gnd", ""},
+		{"", ""},
+	} {
+		if got := CaseFix(c.word); got != c.want {
+			t.Errorf("CaseFix(%q) = %q, want %q", c.word, got, c.want)
+		}
+	}
+}
