@@ -9,7 +9,7 @@ import (
 	"nodal/rules"
 )
 
-var sections = []string{"## What it checks", "## Why it matters", "## Example", "## How to fix", "## How to accept"}
+var sections = []string{"## What nodal looks for", "## What can go wrong", "## Example", "## Putting it right", "## Accepting a finding"}
 
 // noShortExample lists rules that no small design can fire: no-convergence
 // needs a design that defeats Newton, gmin and source stepping, and every

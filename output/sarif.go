@@ -152,7 +152,7 @@ func writeSARIF(w io.Writer, r *Report, opt Options) error {
 		help := sarifText{Text: full}
 		if page, ok := docs.Rule(a.Name); ok {
 			help = sarifText{Text: page, Markdown: page}
-			if what := docs.Section(page, "What it checks"); what != "" {
+			if what := docs.Section(page, "What nodal looks for"); what != "" {
 				full = strings.Join(strings.Fields(what), " ")
 			}
 		}

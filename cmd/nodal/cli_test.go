@@ -129,7 +129,7 @@ func TestRulePagesWithoutPlaceholderLinks(t *testing.T) {
 		if r.HelpURI != nil {
 			t.Errorf("%s: helpUri %q without NODAL_DOCS_URL", r.ID, *r.HelpURI)
 		}
-		if !strings.Contains(r.Help.Markdown, "## How to fix") || !strings.HasPrefix(r.Help.Text, "# "+r.ID) {
+		if !strings.Contains(r.Help.Markdown, "## Putting it right") || !strings.HasPrefix(r.Help.Text, "# "+r.ID) {
 			t.Errorf("%s: the rule's page is not in the log: %q", r.ID, r.Help.Text)
 		}
 		if r.FullDescription.Text == "" {

@@ -12,7 +12,7 @@ import (
 
 func cmdRules(args []string, stdout, stderr io.Writer) int {
 	if len(args) > 0 && (args[0] == "-h" || args[0] == "--help" || args[0] == "-help") {
-		fmt.Fprintln(stdout, "Usage: nodal rules [RULE]\n\nLists every rule with its default severity and a one-line description,\nor with a rule id prints the rule's page: what it checks, why it\nmatters, an example, the fix and how to accept it.")
+		fmt.Fprintln(stdout, "Usage: nodal rules [RULE]\n\nLists every rule with its default severity and a one-line description,\nor with a rule id prints the rule's page: what nodal looks for, what\ncan go wrong, an example, how to put it right and how to accept a finding.")
 		return 0
 	}
 	if len(args) > 0 {
