@@ -73,6 +73,7 @@ func (s *Server) schedule(d *document, debounce bool) {
 	if s.shutdown || d.closed {
 		return
 	}
+	d.gen++ // whatever asked for the check, the one before it is stale
 	if d.timer != nil {
 		d.timer.Stop()
 	}
@@ -108,6 +109,10 @@ func (s *Server) start(d *document) {
 		d.again = true
 		s.mu.Unlock()
 		return
+	}
+	if d.last != nil && d.last.gen == d.gen {
+		s.mu.Unlock()
+		return // this text is checked and published already
 	}
 	d.running = true
 	gen, version, src, path := d.gen, d.version, d.text, d.path

@@ -49,7 +49,7 @@ import (
 // Options tune the server.
 type Options struct {
 	// Debounce is how long the server waits after an edit before it
-	// checks (0: 50 ms; negative: no wait).
+	// checks (0: 30 ms; negative: no wait).
 	Debounce time.Duration
 	// Parallel bounds the checks that run at once (0: 2).
 	Parallel int
@@ -76,9 +76,10 @@ type Server struct {
 // until the client exits or the connection closes.
 func Serve(ctx context.Context, in io.Reader, out io.Writer, opt Options) error {
 	s := newServer(opt)
-	stream := jsonrpc2.NewStream(&pipe{in, out})
-	_, conn, client := protocol.NewServer(ctx, s, stream)
-	s.client = client
+	conn := jsonrpc2.NewConn(jsonrpc2.NewStream(&pipe{in, out}), jsonrpc2.WithCodec(codec{}))
+	s.client = protocol.ClientDispatcher(conn)
+	ctx = protocol.WithClient(ctx, s.client)
+	conn.Go(ctx, ordered(protocol.ServerHandler(s, jsonrpc2.MethodNotFoundHandler)))
 	select {
 	case <-conn.Done():
 	case <-s.done:
@@ -91,13 +92,61 @@ func Serve(ctx context.Context, in io.Reader, out io.Writer, opt Options) error 
 
 func newServer(opt Options) *Server {
 	if opt.Debounce == 0 {
-		opt.Debounce = 50 * time.Millisecond
+		opt.Debounce = 30 * time.Millisecond
 	}
 	if opt.Parallel <= 0 {
 		opt.Parallel = 2
 	}
 	return &Server{opt: opt, sem: make(chan struct{}, opt.Parallel), done: make(chan struct{}),
 		docs: map[uri.URI]*document{}}
+}
+
+// ordered handles the lifecycle and document notifications one at a
+// time, in the order they arrive (an older edit applied after a newer one
+// would bring back text the editor no longer shows); they only record
+// state and schedule checks, so they are quick. Every other request runs
+// concurrently, so that a slow one holds up nothing.
+func ordered(h jsonrpc2.Handler) jsonrpc2.Handler {
+	concurrent := protocol.CancelHandler(jsonrpc2.AsyncHandler(h))
+	return func(ctx context.Context, req *jsonrpc2.Request) (any, error) {
+		switch req.Method() {
+		case protocol.MethodInitialize, protocol.MethodInitialized, protocol.MethodShutdown, protocol.MethodExit,
+			protocol.MethodTextDocumentDidOpen, protocol.MethodTextDocumentDidChange,
+			protocol.MethodTextDocumentDidSave, protocol.MethodTextDocumentDidClose:
+			return h(ctx, req)
+		}
+		return concurrent(ctx, req)
+	}
+}
+
+// codec is the protocol package's own payload codec (protocol.Marshal and
+// protocol.Unmarshal, which know the protocol's union types), wired here
+// because the server builds its connection itself to keep notifications
+// in order.
+type codec struct{}
+
+func (codec) Marshal(v any) ([]byte, error) {
+	switch m := v.(type) {
+	case jsonrpc2.RawMessage:
+		if m == nil {
+			return []byte("null"), nil
+		}
+		return m, nil
+	case *jsonrpc2.RawMessage:
+		if m == nil || *m == nil {
+			return []byte("null"), nil
+		}
+		return *m, nil
+	}
+	return protocol.Marshal(v)
+}
+
+func (codec) Unmarshal(data []byte, v any) error {
+	if p, ok := v.(*jsonrpc2.RawMessage); ok {
+		*p = append(jsonrpc2.RawMessage(nil), data...)
+		return nil
+	}
+	return protocol.Unmarshal(data, v)
 }
 
 // pipe joins standard input and output into one stream.

@@ -6,6 +6,7 @@ import (
 	"os"
 	"path/filepath"
 	"strings"
+	"sync"
 	"testing"
 	"time"
 
@@ -14,14 +15,26 @@ import (
 	"go.lsp.dev/uri"
 )
 
-// fakeClient is the editor's side: it records what the server publishes.
+// fakeClient is the editor's side: it records what the server publishes,
+// never blocking the connection.
 type fakeClient struct {
 	protocol.UnimplementedClient
-	diags chan *protocol.PublishDiagnosticsParams
+	mu     sync.Mutex
+	got    []*protocol.PublishDiagnosticsParams
+	signal chan struct{}
 }
 
 func (c *fakeClient) PublishDiagnostics(_ context.Context, p *protocol.PublishDiagnosticsParams) error {
-	c.diags <- p
+	c.mu.Lock()
+	c.got = append(c.got, p)
+	if len(c.got) > 1000 {
+		c.got = append(c.got[:0:0], c.got[len(c.got)-100:]...)
+	}
+	c.mu.Unlock()
+	select {
+	case c.signal <- struct{}{}:
+	default:
+	}
 	return nil
 }
 
@@ -55,7 +68,7 @@ func newSession(t testing.TB, opt Options) *session {
 	s2cR, s2cW := io.Pipe()
 	served := make(chan error, 1)
 	go func() { served <- Serve(ctx, c2sR, s2cW, opt) }()
-	fc := &fakeClient{diags: make(chan *protocol.PublishDiagnosticsParams, 64)}
+	fc := &fakeClient{signal: make(chan struct{}, 1)}
 	_, conn, server := protocol.NewClient(ctx, fc, jsonrpc2.NewStream(rwc{s2cR, c2sW}))
 	t.Cleanup(func() {
 		cancel()
@@ -117,17 +130,22 @@ func (s *session) change(u uri.URI, version int32, src string) {
 }
 
 // diagnostics waits for the diagnostics of u (of at least version, when
-// given).
+// given) and returns the latest.
 func (s *session) diagnostics(u uri.URI, version int32) []protocol.Diagnostic {
 	s.t.Helper()
-	timeout := time.After(20 * time.Second)
+	timeout := time.After(60 * time.Second)
 	for {
-		select {
-		case p := <-s.client.diags:
-			v, _ := p.Version.Get()
-			if p.URI == u && v >= version {
+		s.client.mu.Lock()
+		for i := len(s.client.got) - 1; i >= 0; i-- {
+			p := s.client.got[i]
+			if v, _ := p.Version.Get(); p.URI == u && v >= version {
+				s.client.mu.Unlock()
 				return p.Diagnostics
 			}
+		}
+		s.client.mu.Unlock()
+		select {
+		case <-s.client.signal:
 		case <-timeout:
 			s.t.Fatalf("no diagnostics for %s version %d", u, version)
 		}
