@@ -69,3 +69,31 @@ func TestUnsolvableDesignSaysRatingsNotChecked(t *testing.T) {
 		t.Fatalf("got\n%s\nwant one unrated-parts finding naming RL and V1", strings.Join(got, "\n"))
 	}
 }
+
+// Wires in parallel, each rated, judged on their total (Ohm's law: 5 V
+// across 1 Ω draws 5 A, past 2 × 300 mA however it divides — at least one
+// wire must carry more than half of it), in either statement order; a
+// total within the sum but past the smallest derating limit warns.
+func TestParallelShortsJudgedAsGroup(t *testing.T) {
+	for _, c := range []struct {
+		ohms, rule, want string
+	}{
+		{"1 Ω", "over-current", "J1 and J2 in parallel carry 5.00 A together, 833 % of their combined 600 mA rating; how it divides between them is not determined (ideal shorts)"},
+		{"100 Ω", "", ""},
+	} {
+		for _, order := range [][2]string{{"J1", "J2"}, {"J2", "J1"}} {
+			src := "ground gnd\nsource V1 (vin, gnd) 5 V\nwire " + order[0] + " (vin, mid) rated 300 mA\nwire " + order[1] + " (vin, mid) rated 300 mA\nresistor RL (mid, gnd) " + c.ohms + "\n"
+			res := run(t, src)
+			got := lines(res)
+			if c.rule == "" {
+				if len(got) != 0 {
+					t.Errorf("%s, %v: want no findings, got\n%s", c.ohms, order, strings.Join(got, "\n"))
+				}
+				continue
+			}
+			if len(got) != 1 || !strings.Contains(got[0], c.want) || !strings.HasSuffix(got[0], "["+c.rule+"]") {
+				t.Errorf("%s, %v: got\n%s\nwant one %s: %s", c.ohms, order, strings.Join(got, "\n"), c.rule, c.want)
+			}
+		}
+	}
+}
