@@ -102,3 +102,62 @@ func TestLastPassAlike(t *testing.T) {
 		t.Errorf("rules turned off still report:\n%s", strings.Join(lines(r), "\n"))
 	}
 }
+
+// TestEveryRuleMergesAlike: whatever rule makes a finding about a part or
+// net inside a block, three instances that repeat it make one finding
+// that names the first instance, counts the others and lists them.
+func TestEveryRuleMergesAlike(t *testing.T) {
+	wiring := `block bad (s, k) {
+  resistor Q (s, s) 1 kΩ
+  capacitor C (s, spare) 1 nF
+  capacitor C2 (k, iso) 1 nF
+  capacitor C3 (iso, s) 1 nF
+  resistor Z (s, k) 5 kF
+  resistor r (s, k) 1 kΩ
+  resistor R (s, k) 1 kΩ
+}
+ground gnd
+source V (vin, gnd) 5 V
+bad A (vin, gnd)
+bad C (vin, gnd)
+bad B (vin, gnd)
+`
+	// 5 V across 100 Ω is 250 mW (P = V²/R) against 125 mW; 5 V across
+	// 1 Ω draws 5 A (I = V/R) through an inductor rated 1 A.
+	ratings := `block bad (s, k) {
+  resistor R (s, k) 100 Ω rated 125 mW
+  inductor L (s, m) 1 mH rated 1 A
+  resistor RM (m, k) 1 Ω rated 50 W
+}
+ground gnd
+source V (vin, gnd) 5 V
+bad A (vin, gnd)
+bad C (vin, gnd)
+bad B (vin, gnd)
+`
+	want := map[string]bool{}
+	for _, src := range []string{wiring, ratings} {
+		r := checkMem(t, map[string]string{"t.nodal": src}, "t.nodal", nil)
+		for _, d := range r.Diags {
+			want[d.Rule] = true
+			if !strings.Contains(d.Message, "(and in 2 more instances)") || !strings.HasPrefix(d.Subject, "A.") {
+				t.Errorf("[%s] %q about %q: not merged into A's", d.Rule, d.Message, d.Subject)
+				continue
+			}
+			var rel []string
+			for _, x := range d.Related {
+				if strings.Contains(x.Message, "(block bad)") {
+					rel = append(rel, x.Message)
+				}
+			}
+			if strings.Join(rel, "; ") != "in A (block bad); also in B (block bad); also in C (block bad)" {
+				t.Errorf("[%s] related %v", d.Rule, rel)
+			}
+		}
+	}
+	for _, rule := range []string{"shorted-part", "floating-net", "no-dc-path", "unit-mismatch", "case-clash", "over-power", "over-current"} {
+		if !want[rule] {
+			t.Errorf("no %s finding to check", rule)
+		}
+	}
+}
