@@ -34,8 +34,10 @@ the nodal.toml that governs it — it lists:
     about neither, by its file and message), not by line, so a statement
     moved to another line keeps its findings unchanged.
 
-Designs added and removed are listed too; designs whose files did not
-change are counted and not checked again. PATHs after "--" (files or
+Designs added and removed are listed too, and a design moved to another
+path with its content unchanged as renamed (its findings matched as if it
+had not moved); designs whose files did not change are counted and not
+checked again. PATHs after "--" (files or
 folders, relative to the current folder) limit the comparison to the
 designs they name or hold; the files those designs include are followed
 wherever they are.

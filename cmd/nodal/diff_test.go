@@ -160,7 +160,7 @@ func TestDiffFindingStates(t *testing.T) {
 func TestDiffFollowsIncludes(t *testing.T) {
 	dir := libRepo(t)
 	write(t, filepath.Join(dir, "lib", "loads.nodal"), libRenamed)
-	write(t, filepath.Join(dir, "boards", "added.nodal"), goodDesign)
+	write(t, filepath.Join(dir, "boards", "added.nodal"), goodDesign+"# a new board, not the removed one moved\n")
 	git(t, dir, "rm", "-q", "boards/other.nodal")
 	doc, code, _ := diffJSON(t, dir)
 	status := map[string]string{}
@@ -322,5 +322,32 @@ func TestDiffWorstCase(t *testing.T) {
 		if n.Name == "vin" && (n.BeforeRange == nil || math.Abs(n.BeforeRange[0]-9.5) > 1e-9 || math.Abs(n.BeforeRange[1]-10.5) > 1e-9) {
 			t.Errorf("vin's range before: %v; want 9.5 V to 10.5 V", n.BeforeRange)
 		}
+	}
+}
+
+// A design moved to another path with its content unchanged is renamed,
+// and its findings are unchanged, not new.
+func TestDiffRename(t *testing.T) {
+	dir := gitRepo(t)
+	const board = "ground gnd\nsource V1 (vin, gnd) 5 V\nresistor R1 (vin, lone) 1 kΩ\n"
+	write(t, filepath.Join(dir, "old", "board.nodal"), board)
+	git(t, dir, "add", ".")
+	git(t, dir, "commit", "-qm", "board")
+	git(t, dir, "mv", "old", "new")
+	_, out, errs := runNodal(t, dir, "", "diff", "--staged", "--format", "json")
+	var doc struct {
+		Designs []struct {
+			Path, Status, From string
+			Findings           []struct{ State string }
+		}
+	}
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatalf("%v\n%s%s", err, out, errs)
+	}
+	if len(doc.Designs) != 1 || doc.Designs[0].Status != "renamed" || doc.Designs[0].Path != "new/board.nodal" || doc.Designs[0].From != "old/board.nodal" {
+		t.Fatalf("designs %+v; want new/board.nodal renamed from old/board.nodal", doc.Designs)
+	}
+	if f := doc.Designs[0].Findings; len(f) != 1 || f[0].State != "unchanged" {
+		t.Errorf("findings %+v; want the floating net unchanged", f)
 	}
 }

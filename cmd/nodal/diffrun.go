@@ -111,15 +111,41 @@ func compareTrees(base, head *gitTree, df diffFlags, th review.Thresholds, stder
 
 	type job struct {
 		path       string
+		from       string // the earlier path of a renamed design
 		base, head bool
+	}
+	// A design removed from one path and added at another with the same
+	// content was renamed.
+	removedByID := map[string][]string{}
+	for _, p := range all {
+		if inBase[p] && !inHead[p] {
+			id := base.id(p)
+			removedByID[id] = append(removedByID[id], p)
+		}
+	}
+	renamedFrom := map[string]string{}
+	movedAway := map[string]bool{}
+	for _, p := range all {
+		if !inBase[p] && inHead[p] {
+			if rs := removedByID[head.id(p)]; len(rs) > 0 && head.id(p) != "" {
+				renamedFrom[p], movedAway[rs[0]] = rs[0], true
+				removedByID[head.id(p)] = rs[1:]
+			}
+		}
 	}
 	var jobs []job
 	for _, p := range all {
-		if inBase[p] && inHead[p] && signature(base, p, df.config != "") == signature(head, p, df.config != "") {
+		switch {
+		case movedAway[p]:
+			continue // compared at its new path
+		case renamedFrom[p] != "":
+			jobs = append(jobs, job{path: p, from: renamedFrom[p], base: true, head: true})
+			continue
+		case inBase[p] && inHead[p] && signature(base, p, df.config != "") == signature(head, p, df.config != ""):
 			cmp.Unchanged++
 			continue
 		}
-		jobs = append(jobs, job{p, inBase[p], inHead[p]})
+		jobs = append(jobs, job{path: p, base: inBase[p], head: inHead[p]})
 	}
 
 	baseLoader := newRevisionConfigLoader(base, df.config)
@@ -149,23 +175,31 @@ func compareTrees(base, head *gitTree, df diffFlags, th review.Thresholds, stder
 					if k == 1 {
 						t, l = head, headLoader
 					}
-					side, skipped, err := checkInTree(t, l, j.path, df.limits)
+					p := j.path
+					if k == 0 && j.from != "" {
+						p = j.from
+					}
+					side, skipped, err := checkInTree(t, l, p, df.limits)
 					switch {
 					case err != nil && k == 0:
 						// BASE is history: what cannot be checked there is
 						// said on the design, and HEAD is compared with
 						// nothing.
 						sides[k] = &review.Side{Error: output.TextSafe(err.Error())}
-						r.notes = append(r.notes, fmt.Sprintf("nodal: %s in %s: note: not checked: %s", output.TextSafe(j.path), output.TextSafe(t.label), output.TextSafe(err.Error())))
+						r.notes = append(r.notes, fmt.Sprintf("nodal: %s in %s: note: not checked: %s", output.TextSafe(p), output.TextSafe(t.label), output.TextSafe(err.Error())))
 					case err != nil:
-						r.problems = append(r.problems, fmt.Sprintf("nodal: %s in %s: %s", output.TextSafe(j.path), output.TextSafe(t.label), output.TextSafe(err.Error())))
+						r.problems = append(r.problems, fmt.Sprintf("nodal: %s in %s: %s", output.TextSafe(p), output.TextSafe(t.label), output.TextSafe(err.Error())))
 					case skipped:
 						r.skipped = true
 					default:
 						sides[k] = side
 					}
 				}
-				if len(r.problems) == 0 && !r.skipped {
+				switch {
+				case len(r.problems) > 0 || r.skipped:
+				case j.from != "" && sides[0] != nil:
+					r.design = review.CompareRenamed(j.from, j.path, sides[0], sides[1], th)
+				default:
 					r.design = review.Compare(j.path, sides[0], sides[1], th)
 				}
 			}

@@ -31,6 +31,7 @@ type jsonThresholds struct {
 type jsonDesign struct {
 	Path     string        `json:"path"`
 	Status   string        `json:"status"`
+	From     string        `json:"from,omitempty"` // the earlier path of a renamed design
 	BaseNote string        `json:"base_note,omitempty"`
 	HeadNote string        `json:"head_note,omitempty"`
 	Parts    []jsonPart    `json:"parts"`
@@ -116,7 +117,7 @@ func (c *Comparison) WriteJSON(w io.Writer) error {
 		Thresholds: jsonThresholds{Use: c.Thresholds.Use, Volts: c.Thresholds.Volts, Relative: c.Thresholds.Relative}}
 	for i := range c.Designs {
 		d := &c.Designs[i]
-		jd := jsonDesign{Path: d.Path, Status: string(d.Status), BaseNote: d.BaseNote, HeadNote: d.HeadNote,
+		jd := jsonDesign{Path: d.Path, Status: string(d.Status), From: d.From, BaseNote: d.BaseNote, HeadNote: d.HeadNote,
 			Parts: []jsonPart{}, Nets: []jsonNet{}, Findings: []jsonFinding{}}
 		for j := range d.Parts {
 			p := &d.Parts[j]

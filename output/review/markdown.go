@@ -40,7 +40,11 @@ func (c *Comparison) WriteMarkdown(w io.Writer) error {
 			restTable(bw, c.Designs[i:])
 			break
 		}
-		fmt.Fprintf(bw, "\n#### %s (%s)\n\n", code(d.Path), d.Status)
+		if d.Status == Renamed {
+			fmt.Fprintf(bw, "\n#### %s (renamed from %s)\n\n", code(d.Path), code(d.From))
+		} else {
+			fmt.Fprintf(bw, "\n#### %s (%s)\n\n", code(d.Path), d.Status)
+		}
 		if d.Status == Removed {
 			fmt.Fprintf(bw, "The design was removed.\n")
 			continue

@@ -17,7 +17,8 @@
 // A pair whose severity and message (line references masked) agree is
 // unchanged; any other pair is updated; a finding left over in the later
 // revision is new, one left over in the earlier is absent (fixed). So a
-// statement moved to another line keeps its findings unchanged.
+// statement moved to another line keeps its findings unchanged, and so
+// does a design moved to another path (CompareRenamed).
 //
 // # Stress
 //
@@ -66,6 +67,7 @@ const (
 	Added   Status = "added"
 	Removed Status = "removed"
 	Changed Status = "changed" // it, a file it includes or its nodal.toml changed
+	Renamed Status = "renamed" // moved to another path with its content unchanged
 )
 
 // Thresholds decide which moves are worth listing.
@@ -196,6 +198,7 @@ func (n *NetChange) HasRange() bool {
 type Design struct {
 	Path     string // repository path of the design file
 	Status   Status
+	From     string          // the earlier path of a renamed design
 	Findings []FindingChange // new, updated, absent, unchanged; worst first within each
 	Parts    []PartChange    // worst first
 	Nets     []NetChange     // largest move first
@@ -220,7 +223,7 @@ func (d *Design) Count(s State) int {
 // is new, fixed or updated, and the ratings were compared (a layout-only
 // edit, say).
 func (d *Design) Quiet() bool {
-	return d.Status == Changed && len(d.Parts) == 0 && len(d.Nets) == 0 && d.BaseNote == "" && d.HeadNote == "" &&
+	return (d.Status == Changed || d.Status == Renamed) && len(d.Parts) == 0 && len(d.Nets) == 0 && d.BaseNote == "" && d.HeadNote == "" &&
 		d.Count(New) == 0 && d.Count(Absent) == 0 && d.Count(Updated) == 0
 }
 
@@ -287,6 +290,33 @@ func Compare(path string, base, head *Side, th Thresholds) Design {
 		// became a design): its parts count from nothing.
 		d.Parts = compareParts(base, head, th)
 	}
+	return d
+}
+
+// CompareRenamed compares a design moved from the path from to path: its
+// earlier findings are taken as if they had been found at the new path,
+// so that moving a file, like moving a line, makes no finding new.
+func CompareRenamed(from, path string, base, head *Side, th Thresholds) Design {
+	moved := *base
+	moved.Findings = make([]output.Finding, len(base.Findings))
+	for i, f := range base.Findings {
+		if f.Design == from {
+			f.Design = path
+		}
+		if f.File == from {
+			f.File = path
+		}
+		moved.Findings[i] = f
+	}
+	d := Compare(path, &moved, head, th)
+	// Absent findings keep the earlier revision's positions, in the file
+	// they were found in.
+	for i := range d.Findings {
+		if fc := &d.Findings[i]; fc.State == Absent && fc.Finding.File == path {
+			fc.Finding.File = from
+		}
+	}
+	d.Status, d.From = Renamed, from
 	return d
 }
 

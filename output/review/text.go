@@ -22,7 +22,11 @@ func (c *Comparison) WriteText(w io.Writer) error {
 	fmt.Fprintf(bw, "%s\n", c.summary())
 	for i := range c.Designs {
 		d := &c.Designs[i]
-		fmt.Fprintf(bw, "\n%s: %s\n", pathSafe(d.Path), d.Status)
+		if d.Status == Renamed {
+			fmt.Fprintf(bw, "\n%s: renamed from %s\n", pathSafe(d.Path), oneLine(d.From))
+		} else {
+			fmt.Fprintf(bw, "\n%s: %s\n", pathSafe(d.Path), d.Status)
+		}
 		if d.Status == Removed {
 			continue
 		}
@@ -80,8 +84,12 @@ func (c *Comparison) WriteText(w io.Writer) error {
 // summary is one line of totals.
 func (c *Comparison) summary() string {
 	ds, fs := c.Totals()
-	return fmt.Sprintf("%s changed, %d added, %d removed, %d unchanged; findings: %d new, %d fixed, %d updated, %d unchanged",
-		output.Plural(ds[Changed], "design"), ds[Added], ds[Removed], c.Unchanged, fs[New], fs[Absent], fs[Updated], fs[Unchanged])
+	renamed := ""
+	if ds[Renamed] > 0 {
+		renamed = fmt.Sprintf(", %d renamed", ds[Renamed])
+	}
+	return fmt.Sprintf("%s changed, %d added, %d removed%s, %d unchanged; findings: %d new, %d fixed, %d updated, %d unchanged",
+		output.Plural(ds[Changed], "design"), ds[Added], ds[Removed], renamed, c.Unchanged, fs[New], fs[Absent], fs[Updated], fs[Unchanged])
 }
 
 func noteText(d *Design) string {
