@@ -131,27 +131,30 @@ func (s *Server) start(d *document) {
 	snap.gen, snap.version = gen, version
 
 	s.mu.Lock()
-	d.running = false
 	stale := d.gen != gen || d.closed
 	if !stale {
 		d.last = snap
 	}
+	s.mu.Unlock()
+	if !stale {
+		// Published while d still counts as running, so that no newer
+		// check's findings can go out before these.
+		diags := make([]protocol.Diagnostic, len(snap.diags))
+		for i := range snap.diags {
+			diags[i] = snap.diags[i].lsp
+		}
+		s.client.PublishDiagnostics(context.Background(), &protocol.PublishDiagnosticsParams{
+			URI: d.uri, Version: protocol.NewOptional(version), Diagnostics: diags,
+		})
+	}
+	s.mu.Lock()
+	d.running = false
 	again := d.again && !d.closed
 	d.again = false
 	s.mu.Unlock()
 	if again {
 		go s.start(d)
 	}
-	if stale {
-		return // a newer edit supersedes this check
-	}
-	diags := make([]protocol.Diagnostic, len(snap.diags))
-	for i := range snap.diags {
-		diags[i] = snap.diags[i].lsp
-	}
-	s.client.PublishDiagnostics(context.Background(), &protocol.PublishDiagnosticsParams{
-		URI: d.uri, Version: protocol.NewOptional(version), Diagnostics: diags,
-	})
 }
 
 // check runs nodal's check on a document's text. It never panics: an

@@ -247,3 +247,70 @@ func TestDiagnosticsOnOpenAndChange(t *testing.T) {
 	s.change(u, 3, floating+"resistor R3 (vin,\n")
 	find(t, s.diagnostics(u, 3), "syntax")
 }
+
+// TestIncludersAndConfig: an open design is checked again when a file it
+// includes changes in the editor, and the nodal.toml next to it applies.
+func TestIncludersAndConfig(t *testing.T) {
+	s := newSession(t, Options{})
+	s.initialize()
+	const lib = "block pair (a, b) {\n  resistor RA (a, b) 1 kΩ\n}\n"
+	const board = "include \"lib.nodal\"\nground gnd\nsource V1 (vin, gnd) 5 V\npair P1 (vin, gnd)\nresistor R9 (vin, pad) 1 kΩ\n"
+	s.write("nodal.toml", "[rules]\nfloating-net = \"error\"\n")
+	lu := s.write("lib.nodal", lib)
+	bu := s.write("board.nodal", board)
+	s.open(bu, board)
+	d := find(t, s.diagnostics(bu, 1), "floating-net")
+	if d.Severity != protocol.DiagnosticSeverityError {
+		t.Errorf("nodal.toml makes floating-net an error; got severity %d", d.Severity)
+	}
+	s.open(lu, lib)
+	s.diagnostics(lu, 1)
+	// Break the block in the editor, unsaved: the board hears of it.
+	s.change(lu, 2, "block pair (a, b) {\n  resistor RA (a, c) 1 kΩ\n}\n")
+	deadline := time.Now().Add(20 * time.Second)
+	for {
+		ds := s.diagnostics(bu, 1)
+		found := false
+		for _, d := range ds {
+			found = found || code(d) == "floating-net" && strings.Contains(message(d), "lib.nodal")
+		}
+		if found {
+			break
+		}
+		if time.Now().After(deadline) {
+			t.Fatalf("the board was not checked again with the edited library: %v", ds)
+		}
+		time.Sleep(20 * time.Millisecond)
+	}
+}
+
+// TestVersionsInOrder: across rapid edits, what is published for a
+// document never goes back to an older version.
+func TestVersionsInOrder(t *testing.T) {
+	s := newSession(t, Options{Debounce: -1})
+	s.initialize()
+	u := s.write("v.nodal", floating)
+	s.open(u, floating)
+	for v := int32(2); v < 200; v++ {
+		src := floating
+		if v%2 == 0 {
+			src += "port probe\n"
+		}
+		s.change(u, v, src)
+	}
+	if ds := s.diagnostics(u, 199); len(ds) != 1 {
+		t.Errorf("version 199 (the floating pad) has %d findings", len(ds))
+	}
+	s.client.mu.Lock()
+	defer s.client.mu.Unlock()
+	last := int32(0)
+	for _, p := range s.client.got {
+		v, _ := p.Version.Get()
+		if p.URI == u && v < last {
+			t.Fatalf("version %d published after %d", v, last)
+		}
+		if p.URI == u {
+			last = v
+		}
+	}
+}
