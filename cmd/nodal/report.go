@@ -156,6 +156,9 @@ func cmdReport(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	}
 
 	t := report.NewAt(name, res.Build.Design, res.Solved.OP, rc.Derating, res.Solved.Ambient)
+	if res.Worst != nil {
+		t.AddWorst(res.Build.Design, res.Worst.R, rc.Derating)
+	}
 	if format == "json" {
 		err = t.WriteJSON(stdout)
 	} else {

@@ -28,6 +28,9 @@ type reportDoc struct {
 	Nets   []struct {
 		Name    string   `json:"name"`
 		Voltage *float64 `json:"voltage"`
+		// The range over tolerances and temperature.
+		Low  *float64 `json:"low"`
+		High *float64 `json:"high"`
 	} `json:"nets"`
 	Parts []struct {
 		Name    string             `json:"name"`
@@ -38,6 +41,9 @@ type reportDoc struct {
 		Ratings map[string]float64 `json:"ratings"`
 		Use     *float64           `json:"use"`
 		Limit   *string            `json:"limit"`
+		// The worst use over tolerances and temperature, and where.
+		WorstUse *float64 `json:"worst_use"`
+		WorstAt  string   `json:"worst_at"`
 	} `json:"parts"`
 }
 
@@ -52,6 +58,9 @@ func parseReport(t *testing.T, out string) *reportDoc {
 	for _, n := range doc.Nets {
 		if n.Voltage == nil {
 			t.Errorf("net %s has no voltage", n.Name)
+		}
+		if (n.Low == nil) != (n.High == nil) || n.Low != nil && n.Voltage != nil && !(*n.Low <= *n.Voltage && *n.Voltage <= *n.High) {
+			t.Errorf("net %s: range %v … %v does not hold its nominal %v", n.Name, n.Low, n.High, n.Voltage)
 		}
 	}
 	for _, p := range doc.Parts {

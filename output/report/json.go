@@ -22,6 +22,10 @@ type jsonNet struct {
 	Voltage float64 `json:"voltage"`
 	// Undetermined is set for a net with no DC path to ground.
 	Undetermined bool `json:"undetermined,omitempty"`
+	// Low and High are the net's range over tolerances and temperature;
+	// omitted when the design has none.
+	Low  *float64 `json:"low,omitempty"`
+	High *float64 `json:"high,omitempty"`
 }
 
 type jsonGroup struct {
@@ -46,6 +50,11 @@ type jsonPart struct {
 	// Capacity (C) and Runtime (s) of a battery; see Part.
 	Capacity float64 `json:"capacity,omitempty"`
 	Runtime  float64 `json:"runtime,omitempty"`
+	// WorstUse is the largest use of any rating over tolerances and
+	// temperature, and WorstAt the corner that reaches it; omitted when
+	// the design has no worst case.
+	WorstUse *float64 `json:"worst_use,omitempty"`
+	WorstAt  string   `json:"worst_at,omitempty"`
 }
 
 // key is a rating's name as a JSON key: "reverse voltage" → "reverse_voltage".
@@ -58,12 +67,21 @@ func key(what string) string { return strings.ReplaceAll(what, " ", "_") }
 func (t *Table) WriteJSON(w io.Writer) error {
 	doc := jsonDoc{File: t.File, Design: t.Design, Title: t.Title, Nets: []jsonNet{}, Parts: []jsonPart{}}
 	for _, n := range t.Nets {
-		doc.Nets = append(doc.Nets, jsonNet{Name: n.Name, Voltage: round(n.Voltage), Undetermined: n.Undetermined})
+		jn := jsonNet{Name: n.Name, Voltage: round(n.Voltage), Undetermined: n.Undetermined}
+		if n.HasRange {
+			lo, hi := round(n.Low), round(n.High)
+			jn.Low, jn.High = &lo, &hi
+		}
+		doc.Nets = append(doc.Nets, jn)
 	}
 	for i := range t.Parts {
 		p := &t.Parts[i]
 		jp := jsonPart{Name: p.Name, Kind: p.Kind.String(), Voltage: round(p.Voltage), Current: round(p.Current),
 			Power: round(p.Power), Ratings: map[string]float64{}, Capacity: round(p.Capacity), Runtime: round(p.Runtime)}
+		if p.HasWorst {
+			u := round(p.WorstUse)
+			jp.WorstUse, jp.WorstAt = &u, p.WorstAt
+		}
 		for _, r := range p.Ratings {
 			jp.Ratings[key(r.What)] = round(r.Rating)
 		}

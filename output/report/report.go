@@ -37,6 +37,10 @@ type Net struct {
 	// Undetermined: the net has no DC path to ground, so its voltage is
 	// not fixed by the circuit (Voltage reads 0).
 	Undetermined bool
+	// Low … High is the net's voltage range over tolerances and
+	// temperature, when HasRange (see AddWorst).
+	Low, High float64
+	HasRange  bool
 }
 
 // Group is a group of ideal shorts in parallel (solve.ShortGroup): the
@@ -71,6 +75,11 @@ type Part struct {
 	// current, in seconds: capacity ÷ current, a simple estimate that
 	// ignores rate, temperature and age. 0 when it is not discharging.
 	Capacity, Runtime float64
+	// WorstUse is the largest use of any rating over tolerances and
+	// temperature, and WorstAt the corner that reaches it, when HasWorst.
+	WorstUse float64
+	WorstAt  string
+	HasWorst bool
 }
 
 // Use returns the largest fraction of any rating, and false when the part
@@ -124,6 +133,10 @@ type Table struct {
 	// Undriven is true when no source in the design has a non-zero value
 	// (its supply comes in through ports, say): every value is then 0.
 	Undriven bool
+	// HasRanges says the nets carry their range over tolerances and
+	// temperature, found at every corner when RangeCorners, to first
+	// order otherwise.
+	HasRanges, RangeCorners bool
 	// Groups are the groups of ideal shorts in parallel, by the name of
 	// their first member.
 	Groups []Group

@@ -82,15 +82,33 @@ func (t *Table) WriteText(w io.Writer, opt TextOptions) error {
 
 	bw.WriteString("Nets\n")
 	nets := [][]string{{"net", "voltage"}}
+	if t.HasRanges {
+		nets[0] = append(nets[0], "range over tolerances and temperature")
+	}
 	unknown := false
 	for _, n := range t.Nets {
 		v := units.Format(n.Voltage, units.Voltage)
 		if n.Undetermined {
 			v, unknown = undetermined, true
 		}
-		nets = append(nets, []string{output.LineSafe(n.Name), v})
+		row := []string{output.LineSafe(n.Name), v}
+		if t.HasRanges {
+			rg := ""
+			if n.HasRange {
+				rg = units.Format(n.Low, units.Voltage) + " … " + units.Format(n.High, units.Voltage)
+			}
+			row = append(row, rg)
+		}
+		nets = append(nets, row)
 	}
-	writeColumns(bw, nets, []bool{false, true}, nil)
+	writeColumns(bw, nets, []bool{false, true, false}[:len(nets[0])], nil)
+	if t.HasRanges {
+		if t.RangeCorners {
+			bw.WriteString("Ranges are the extremes over every corner of the tolerances and temperature.\n")
+		} else {
+			bw.WriteString("Ranges are first-order estimates from the sensitivities at the nominal point.\n")
+		}
+	}
 
 	bw.WriteString("\nParts, worst use of a rating first\n")
 	rows := [][]string{{"part", "kind", "voltage", "current", "power", "rating", "use", ""}}
@@ -123,6 +141,7 @@ func (t *Table) WriteText(w io.Writer, opt TextOptions) error {
 		paint = append(paint, painter(lv, opt.Color))
 	}
 	writeColumns(bw, rows, []bool{false, false, true, true, true, true, true, false}, paint)
+	writeWorst(bw, t)
 
 	t.writeBatteries(bw)
 
