@@ -157,3 +157,26 @@ func TestRulesSuggests(t *testing.T) {
 		t.Errorf("rules sourceloop: exit %d, stderr %q", code, errOut)
 	}
 }
+
+// nodal.toml is looked for from the checked file's folder up to the
+// repository's top level, also when the file is named from a subfolder;
+// one above the repository is not used.
+func TestConfigLookupUpToRepositoryTop(t *testing.T) {
+	base := t.TempDir()
+	repo := filepath.Join(base, "repo")
+	write(t, filepath.Join(repo, ".git", "HEAD"), "")
+	write(t, filepath.Join(repo, "nodal.toml"), "[rules]\nunit-mismatch = \"off\"\nfloating-net = \"off\"\n")
+	write(t, filepath.Join(repo, "sub", "a.nodal"), badOne)
+	t.Chdir(filepath.Join(repo, "sub"))
+	code, out, errOut := runCLI(t, "", "check", "a.nodal")
+	if code != 0 || out != "" {
+		t.Errorf("from the subfolder the repository's nodal.toml was not used: exit %d\n%s%s", code, out, errOut)
+	}
+	// Above the top level: not this repository's settings.
+	write(t, filepath.Join(base, "nodal.toml"), "[rules]\nunit-mismatch = \"off\"\nfloating-net = \"off\"\n")
+	os.Remove(filepath.Join(repo, "nodal.toml"))
+	code, out, _ = runCLI(t, "", "check", "a.nodal")
+	if code != 1 || !strings.Contains(out, "[unit-mismatch]") {
+		t.Errorf("a nodal.toml above the repository was used: exit %d\n%s", code, out)
+	}
+}
