@@ -97,7 +97,7 @@ func FuzzHierarchy(f *testing.F) {
 	f.Fuzz(func(t *testing.T, data []byte) {
 		m := &memTree{files: splitFiles(data), allowed: map[string]bool{}, reads: map[string]int{}}
 		top := m.files["root/top.nodal"]
-		res, err := check.Source("root/top.nodal", top, &check.Options{ReadFile: m.read, Identify: m.identify, MaxParts: 100_000, NoSuppress: true})
+		res, err := check.Source("root/top.nodal", top, &check.Options{ReadFile: m.read, Identify: m.identify, MaxParts: 2_000, NoSuppress: true})
 		if err != nil {
 			t.Fatalf("internal error: %v", err)
 		}
