@@ -56,10 +56,6 @@ message suggests the closest rule id, or shows an old form written anew.
 Reported by the acceptance pass, after every other rule has run.`,
 }
 
-// Source is one file's text and comments, for the acceptance pass: the
-// model's own record of a file.
-type Source = circuit.SourceFile
-
 // acceptDirective is one parsed accept comment.
 type acceptDirective struct {
 	pos, end diag.Pos
@@ -76,7 +72,7 @@ const directivePrefix = "nodal:"
 // rule's default, set with the rest in the runner's last pass). known
 // reports whether a rule id exists (nil: the registered rules). The result
 // is not sorted.
-func Suppress(fset *diag.FileSet, srcs []Source, diags diag.List, cfg *Config, known func(string) bool) diag.List {
+func Suppress(fset *diag.FileSet, srcs []circuit.SourceFile, diags diag.List, cfg *Config, known func(string) bool) diag.List {
 	if known == nil {
 		known = func(id string) bool { return Lookup(id) != nil }
 	}
@@ -143,7 +139,7 @@ func Suppress(fset *diag.FileSet, srcs []Source, diags diag.List, cfg *Config, k
 
 // parseAccept reads one comment. It returns ok only for a usable accept
 // directive; problems are reported through report.
-func parseAccept(s Source, c grammar.Comment, known func(string) bool, report func(*Analyzer, diag.Diagnostic)) (*acceptDirective, bool) {
+func parseAccept(s circuit.SourceFile, c grammar.Comment, known func(string) bool, report func(*Analyzer, diag.Diagnostic)) (*acceptDirective, bool) {
 	text := strings.TrimSpace(strings.TrimPrefix(c.Text, "#"))
 	if !strings.HasPrefix(text, directivePrefix) {
 		return nil, false
