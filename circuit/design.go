@@ -14,7 +14,17 @@
 // elaboration: unknown kinds, wrong pins, missing or ill-formed values,
 // units that do not fit, duplicate names. A statement that cannot be
 // elaborated is left out of the design (and said so); the rest is kept, so
-// that one slip does not hide the findings elsewhere in the file.
+// that one slip does not hide the findings elsewhere in the file. The
+// steps of elaboration are listed in hier.go, one file each.
+//
+// # Findings
+//
+// Each finding of elaboration is filed under a Code (code.go), the id of
+// the registered rule that reports it, and names the part or net it is
+// about in its Subject. Every finding goes through the collector of
+// findings.go, which merges the repeats that block instances make of one
+// finding; package rules adds its own findings to the same collector and
+// finishes them all alike.
 //
 // # Values
 //
