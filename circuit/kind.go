@@ -28,6 +28,8 @@ const (
 	Switch
 	Wire
 	Battery
+	CurrentLoad
+	PowerLoad
 	numKinds
 )
 
@@ -123,12 +125,13 @@ func (r *Rating) RuleName() string {
 type Model uint8
 
 const (
-	Open        Model = iota // carries no current at DC
-	Short                    // an ideal short: its pins are one node
-	Conductance              // a linear resistance DC.R, in series with an EMF DC.E
-	VoltageDrop              // a fixed voltage, the part's value, from first pin to second
-	CurrentFlow              // a fixed current, the part's value, from first pin to second
-	Junction                 // a Shockley junction (vf at, ideality) behind DC.R
+	Open          Model = iota // carries no current at DC
+	Short                      // an ideal short: its pins are one node
+	Conductance                // a linear resistance DC.R, in series with an EMF DC.E
+	VoltageDrop                // a fixed voltage, the part's value, from first pin to second
+	CurrentFlow                // a fixed current, the part's value, from first pin to second
+	Junction                   // a Shockley junction (vf at, ideality) behind DC.R
+	ConstantPower              // draws the power of its value, P = V·I, from first pin to second
 )
 
 // DC is how one part behaves at DC.
@@ -161,7 +164,9 @@ func (dc DC) Branch() Branch {
 		return VoltageDefining
 	case CurrentFlow:
 		return CurrentDefining
-	case Open:
+	case Open, ConstantPower:
+		// A constant-power load sets no voltage and no current of its
+		// own: like an open, it gives its nets no DC path.
 		return OpenAtDC
 	}
 	return Resistive
@@ -198,6 +203,9 @@ func derated(r Rating, key string, def float64) Rating {
 }
 
 var (
+	loadPins      = []string{"pos", "neg"}
+	loadRoles     = []string{"the load draws its current in here", "and returns it here"}
+	loadHint      = ": a current in A (constant current) or a power in W (constant power)"
 	junctionPins  = []string{"anode", "cathode"}
 	junctionRoles = []string{"current enters here when forward-biased", "current leaves here"}
 	plainPins     = []string{"a", "b"}
@@ -293,6 +301,12 @@ var kinds = [numKinds]KindInfo{
 			}
 			return DC{Model: VoltageDrop}
 		}},
+	CurrentLoad: {Word: "load", Name: "constant-current load", Pins: loadPins, Roles: loadRoles, Value: units.Current,
+		ValueHint: loadHint, Attrs: []string{"tol"}, Ratings: []Rating{ratedVoltage},
+		DC: func(*Part) DC { return DC{Model: CurrentFlow} }},
+	PowerLoad: {Word: "load", Name: "constant-power load", Pins: loadPins, Roles: loadRoles, Value: units.Power,
+		ValueHint: loadHint, Attrs: []string{"tol"}, Ratings: []Rating{ratedVoltage},
+		DC: func(*Part) DC { return DC{Model: ConstantPower} }},
 }
 
 // Kinds lists every built-in kind, in a fixed order.

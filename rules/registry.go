@@ -11,7 +11,7 @@ var All = []*Analyzer{
 	MissingParam, ParamUnit, ExpansionLimit, BadInclude,
 	FloatingNet, NoDCPath, SourceLoop, CurrentCutset, ShortedPart, CaseClash,
 	AcceptReason, StaleAccept, BadAccept,
-	SolveFailed, NoConvergence, IllConditioned,
+	SolveFailed, NoConvergence, StarvedLoad, IllConditioned,
 	OverPower, OverCurrent, OverVoltage, ReverseVoltage, OverTemperature, CornerOverRating, NearRating, CornersNotJudged, UnratedParts,
 }
 

@@ -181,7 +181,7 @@ part could not be modelled, or the solution broke Kirchhoff's current law
 or Tellegen's theorem. The finding names the nets or parts involved.`,
 	Run: func(p *Pass) (any, error) {
 		var se *solve.Error
-		if err := solved(p).Err; errors.As(err, &se) && se.Kind != solve.NoConvergence {
+		if err := solved(p).Err; errors.As(err, &se) && se.Kind != solve.NoConvergence && se.Kind != solve.Starved {
 			msg := "the DC operating point could not be found: " + se.Msg
 			if len(se.Nets) > 0 {
 				msg += " (nets " + netList(p.Design, se.Nets, 5) + ")"

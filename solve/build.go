@@ -94,6 +94,7 @@ func build(d *circuit.Design, vt float64, mna bool) (*model, error) {
 			is: is, nvt: n * vt, vref: vref, vj: vref})
 	}
 	m.n = m.nNodes
+	m.addLoads()
 	for i := range d.Parts {
 		p := &d.Parts[i]
 		if p.DC().Model != circuit.VoltageDrop || !mna || m.closing != nil && m.closing[i] || m.floating != nil && m.floating[p.Pins[0]] {
@@ -166,6 +167,7 @@ func (m *model) assemble(lambda, gmin float64) {
 			}
 		}
 	}
+	m.stampLoads()
 	for k := range m.junc {
 		j := &m.junc[k]
 		id, gd := j.eval(j.vj)

@@ -59,7 +59,7 @@ func (m *model) newton(lambda, gmin float64) (bool, error) {
 	// still moving far, an iterative linear solver stops at a loose
 	// residual; convergence is only declared on a step solved tightly.
 	pcg, _ := m.lin.(*pcgSolver)
-	loose := pcg != nil && len(m.junc) > 0
+	loose := pcg != nil && m.nonlinear()
 	for it := 0; it < maxNewton && m.iters < maxTotal; it++ {
 		m.iters++
 		m.assemble(lambda, gmin)
@@ -113,15 +113,19 @@ func (m *model) newton(lambda, gmin float64) (bool, error) {
 			anyLimited = anyLimited || limited
 			j.vj = v
 		}
+		if !m.updateLoads(xn) {
+			done = false
+		}
 		if loose && done {
 			done = false // confirm with a tight solve
 		}
 		loose = pcg != nil && (anyLimited || step > looseStep*xinf)
 		copy(m.x, xn)
 		copy(m.xlo, xnlo)
-		if len(m.junc) == 0 || done {
+		if !m.nonlinear() || done {
 			return true, nil
 		}
+		m.advanceLoads()
 	}
 	return false, nil
 }
@@ -132,12 +136,15 @@ func (m *model) reset() {
 	for k := range m.junc {
 		m.junc[k].vj = 0
 	}
+	for k := range m.loads {
+		m.loads[k].i, m.loads[k].next = 0, 0
+	}
 }
 
 // run finds the operating point: Newton, then gmin stepping, then source
 // stepping.
 func (m *model) run() (string, error) {
-	if len(m.junc) == 0 {
+	if !m.nonlinear() {
 		m.assemble(1, 0)
 		if err := m.linearSolve(m.x, m.xlo); err != nil {
 			return "", m.singular(err)
@@ -151,6 +158,9 @@ func (m *model) run() (string, error) {
 	}
 	if ok {
 		return "newton", nil
+	}
+	if err := m.starvedError(); err != nil {
+		return "", err
 	}
 	// gmin stepping.
 	m.reset()

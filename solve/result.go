@@ -57,6 +57,7 @@ func (m *model) result() *Result {
 			r.I[i] = p.Value
 		}
 	}
+	m.loadCurrents(r)
 	m.shortCurrents(r)
 	for i := range d.Parts {
 		r.P[i] = r.V[i] * r.I[i]

@@ -25,6 +25,9 @@ const (
 	BadPart
 	// TooLarge: the design is too large for the linear solvers available.
 	TooLarge
+	// Starved: a constant-power load demands more power than the circuit
+	// feeding it can deliver; no operating point exists.
+	Starved
 )
 
 // Error is a solve that gave no usable operating point. Nets and Parts name
@@ -154,6 +157,7 @@ type model struct {
 	nNodes int     // net and internal-node unknowns
 	n      int
 	junc   []junction
+	loads  []powerLoad
 	sys    *system
 	lin    linearSolver
 	lambda float64
@@ -217,7 +221,7 @@ func Solve(d *circuit.Design, opt *Options) (*Result, error) {
 	}
 	var pcg *pcgSolver
 	newPCG := func(jacobi, plain bool) {
-		pcg = &pcgSolver{tol: PCGTol, private: len(m.junc) > 0, jacobi: jacobi, plain: plain}
+		pcg = &pcgSolver{tol: PCGTol, private: m.nonlinear(), jacobi: jacobi, plain: plain}
 		m.lin = pcg
 	}
 	switch kind {

@@ -13,7 +13,7 @@ import (
 // exists: an error in the board, while the library alone is clean.
 const (
 	libLoad = `# shared load stages
-block load (a, b) {
+block stage (a, b) {
   resistor R (a, b) 1 kΩ
 }
 `
@@ -25,7 +25,7 @@ block dummy_load (a, b) {
 	boardUsingLib = `include "../lib/loads.nodal"
 ground gnd
 source V1 (vin, gnd) 5 V
-load L1 (vin, gnd)
+stage L1 (vin, gnd)
 `
 	// middle.nodal includes the library; top.nodal includes middle.nodal.
 	libMiddle = `include "loads.nodal"

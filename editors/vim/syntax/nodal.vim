@@ -24,7 +24,7 @@ syntax keyword nodalKeyword design ground port include block
 " Built-in part kinds where a statement starts; any other first word
 " followed by a name is a block instance.
 syntax match nodalInstance "^\s*\zs\h\w*\ze\s\+\S\+\s*("
-syntax match nodalKind "^\s*\zs\%(resistor\|capacitor\|inductor\|source\|diode\|led\|fuse\|switch\|wire\|battery\)\>"
+syntax match nodalKind "^\s*\zs\%(resistor\|capacitor\|inductor\|source\|diode\|led\|fuse\|switch\|wire\|battery\|load\)\>"
 " Attributes and switch states.
 syntax keyword nodalAttribute tol rated vf at ideality series dcr capacity
 syntax keyword nodalState open closed

@@ -1,0 +1,110 @@
+package check
+
+import (
+	"fmt"
+	"math"
+	"strings"
+	"testing"
+)
+
+// TestPowerLoadClosedForm: a load drawing P through R from V_s settles at
+// V = (V_s + √(V_s² − 4·P·R))/2, the stable root of V² − V_s·V + P·R = 0
+// (algebra); its power V·I is P, and the source delivers P + I²·R (energy
+// balance), to 1e-9.
+func TestPowerLoadClosedForm(t *testing.T) {
+	for _, c := range []struct{ vs, r, p float64 }{
+		{5, 1, 4}, // the reference's example: 4.000 V, 1.000 A
+		{12, 0.5, 10},
+		{3.3, 2.2, 1.2},
+		{48, 10, 57},
+	} {
+		src := fmt.Sprintf("ground gnd\nsource VS (vs, gnd) %g V\nresistor RS (vs, rail) %g Ω\nload L (rail, gnd) %g W\n", c.vs, c.r, c.p)
+		d, v, i := opOf(t, src)
+		l, s := partIndex(t, d, "L"), partIndex(t, d, "VS")
+		want := (c.vs + math.Sqrt(c.vs*c.vs-4*c.p*c.r)) / 2
+		if rel(v[l], want) > 1e-9 {
+			t.Errorf("%g V, %g Ω, %g W: load at %.12g V, want %.12g V", c.vs, c.r, c.p, v[l], want)
+		}
+		if rel(v[l]*i[l], c.p) > 1e-9 {
+			t.Errorf("%g W load draws %.12g W", c.p, v[l]*i[l])
+		}
+		if delivered := -v[s] * i[s]; rel(delivered, c.p+i[l]*i[l]*c.r) > 1e-9 {
+			t.Errorf("source delivers %.12g W, load %g W + loss %.12g W", delivered, c.p, i[l]*i[l]*c.r)
+		}
+	}
+}
+
+// TestPowerLoadBoundary: with V_s behind R there is an operating point
+// only while P ≤ V_s²/(4·R) (maximum power transfer theorem): just under
+// it the load is fed, near V_s/2; just over it nodal reports starved-load,
+// not a convergence failure.
+func TestPowerLoadBoundary(t *testing.T) {
+	const vs, r = 5.0, 1.0
+	limit := vs * vs / (4 * r) // 6.25 W
+	for _, c := range []struct {
+		scale   float64
+		starved bool
+	}{{1 - 1e-6, false}, {1 + 1e-6, true}, {0.5, false}, {2, true}} {
+		src := fmt.Sprintf("ground gnd\nsource VS (vs, gnd) 5 V\nresistor RS (vs, rail) 1 Ω\nload L (rail, gnd) %.15g W\n", limit*c.scale)
+		res, err := Source("t.nodal", []byte(src), nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var found []string
+		for _, d := range res.Diags {
+			found = append(found, d.Rule)
+			if d.Rule == "starved-load" && !strings.Contains(d.Message, "at most 6.25 W") {
+				t.Errorf("message does not give the limit: %s", d.Message)
+			}
+		}
+		got := strings.Join(found, ",")
+		if c.starved && got != "starved-load" || !c.starved && got != "" {
+			t.Errorf("load at %g of the limit: findings %q", c.scale, got)
+		}
+		if !c.starved {
+			op := res.Solved.OP
+			l := partIndex(t, res.Build.Design, "L")
+			p := limit * c.scale
+			want := (vs + math.Sqrt(vs*vs-4*p*r)) / 2
+			if math.Abs(op.V[l]-want) > 1e-6 {
+				t.Errorf("load at %g of the limit: %.9g V, want %.9g V", c.scale, op.V[l], want)
+			}
+		}
+	}
+}
+
+// TestPowerLoadsShareARail: two constant-power loads on one rail draw as
+// one load of their sum (KCL: their currents add at the same voltage), so
+// the closed form holds for P1 + P2; and the powers of all parts sum to
+// zero (Tellegen's theorem, Philips Res. Rep. 7, 259 (1952), from
+// memory).
+func TestPowerLoadsShareARail(t *testing.T) {
+	src := "ground gnd\nsource VS (vs, gnd) 12 V\nresistor RS (vs, rail) 2 Ω\nload L1 (rail, gnd) 7 W\nload L2 (rail, gnd) 9 W\nresistor RB (rail, gnd) 100 Ω\n"
+	d, v, i := opOf(t, src)
+	// With the 100 Ω bleeder the rail is the Thévenin source 12·100/102 V
+	// behind 2‖100 Ω.
+	vth, rth := 12*100.0/102, 2*100.0/102
+	want := (vth + math.Sqrt(vth*vth-4*16*rth)) / 2
+	l1 := partIndex(t, d, "L1")
+	if rel(v[l1], want) > 1e-9 {
+		t.Errorf("rail at %.12g V, want %.12g V", v[l1], want)
+	}
+	sum, scale := 0.0, 0.0
+	for k := range d.Parts {
+		sum += v[k] * i[k]
+		scale += math.Abs(v[k] * i[k])
+	}
+	if math.Abs(sum) > 1e-9*scale {
+		t.Errorf("Tellegen: powers sum to %g W of %g W", sum, scale)
+	}
+}
+
+// TestCurrentLoad: a constant-current load draws its current whatever its
+// voltage (Ohm's law for the rest).
+func TestCurrentLoad(t *testing.T) {
+	d, v, i := opOf(t, "ground gnd\nsource VS (vs, gnd) 12 V\nresistor RS (vs, rail) 10 Ω\nload L (rail, gnd) 250 mA\n")
+	l := partIndex(t, d, "L")
+	if rel(i[l], 0.25) > 1e-12 || rel(v[l], 12-2.5) > 1e-12 {
+		t.Errorf("load at %g V, %g A; want 9.5 V, 250 mA", v[l], i[l])
+	}
+}
