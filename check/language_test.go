@@ -67,7 +67,8 @@ func near(a, b float64) bool { return math.Abs(a-b) <= 1e-12*math.Max(math.Abs(a
 // solveRules are the findings of the DC solve and the rating checks,
 // which this file does not test.
 var solveRules = map[string]bool{"ill-conditioned": true, "near-rating": true, "over-power": true, "over-current": true,
-	"over-voltage": true, "reverse-voltage": true, "solve-failed": true, "no-convergence": true}
+	"over-voltage": true, "reverse-voltage": true, "solve-failed": true, "no-convergence": true,
+	"corner-over-rating": true, "over-temperature": true, "starved-load": true}
 
 func TestGreenhouseExample(t *testing.T) {
 	res := run(t, greenhouse)

@@ -41,7 +41,10 @@ numbers:
               "use": 0.39, "limit": "power"}, ...]}
 
 "use" is the largest fraction of any rating and "limit" names that rating;
-both are null for a part with no rating.
+both are null for a part with no rating. A battery with a capacity also has
+"capacity" (in coulombs; 1 Ah = 3600 C) and, while it discharges,
+"runtime" (in seconds): capacity ÷ discharge current, a simple estimate
+that ignores the discharge rate, temperature, age and cut-off voltage.
 
 Values the circuit does not fix (a section with no DC path to ground, the
 current around a loop of ideal shorts and voltage sources) are shown as

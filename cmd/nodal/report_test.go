@@ -44,6 +44,9 @@ type reportDoc struct {
 		// The worst use over tolerances and temperature, and where.
 		WorstUse *float64 `json:"worst_use"`
 		WorstAt  string   `json:"worst_at"`
+		// A battery's capacity (C) and runtime (s).
+		Capacity float64 `json:"capacity"`
+		Runtime  float64 `json:"runtime"`
 	} `json:"parts"`
 }
 
@@ -66,6 +69,11 @@ func parseReport(t *testing.T, out string) *reportDoc {
 	for _, p := range doc.Parts {
 		if p.Voltage == nil || p.Current == nil || p.Power == nil || p.Ratings == nil {
 			t.Errorf("part %s lacks a field: %+v", p.Name, p)
+		}
+		// The runtime is capacity over discharge current (the estimate
+		// "nodal report --help" states), to the ten figures JSON keeps.
+		if p.Runtime != 0 && (p.Current == nil || !relNear(p.Runtime, p.Capacity/-*p.Current, 1e-8)) {
+			t.Errorf("part %s: runtime %v s from %v C at %v A", p.Name, p.Runtime, p.Capacity, p.Current)
 		}
 		if (p.Use == nil) != (len(p.Ratings) == 0) || (p.Use == nil) != (p.Limit == nil) {
 			t.Errorf("part %s: use %v, limit %v with %d ratings", p.Name, p.Use, p.Limit, len(p.Ratings))
@@ -197,6 +205,8 @@ func checkUses(t *testing.T, doc *reportDoc) {
 				v = math.Abs(*p.Current)
 			case k == "reverse_voltage":
 				v = math.Max(-*p.Voltage, 0)
+			case k == "discharge_current": // out of a battery's first pin
+				v = math.Max(-*p.Current, 0)
 			case k == "voltage":
 				v = math.Abs(*p.Voltage)
 			default:

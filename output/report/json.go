@@ -62,7 +62,8 @@ func key(what string) string { return strings.ReplaceAll(what, " ", "_") }
 
 // WriteJSON writes the table as one JSON document: SI base units as plain
 // numbers (volts, amperes, watts), rounded to ten significant figures;
-// ratings keyed "power", "current", "voltage" and "reverse_voltage"; use
+// ratings keyed "power", "current", "voltage", "reverse_voltage" and
+// "discharge_current" (a battery's); capacity and runtime for a battery; use
 // the largest fraction of any rating, null when the part has none.
 func (t *Table) WriteJSON(w io.Writer) error {
 	doc := jsonDoc{File: t.File, Design: t.Design, Title: t.Title, Nets: []jsonNet{}, Parts: []jsonPart{}}
