@@ -2,7 +2,7 @@
 // for benchmarks and trials at scale. Every design is made up, determined
 // by its flags, and checks clean.
 //
-//	nodal-gen mesh -k 1000 -supplies 4 -loads 2000 > mesh.nodal
+//	nodal-gen mesh -k 1000 -supplies 4 -loads 2000 > mesh.nodal   # segments rated 1 W; -rated 0 for none
 //	nodal-gen mesh -k 700 -matrix g.mtx -rhs b.mtx > mesh.nodal
 //	nodal-gen ladder -n 500000 > ladder.nodal
 //	nodal-gen random -parts 1000000 -seed 7 > random.nodal
@@ -46,6 +46,7 @@ func run(args []string, stdout, stderr io.Writer) int {
 		parts := fl.Int("parts", 0, "choose K for about this many parts (overrides -k)")
 		sup := fl.Int("supplies", 4, "supply pads at the corners (1-4)")
 		loads := fl.Int("loads", 0, "current sinks (default K)")
+		meshRated := fl.Float64("rated", 1, "power rating of every segment in W, as on a real mesh (0: none)")
 		matrix := fl.String("matrix", "", "also write the nodal matrix (Matrix Market) to this file")
 		rhs := fl.String("rhs", "", "with -matrix: write the right-hand side here")
 		if fl.Parse(args[1:]) != nil {
@@ -54,7 +55,7 @@ func run(args []string, stdout, stderr io.Writer) int {
 		if *parts > 0 {
 			*k = gen.MeshSide(*parts)
 		}
-		m := &gen.Mesh{K: *k, Supplies: *sup, Loads: *loads, Seed: *seed}
+		m := &gen.Mesh{K: *k, Supplies: *sup, Loads: *loads, Rated: *meshRated, Seed: *seed}
 		if *matrix != "" {
 			if *rhs == "" {
 				fmt.Fprintln(stderr, "nodal-gen: -matrix needs -rhs")

@@ -42,7 +42,7 @@ func source(b *testing.B, kind string, parts int) []byte {
 	var err error
 	switch kind {
 	case "mesh":
-		err = (&gen.Mesh{K: gen.MeshSide(parts), Supplies: 4, Seed: 1}).Write(&buf)
+		err = (&gen.Mesh{K: gen.MeshSide(parts), Supplies: 4, Rated: 1, Seed: 1}).Write(&buf)
 	case "random":
 		err = (&gen.Random{Parts: parts, Seed: 1}).Write(&buf)
 	case "blocks":
@@ -295,7 +295,7 @@ func meshSource(b *testing.B, k int, diodes bool) []byte {
 		return s
 	}
 	var buf bytes.Buffer
-	if err := (&gen.Mesh{K: k, Supplies: 4, Loads: k, Seed: 1}).Write(&buf); err != nil {
+	if err := (&gen.Mesh{K: k, Supplies: 4, Loads: k, Rated: 1, Seed: 1}).Write(&buf); err != nil {
 		b.Fatal(err)
 	}
 	if diodes {

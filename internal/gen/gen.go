@@ -25,6 +25,7 @@ type Mesh struct {
 	Segment  float64 // segment resistance in Ω (0 means 10 mΩ)
 	Pad      float64 // pad-to-mesh resistance in Ω (0 means 1 mΩ)
 	Load     float64 // current of each sink in A (0 means 1 mA)
+	Rated    float64 // power rating of every segment in W, as real meshes carry (0 writes none)
 	Seed     uint64  // places the loads
 }
 
@@ -147,7 +148,7 @@ func (x *w) amps(v float64) *w {
 
 // Write writes the mesh design. Nets are n<row>_<col>; horizontal segments
 // are h<row>_<col>, vertical ones v<row>_<col>; pads p<s>, supplies vdd<s>,
-// loads i<n>.
+// loads i<n>. With Rated set, every segment line ends in `rated <W> W`.
 func (m *Mesh) Write(out io.Writer) error {
 	c := m.defaults()
 	x := newW(out)
@@ -158,13 +159,21 @@ func (m *Mesh) Write(out io.Writer) error {
 		x.s("source vdd").i(s).s(" (p").i(s).s(", gnd) ").f(c.Volts).s(" V").end()
 		x.s("resistor rp").i(s).s(" (p").i(s).s(", ").net(r, col).s(") ").ohms(c.Pad).end()
 	}
+	rating := func() {
+		if c.Rated > 0 {
+			x.s(" rated ").f(c.Rated).s(" W")
+		}
+		x.end()
+	}
 	for r := 0; r < c.K; r++ {
 		for col := 0; col < c.K; col++ {
 			if col+1 < c.K {
-				x.s("resistor h").i(r).s("_").i(col).s(" (").net(r, col).s(", ").net(r, col+1).s(") ").ohms(c.Segment).end()
+				x.s("resistor h").i(r).s("_").i(col).s(" (").net(r, col).s(", ").net(r, col+1).s(") ").ohms(c.Segment)
+				rating()
 			}
 			if r+1 < c.K {
-				x.s("resistor v").i(r).s("_").i(col).s(" (").net(r, col).s(", ").net(r+1, col).s(") ").ohms(c.Segment).end()
+				x.s("resistor v").i(r).s("_").i(col).s(" (").net(r, col).s(", ").net(r+1, col).s(") ").ohms(c.Segment)
+				rating()
 			}
 		}
 	}

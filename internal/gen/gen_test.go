@@ -21,6 +21,9 @@ func TestGeneratedDesignsCheckClean(t *testing.T) {
 		{"mesh4", (&gen.Mesh{K: 41, Supplies: 4, Loads: 100, Seed: 9}).Parts(), func(b *bytes.Buffer) error {
 			return (&gen.Mesh{K: 41, Supplies: 4, Loads: 100, Seed: 9}).Write(b)
 		}},
+		{"mesh rated", (&gen.Mesh{K: 30, Supplies: 4, Rated: 1}).Parts(), func(b *bytes.Buffer) error {
+			return (&gen.Mesh{K: 30, Supplies: 4, Rated: 1}).Write(b)
+		}},
 		{"ladder", (&gen.Ladder{N: 3000}).Parts(), func(b *bytes.Buffer) error { return (&gen.Ladder{N: 3000, Seed: 2}).Write(b) }},
 		{"blocks", (&gen.Blocks{N: 2000}).Parts(), func(b *bytes.Buffer) error { return (&gen.Blocks{N: 2000, Seed: 3}).Write(b) }},
 	}
@@ -58,6 +61,33 @@ func TestGeneratedDesignsCheckClean(t *testing.T) {
 		if c.name == "random" && len(res.Build.Design.Parts) < 190 {
 			t.Errorf("random: only %d parts", len(res.Build.Design.Parts))
 		}
+	}
+}
+
+// A rated mesh carries the rating on every segment and on nothing else,
+// like a real power grid whose segments are specified by their dissipation.
+func TestMeshRatedEverySegment(t *testing.T) {
+	m := &gen.Mesh{K: 20, Supplies: 4, Rated: 1}
+	var buf bytes.Buffer
+	if err := m.Write(&buf); err != nil {
+		t.Fatal(err)
+	}
+	segments, rated := 0, 0
+	for _, line := range bytes.Split(buf.Bytes(), []byte("\n")) {
+		seg := bytes.HasPrefix(line, []byte("resistor h")) || bytes.HasPrefix(line, []byte("resistor v"))
+		r := bytes.HasSuffix(line, []byte(" rated 1 W"))
+		if seg {
+			segments++
+		}
+		if r {
+			rated++
+			if !seg {
+				t.Errorf("rating on a line that is no segment: %s", line)
+			}
+		}
+	}
+	if segments != 2*20*19 || rated != segments {
+		t.Errorf("%d segments, %d rated; want %d of each", segments, rated, 2*20*19)
 	}
 }
 
