@@ -29,9 +29,10 @@ type Options struct {
 	// MaxCornerWork bounds corners × parts for that enumeration (4e6).
 	MaxCornerWork float64
 	// MaxUnknowns: designs with more unknowns in the linearised system are
-	// not judged (200 000).
+	// not judged (10 000): its sparse LU has no fill budget of its own.
 	MaxUnknowns int
-	// MaxWork bounds parameters × unknowns of the direct solves (1e9).
+	// MaxWork bounds the floating-point operations of the direct solves
+	// (2e9, about a second).
 	MaxWork float64
 	// ConfirmAbove: quantities whose first-order worst use reaches this
 	// fraction of their rating are confirmed by a full solve (0.5).
@@ -48,10 +49,10 @@ func (o *Options) defaults() {
 		o.MaxCornerWork = 4e6
 	}
 	if o.MaxUnknowns == 0 {
-		o.MaxUnknowns = 200_000
+		o.MaxUnknowns = 10_000
 	}
 	if o.MaxWork == 0 {
-		o.MaxWork = 1e9
+		o.MaxWork = 2e9
 	}
 	if o.ConfirmAbove == 0 {
 		o.ConfirmAbove = 0.5
@@ -187,19 +188,29 @@ func (a *analysis) sensitivities() error {
 	}
 	a.res.NetLow = append([]float64(nil), r.NetV...)
 	a.res.NetHigh = append([]float64(nil), r.NetV...)
-	j, err := newJacobian(a.dn, r, units.Kelvin(tNom))
-	if err != nil {
-		return err
-	}
-	if j.n > a.opt.MaxUnknowns {
-		return &Skipped{Reason: fmt.Sprintf("its %d unknowns are more than the worst-case analysis takes (%d)", j.n, a.opt.MaxUnknowns)}
-	}
 	nparam := len(ps)
 	if a.res.RangeT {
 		nparam++
 	}
-	if w := float64(nparam) * float64(j.n); w > a.opt.MaxWork {
-		return &Skipped{Reason: fmt.Sprintf("%d toleranced parameters on %d unknowns is more work than the worst-case analysis takes", nparam, j.n)}
+	// The work of the direct solves: one pass over the factors each, or
+	// the inverse (n solves) and two of its columns per parameter; asked
+	// with the symbolic fill before factoring and again with the real one.
+	budget := func(n, fill int) error {
+		work := float64(nparam) * 2 * float64(fill)
+		if nparam > n && n <= maxInverse {
+			work = float64(n)*2*float64(fill) + float64(nparam)*2*float64(n)
+		}
+		if work > a.opt.MaxWork {
+			return &Skipped{Reason: fmt.Sprintf("%d toleranced parameters on %d unknowns is more work than the worst-case analysis takes (%.1e of %.1e operations)", nparam, n, work, a.opt.MaxWork)}
+		}
+		return nil
+	}
+	j, err := newJacobian(a.dn, r, units.Kelvin(tNom), a.opt.MaxUnknowns, budget)
+	if err != nil {
+		return err
+	}
+	if err := budget(j.n, j.fill()); err != nil {
+		return err
 	}
 	// Partial derivatives of each quantity's use in the part's V, I and
 	// P, by central differences on the judge.

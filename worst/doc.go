@@ -46,8 +46,9 @@
 //
 // # Limits
 //
-// Work is bounded: designs past MaxUnknowns or whose direct solves would
-// pass MaxWork are not judged, and Result.Skipped says why; confirmation
+// Work is bounded: designs past MaxUnknowns (checked before anything is
+// factored) or whose direct solves would pass MaxWork (counted from the
+// factors' fill) are not judged, and the *Skipped error says why; confirmation
 // solves stop after MaxConfirm, and the quantities left keep their
 // first-order estimate, which Result.Unconfirmed counts.
 package worst

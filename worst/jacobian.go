@@ -29,7 +29,10 @@ type jacobian struct {
 
 // newJacobian builds and factors the Jacobian of d (values at the nominal
 // temperature) at its operating point r.
-func newJacobian(d *circuit.Design, r *solve.Result, tK float64) (*jacobian, error) {
+//
+// budget is asked, before the numeric factorisation, whether solves of n
+// unknowns with factors of about the given fill are affordable.
+func newJacobian(d *circuit.Design, r *solve.Result, tK float64, maxUnknowns int, budget func(n, fill int) error) (*jacobian, error) {
 	j := &jacobian{d: d, r: r, tK: tK, node: make([]int32, len(d.Nets)),
 		branch: make([]int32, len(d.Parts)), inner: make([]int32, len(d.Parts)), gd: make([]float64, len(d.Parts))}
 	n := int32(0)
@@ -77,6 +80,9 @@ func newJacobian(d *circuit.Design, r *solve.Result, tK float64) (*jacobian, err
 	if j.n == 0 {
 		return j, nil
 	}
+	if j.n > maxUnknowns {
+		return nil, &Skipped{Reason: fmt.Sprintf("its %d unknowns are more than the worst-case analysis takes (%d)", j.n, maxUnknowns)}
+	}
 	t := sparse.NewTriplet(j.n, j.n, 4*len(d.Parts)+j.n)
 	add := func(a, b int32, x float64) {
 		if a >= 0 && b >= 0 {
@@ -120,10 +126,29 @@ func newJacobian(d *circuit.Design, r *solve.Result, tK float64) (*jacobian, err
 		}
 	}
 	a := t.Compress()
+	// The symbolic Cholesky analysis of the (symmetric) pattern bounds the
+	// fill before anything is factored: networks without small
+	// separators (random ones) fill in far past what their sensitivities
+	// are worth.
+	var ch sparse.Cholesky
+	if err := ch.AnalyzeBudget(a, maxFill); err != nil {
+		return nil, &Skipped{Reason: fmt.Sprintf("its linearised equations would fill in past %d entries when factored", maxFill)}
+	}
+	if err := budget(j.n, 2*ch.NnzL()); err != nil {
+		return nil, err
+	}
 	if err := j.lu.Factor(a); err != nil {
 		return nil, &Skipped{Reason: fmt.Sprintf("its linearised equations are singular (%v), as with voltage sources in parallel", err)}
 	}
 	return j, nil
+}
+
+// fill returns the entries of the factors: the cost of one solve.
+func (j *jacobian) fill() int {
+	if j.n == 0 {
+		return 0
+	}
+	return j.lu.L().Nnz() + j.lu.U().Nnz()
 }
 
 // junctionSlope returns dI/dV of p's junction at junction voltage v and
@@ -253,6 +278,10 @@ func (j *jacobian) netDeltas(dx []float64, out []float64) {
 		}
 	}
 }
+
+// maxFill bounds the entries of the factor's symbolic analysis (4·10⁶,
+// 32 MB per factor).
+const maxFill = 4_000_000
 
 // maxInverse is the largest system whose inverse is kept (8 MB per 1000
 // unknowns squared).
