@@ -173,7 +173,7 @@ func (s *Server) check(path string, src []byte, overlay map[string][]byte, utf8 
 			snap.diags = []published{topFinding(t, fmt.Sprintf("nodal: internal error while checking: %v; please report it with this file", r))}
 		}
 	}()
-	opts := &check.Options{}
+	opts := &check.Options{MaxParts: s.opt.MaxParts}
 	if path == "" {
 		opts.ReadFile = func(string) ([]byte, error) {
 			return nil, errors.New("a file that is not saved reads no includes")

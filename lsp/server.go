@@ -53,6 +53,9 @@ type Options struct {
 	Debounce time.Duration
 	// Parallel bounds the checks that run at once (0: 2).
 	Parallel int
+	// MaxParts bounds the parts a design may expand to, as --max-parts
+	// does (0: the command line's default).
+	MaxParts int64
 }
 
 // Server is one session with one editor.
