@@ -497,3 +497,12 @@ func TestSmallSlips(t *testing.T) {
 		t.Errorf("an empty net name: %v, want the one syntax finding", got)
 	}
 }
+
+// An attribute written before any value is an attribute, not a parameter
+// standing alone in the value's place.
+func TestAttributeBeforeValue(t *testing.T) {
+	src := "ground gnd\nsource V (a, gnd) 5 V\nresistor R1 (a, b) 1 kΩ\nled D1 (b, gnd) theta 300 K/W vf 2 V at 10 mA\n"
+	if got := lines(run(t, src)); len(got) != 0 {
+		t.Errorf("theta before vf: %v", got)
+	}
+}

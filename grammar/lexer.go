@@ -20,7 +20,7 @@ const (
 	TokComment
 	TokIdent    // a name: [A-Za-z_][A-Za-z0-9_]*
 	TokKeyword  // a statement keyword: design ground port include block
-	TokAttrWord // an attribute word: tol rated vf at ideality series dcr open closed
+	TokAttrWord // an attribute word: tol rated vf at ideality series dcr tempco derate theta tjmax capacity open closed
 	TokUnit     // a unit with optional prefix standing alone: Ω kΩ mA V %, °C, K/W
 	TokCode     // an IEC 60062 resistor code starting with R: R47
 	TokNumber   // a number with any letters glued to it: 12, 4.7k, 4k7, 100nF
@@ -42,10 +42,13 @@ var keywords = map[string]bool{
 	"ambient": true,
 }
 
-// Attribute words, and the two switch states.
+// Attribute words, and the two switch states. Every attribute a kind takes
+// is one (circuit's TestAttributesAreAttributeWords checks it): a word in
+// a value's place that is not one is read as a parameter standing alone.
 var attrWords = map[string]bool{
 	"tol": true, "rated": true, "vf": true, "at": true, "ideality": true,
 	"series": true, "dcr": true, "open": true, "closed": true,
+	"tempco": true, "derate": true, "theta": true, "tjmax": true, "capacity": true,
 }
 
 // byteOrderMark is U+FEFF in UTF-8, which some editors write at the start
