@@ -1,12 +1,31 @@
 package rules
 
 import (
-	"strings"
+	"slices"
+	"unicode"
+	"unicode/utf8"
 
 	"nodal/diag"
 )
 
 // CaseClash reports names that differ only in letter case.
+//
+// # Method
+//
+// Two names clash when strings.ToLower makes them equal, that is when
+// their runes are equal after unicode.ToLower one by one. Instead of a map
+// from lower-cased name to first use (two maps of every name, a lower-cased
+// copy of each), the rule hashes each name's lower-cased runes without
+// copying it (FNV-1a, Fowler–Noll–Vo), packs the hash's upper 32 bits
+// above the index into one uint64, and sorts these keys with an LSD radix
+// sort (two passes of 16 bits over the hash half; the index half is
+// already in order, and the sort is stable). Names that fold alike then
+// sit next to each other, in index order. Only runs with the same hash are
+// looked at; a run is sorted by the folded names themselves (ties by
+// index), so colliding hashes cost a comparison, never a wrong finding,
+// and a run of colliding names crafted on purpose costs n log n, not n².
+// Within each group of equal folded names the first by index is the first
+// use, as a map filled in index order would have it.
 var CaseClash = &Analyzer{
 	Name:     "case-clash",
 	Severity: diag.Warning,
@@ -15,39 +34,143 @@ Names are case-sensitive, so Vin and vin are two nets (or two parts). That
 is rarely meant.`,
 	Run: func(p *Pass) (any, error) {
 		d := p.Design
-		type first struct {
-			name string
-			pos  diag.Pos
-		}
-		nets := make(map[string]first, len(d.Nets))
+		n := max(len(d.Nets), len(d.Parts))
+		keys, tmp := make([]uint64, 0, n), make([]uint64, n)
 		for i := range d.Nets {
-			n := &d.Nets[i]
-			if n.Pins == 0 && !n.Port {
-				continue
-			}
-			key := strings.ToLower(n.Name)
-			if f, ok := nets[key]; ok && f.name != n.Name {
-				p.Report(diag.Diagnostic{Pos: n.Pos, End: n.End, Subject: n.Name, Message: "net " + netName(d, i32(i)) + " differs from net " + f.name + " only in letter case; names are case-sensitive, so they are two nets",
-					Related: []diag.Related{{Pos: f.pos, Message: "net " + f.name + " is first used here"}}})
-				continue
-			}
-			if _, ok := nets[key]; !ok {
-				nets[key] = first{n.Name, n.Pos}
+			if net := &d.Nets[i]; net.Pins > 0 || net.Port {
+				keys = append(keys, foldHash(net.Name)<<32|uint64(i))
 			}
 		}
-		parts := make(map[string]first, len(d.Parts))
+		foldGroups(keys, tmp, func(i int) string { return d.Nets[i].Name }, func(first, i int) {
+			f, net := &d.Nets[first], &d.Nets[i]
+			p.Report(diag.Diagnostic{Pos: net.Pos, End: net.End, Subject: net.Name, Message: "net " + netName(d, i32(i)) + " differs from net " + f.Name + " only in letter case; names are case-sensitive, so they are two nets",
+				Related: []diag.Related{{Pos: f.Pos, Message: "net " + f.Name + " is first used here"}}})
+		})
+		keys = keys[:0]
 		for i := range d.Parts {
-			q := &d.Parts[i]
-			key := strings.ToLower(q.Name)
-			if f, ok := parts[key]; ok && f.name != q.Name {
-				p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: q.Name, Message: "part " + q.Name + " differs from part " + f.name + " only in letter case",
-					Related: []diag.Related{{Pos: f.pos, Message: f.name + " is here"}}})
-				continue
-			}
-			if _, ok := parts[key]; !ok {
-				parts[key] = first{q.Name, q.Pos}
-			}
+			keys = append(keys, foldHash(d.Parts[i].Name)<<32|uint64(i))
 		}
+		foldGroups(keys, tmp, func(i int) string { return d.Parts[i].Name }, func(first, i int) {
+			f, q := &d.Parts[first], &d.Parts[i]
+			p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: q.Name, Message: "part " + q.Name + " differs from part " + f.Name + " only in letter case",
+				Related: []diag.Related{{Pos: f.Pos, Message: f.Name + " is here"}}})
+		})
 		return nil, nil
 	},
+}
+
+// foldHash is the upper 32 bits of the 64-bit FNV-1a hash of the
+// lower-cased runes of s (each rune as its UTF-8 bytes; an invalid byte as
+// U+FFFD, as strings.ToLower writes it).
+func foldHash(s string) uint64 {
+	const offset, prime = 14695981039346656037, 1099511628211
+	h := uint64(offset)
+	for i := 0; i < len(s); {
+		c := s[i]
+		if c < utf8.RuneSelf {
+			if 'A' <= c && c <= 'Z' {
+				c += 'a' - 'A'
+			}
+			h = (h ^ uint64(c)) * prime
+			i++
+			continue
+		}
+		r, w := utf8.DecodeRuneInString(s[i:])
+		i += w
+		var buf [utf8.UTFMax]byte
+		for _, b := range utf8.AppendRune(buf[:0], unicode.ToLower(r)) {
+			h = (h ^ uint64(b)) * prime
+		}
+	}
+	return h >> 32
+}
+
+// foldCompare compares a and b as strings.ToLower(a) and strings.ToLower(b)
+// would compare, rune by rune, without building either.
+func foldCompare(a, b string) int {
+	for a != "" && b != "" {
+		ra, wa := utf8.DecodeRuneInString(a)
+		rb, wb := utf8.DecodeRuneInString(b)
+		if ra < utf8.RuneSelf && 'A' <= ra && ra <= 'Z' {
+			ra += 'a' - 'A'
+		} else if ra >= utf8.RuneSelf {
+			ra = unicode.ToLower(ra)
+		}
+		if rb < utf8.RuneSelf && 'A' <= rb && rb <= 'Z' {
+			rb += 'a' - 'A'
+		} else if rb >= utf8.RuneSelf {
+			rb = unicode.ToLower(rb)
+		}
+		if ra != rb {
+			if ra < rb {
+				return -1
+			}
+			return 1
+		}
+		a, b = a[wa:], b[wb:]
+	}
+	switch {
+	case a == "" && b == "":
+		return 0
+	case a == "":
+		return -1
+	}
+	return 1
+}
+
+// foldGroups sorts keys (hash<<32 | index, indexes ascending on entry) and
+// calls clash(first, i) for every index i whose name folds like an earlier
+// one's but is spelt differently, first being the earliest index of its
+// group. tmp is scratch of at least len(keys).
+func foldGroups(keys, tmp []uint64, name func(int) string, clash func(first, i int)) {
+	radixSortHigh(keys, tmp[:len(keys)])
+	for lo := 0; lo < len(keys); {
+		hi := lo + 1
+		for hi < len(keys) && keys[hi]>>32 == keys[lo]>>32 {
+			hi++
+		}
+		if hi-lo > 1 {
+			run := keys[lo:hi]
+			slices.SortStableFunc(run, func(x, y uint64) int {
+				return foldCompare(name(int(uint32(x))), name(int(uint32(y))))
+			})
+			first := int(uint32(run[0]))
+			for k := 1; k < len(run); k++ {
+				i := int(uint32(run[k]))
+				if foldCompare(name(first), name(i)) != 0 {
+					first = i
+					continue
+				}
+				if name(i) != name(first) {
+					clash(first, i)
+				}
+			}
+		}
+		lo = hi
+	}
+}
+
+// radixSortHigh sorts keys by their upper 32 bits, keeping the order of
+// equal ones: a least-significant-digit radix sort in two 16-bit passes.
+func radixSortHigh(keys, tmp []uint64) {
+	var count [1 << 16]int
+	src, dst := keys, tmp
+	for shift := uint(32); shift < 64; shift += 16 {
+		clear(count[:])
+		for _, k := range src {
+			count[(k>>shift)&0xffff]++
+		}
+		sum := 0
+		for i, c := range count {
+			count[i] = sum
+			sum += c
+		}
+		for _, k := range src {
+			b := (k >> shift) & 0xffff
+			dst[count[b]] = k
+			count[b]++
+		}
+		src, dst = dst, src
+	}
+	// Two passes: the sorted keys are back in keys.
 }

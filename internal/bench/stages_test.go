@@ -392,3 +392,22 @@ func samplePeak(stop <-chan struct{}, out chan<- float64) {
 		}
 	}
 }
+
+// BenchmarkCaseClash is the case-clash rule alone (and the last pass over
+// its findings, none here) on the built design.
+func BenchmarkCaseClash(b *testing.B) {
+	each(b, func(b *testing.B, kind string, src []byte) {
+		fset, r := built(b, src)
+		b.ReportAllocs()
+		for b.Loop() {
+			l, err := rules.Run(fset, r, []*rules.Analyzer{rules.CaseClash}, nil)
+			if err != nil {
+				b.Fatal(err)
+			}
+			if len(l) > 0 {
+				b.Fatal("case clash in a generated design")
+			}
+		}
+		perPart(b, len(r.Design.Parts))
+	})
+}
