@@ -299,3 +299,21 @@ func TestBrokenInputNeverStops(t *testing.T) {
 func endPos(src string) protocol.Position {
 	return protocol.Position{Line: uint32(strings.Count(src, "\n")), Character: uint32(len(src) - strings.LastIndex(src, "\n") - 1)}
 }
+
+// TestHoverWorstCase: with tolerances, hover gives each rating's worst
+// case and a net's range. The divider is invented: 12 V over 1 kΩ and
+// 2 kΩ, each 5 %; the tap moves around 8 V.
+func TestHoverWorstCase(t *testing.T) {
+	s := newSession(t, Options{})
+	s.initialize()
+	src := "ground gnd\nsource V1 (vin, gnd) 12 V\nresistor R1 (vin, tap) 1 kΩ tol 5% rated 250 mW\nresistor R2 (tap, gnd) 2 kΩ tol 5% rated 250 mW\n"
+	u := s.write("w.nodal", src)
+	s.open(u, src)
+	s.diagnostics(u, 1)
+	if h := hoverText(t, s, u, pos(t, src, "R2", 0, 0)); !strings.Contains(h, "worst case over the tolerances") {
+		t.Errorf("hover on R2 without its worst case:\n%s", h)
+	}
+	if h := hoverText(t, s, u, pos(t, src, "tap", 0, 0)); !strings.Contains(h, "over the tolerances") {
+		t.Errorf("hover on tap without its range:\n%s", h)
+	}
+}

@@ -10,6 +10,7 @@ import (
 	"nodal/circuit"
 	"nodal/rules"
 	"nodal/units"
+	"nodal/worst"
 )
 
 // Hover says, on a part, its kind, its statement, its operating point and
@@ -67,6 +68,8 @@ func (s *Server) Hover(ctx context.Context, p *protocol.HoverParams) (_ *protoco
 	return &protocol.Hover{Contents: &protocol.MarkupContent{Kind: protocol.MarkupKindMarkdown, Value: valid(b.String())}, Range: &r}, nil
 }
 
+type worstCase = worst.Case
+
 // maxHoverCopies bounds the copies of a block's part a hover lists.
 const maxHoverCopies = 8
 
@@ -120,7 +123,11 @@ func (s *Server) hoverPart(b *strings.Builder, doc indexed, ref *partRef, last *
 		q := pt.Part(id)
 		fmt.Fprintf(b, "; at the operating point %s, %s, %s\n", md(units.Format(q.V, units.Voltage)),
 			md(units.Format(q.I, units.Current)), md(units.Format(q.P, units.Power)))
-		for _, u := range rules.Judge(part, q, der) {
+		var worst [][]worstCase
+		if wr := last.res.Worst; wr != nil && wr.R != nil {
+			worst = wr.R.Worst
+		}
+		for j, u := range rules.Judge(part, q, der) {
 			mark := ""
 			switch {
 			case u.Over():
@@ -129,6 +136,15 @@ func (s *Server) hoverPart(b *strings.Builder, doc indexed, ref *partRef, last *
 				mark = " (past the derating limit)"
 			}
 			fmt.Fprintf(b, "- %s%s\n", md(rules.Describe(part, u)), mark)
+			if int(id) < len(worst) && j < len(worst[id]) {
+				c := worst[id][j]
+				how := "first-order estimate"
+				if c.Confirmed {
+					how = "solved at that corner"
+				}
+				fmt.Fprintf(b, "  - worst case over the tolerances: %s (%s)\n", md(rules.FormatUse(c.Frac, u.Limit)), how)
+				over = over || c.Frac > 1
+			}
 		}
 	}
 	if over {
@@ -162,7 +178,11 @@ func (s *Server) hoverNet(b *strings.Builder, doc indexed, n *netRef, last *snap
 		b.WriteString(", a port")
 	}
 	if sv := last.res.Solved; sv != nil && sv.OP != nil && int(id) < len(sv.OP.NetV) {
-		fmt.Fprintf(b, "; %s at the operating point\n", md(units.Format(rules.NewPoint(sv.OP).Net(id), units.Voltage)))
+		fmt.Fprintf(b, "; %s at the operating point", md(units.Format(rules.NewPoint(sv.OP).Net(id), units.Voltage)))
+		if wr := last.res.Worst; wr != nil && wr.R != nil && int(id) < len(wr.R.NetLow) && int(id) < len(wr.R.NetHigh) {
+			fmt.Fprintf(b, ", from %s to %s over the tolerances", md(units.Format(wr.R.NetLow[id], units.Voltage)), md(units.Format(wr.R.NetHigh[id], units.Voltage)))
+		}
+		b.WriteString("\n")
 	} else {
 		b.WriteString("; no operating point (the design was not solved; see the findings)\n")
 	}
