@@ -187,9 +187,9 @@ func (w *walker) part() (int, string, bool) {
 				return fail("a comma between the values of " + lastKey + " (rated 0.5 W, 50 V)")
 			}
 			if !hasValue {
-				return fail("a value, an attribute (tol, rated, vf, ideality, series, dcr) or end of line")
+				return fail("a value, an attribute (" + attributeList + ") or end of line")
 			}
-			return fail("an attribute (tol, rated, vf, ideality, series, dcr) or end of line")
+			return fail("an attribute (" + attributeList + ") or end of line")
 		}
 		key := t.Value
 		w.i++

@@ -55,6 +55,10 @@ var attrWords = map[string]bool{
 // of a file.
 const byteOrderMark = "\ufeff"
 
+// attributeList names the attributes for messages, commonest first: the
+// attribute words but at and the switch states.
+const attributeList = "tol, rated, vf, ideality, series, dcr, tempco, derate, theta, tjmax, capacity"
+
 // MaxLineTokens bounds the tokens of one line; a longer line is a syntax
 // error rather than a reason to allocate without limit.
 const MaxLineTokens = 4096

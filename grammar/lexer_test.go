@@ -1,6 +1,7 @@
 package grammar
 
 import (
+	"strings"
 	"testing"
 
 	"nodal/units"
@@ -24,6 +25,23 @@ func TestUnitWordsFitTheBound(t *testing.T) {
 			if got := classifyWord(w); got != TokUnit {
 				t.Errorf("classifyWord(%q) = %v, want TokUnit", w, got)
 			}
+		}
+	}
+}
+
+// The attributes named in messages are the attribute words, but "at" and
+// the switch states.
+func TestAttributeListIsTheAttributeWords(t *testing.T) {
+	listed := map[string]bool{}
+	for _, w := range strings.Split(attributeList, ", ") {
+		listed[w] = true
+		if !attrWords[w] {
+			t.Errorf("%s is listed but is no attribute word", w)
+		}
+	}
+	for w := range attrWords {
+		if !listed[w] && w != "at" && w != "open" && w != "closed" {
+			t.Errorf("attribute word %s is missing from attributeList", w)
 		}
 	}
 }
