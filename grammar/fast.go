@@ -32,8 +32,9 @@ const batchLines = 1024
 // with the Newline that ends it. Reading a run per Parseable call rather
 // than a line keeps participle's per-node bookkeeping out of the loop.
 type fastRun struct {
-	sts  []*Statement
-	slab []partNodes // nodes for the next lines, allocated a chunk at a time
+	sts   []*Statement
+	slab  []partNodes // nodes for the next lines, allocated a chunk at a time
+	attrs []attrNodes // nodes for the next attributes (rated 1 W), the same way
 }
 
 // maxSlab bounds the chunk in which fastRun allocates nodes. Chunks grow
@@ -64,13 +65,27 @@ type partNodes struct {
 	value      Value
 }
 
-// attrNodes holds the nodes of an attribute with one value in one
-// allocation.
+// attrNodes holds the nodes of an attribute with one value, and the
+// part's attribute list when it is the first, in one slot of a chunk.
 type attrNodes struct {
 	attr   Attr
 	key    Name
 	value  Value
 	values [1]*Value
+	list   [1]*Attr
+}
+
+// attrNode returns the nodes for the next attribute. Like the part nodes
+// they come from chunks that grow from 4 to maxSlab, so that a file whose
+// every line is rated makes one allocation per maxSlab attributes instead
+// of two per line.
+func (r *fastRun) attrNode() *attrNodes {
+	if len(r.attrs) == 0 {
+		r.attrs = make([]attrNodes, min(max(4, 2*len(r.sts)), maxSlab))
+	}
+	an := &r.attrs[0]
+	r.attrs = r.attrs[1:]
+	return an
 }
 
 func isNameTok(t *lexer.Token) bool {
@@ -106,7 +121,7 @@ func (r *fastRun) Parse(lex *lexer.PeekingLexer) error {
 		if len(r.slab) == 0 {
 			r.slab = make([]partNodes, min(max(4, 2*len(r.sts)), maxSlab))
 		}
-		if st := readPartLine(lex, &r.slab[0]); st != nil {
+		if st := r.readPartLine(lex, &r.slab[0]); st != nil {
 			r.slab = r.slab[1:]
 			r.sts = append(r.sts, st)
 			continue
@@ -120,9 +135,9 @@ func (r *fastRun) Parse(lex *lexer.PeekingLexer) error {
 
 // readPartLine reads one part line and its Newline, or consumes nothing
 // and returns nil.
-func readPartLine(lex *lexer.PeekingLexer, nodes *partNodes) *Statement {
+func (r *fastRun) readPartLine(lex *lexer.PeekingLexer, nodes *partNodes) *Statement {
 	cp := lex.MakeCheckpoint()
-	if !readPart(lex, &nodes.part, nodes) || lex.Peek().Type != TokNewline {
+	if !r.readPart(lex, &nodes.part, nodes) || lex.Peek().Type != TokNewline {
 		lex.LoadCheckpoint(cp)
 		*nodes = partNodes{}
 		return nil
@@ -179,7 +194,7 @@ func readValue(lex *lexer.PeekingLexer, v *Value) bool {
 
 // readPart reads a Part as the grammar does, for the subset without
 // expressions in parentheses, and reports whether it could.
-func readPart(lex *lexer.PeekingLexer, p *Part, nodes *partNodes) bool {
+func (r *fastRun) readPart(lex *lexer.PeekingLexer, p *Part, nodes *partNodes) bool {
 	p.Pos = lex.Peek().Pos
 	if !readName(lex, &nodes.kind) || !readName(lex, &nodes.name) {
 		return false
@@ -247,7 +262,7 @@ func readPart(lex *lexer.PeekingLexer, p *Part, nodes *partNodes) bool {
 		if !isNameTok(t) {
 			return false // expressions, stray punctuation: the grammar's
 		}
-		an := &attrNodes{}
+		an := r.attrNode()
 		a := &an.attr
 		a.Pos, a.Key = t.Pos, &an.key
 		readName(lex, a.Key)
@@ -291,7 +306,12 @@ func readPart(lex *lexer.PeekingLexer, p *Part, nodes *partNodes) bool {
 		if to := lex.Peek(); to.Type == TokIdent && to.Value == "to" {
 			return false // a range (derate 70 °C to 155 °C): the grammar's
 		}
-		p.Attrs = append(p.Attrs, a)
+		if p.Attrs == nil {
+			an.list[0] = a
+			p.Attrs = an.list[:1:1]
+		} else {
+			p.Attrs = append(p.Attrs, a)
+		}
 	}
 	p.EndPos = lex.RawPeek().Pos
 	return true
