@@ -9,8 +9,6 @@ import (
 	"path/filepath"
 	"strings"
 
-	"github.com/alecthomas/participle/v2/lexer"
-
 	"nodal/diag"
 	"nodal/grammar"
 	"nodal/units"
@@ -115,17 +113,9 @@ type builder struct {
 	failed  []string // includes that could not be read, for later messages
 }
 
-func (b *builder) pos(p lexer.Position) diag.Pos { return b.file.Pos(clamp(p.Offset, b.file.Size())) }
-
-func clamp(o, n int) int {
-	if o < 0 {
-		return 0
-	}
-	if o > n {
-		return n
-	}
-	return o
-}
+// pos returns the diag.Pos of an offset the grammar gave for the file
+// being read.
+func (b *builder) pos(o grammar.Offset) diag.Pos { return o.At(b.file) }
 
 // report records a finding of elaboration with its rule's default
 // severity.
@@ -166,10 +156,10 @@ func (b *builder) where(p diag.Pos) string {
 func (b *builder) syntaxErrors(ast *grammar.File) {
 	for _, e := range ast.Errors {
 		end := e.End
-		if end <= e.Offset {
-			end = e.Offset
+		if end <= e.Pos {
+			end = e.Pos
 		}
-		b.report(CodeSyntax, b.file.Pos(clamp(e.Offset, b.file.Size())), b.file.Pos(clamp(end, b.file.Size())), "%s", e.Msg)
+		b.report(CodeSyntax, b.pos(e.Pos), b.pos(end), "%s", e.Msg)
 		b.r.Incomplete = true
 		for _, w := range e.Words {
 			if b.r.Unsure == nil {
@@ -215,7 +205,7 @@ func (b *builder) run(ast *grammar.File) {
 	for _, st := range top {
 		if st.Part != nil {
 			bs := &slab[len(b.top.body)]
-			*bs = bodyStmt{pt: st.Part, pos: b.pos(st.Pos), end: b.pos(st.EndPos)}
+			*bs = bodyStmt{pt: st.Part, pos: b.pos(st.Start()), end: b.pos(st.End())}
 			b.top.body = append(b.top.body, bs)
 		}
 	}
@@ -235,7 +225,7 @@ func (b *builder) run(ast *grammar.File) {
 	topScope := &scope{blk: b.top, inst: -1}
 	next := 0
 	for _, st := range top {
-		pos, end := b.pos(st.Pos), b.pos(st.EndPos)
+		pos, end := b.pos(st.Start()), b.pos(st.End())
 		switch {
 		case st.Design != nil:
 			if b.designPos.IsValid() {
@@ -258,14 +248,14 @@ func (b *builder) run(ast *grammar.File) {
 				}
 				continue
 			}
-			d.Ground = d.Net(name, b.pos(n.Pos), b.nameEnd(n))
+			d.Ground = d.Net(name, b.pos(n.Start()), b.nameEnd(n))
 			d.GroundPos = pos
 			b.groundStmt = pos
 		case st.Ambient != nil:
 			b.ambient(st.Ambient, pos, end)
 		case st.Port != nil:
 			for _, n := range st.Port.Nets {
-				id := d.Net(netName(n.Text), b.pos(n.Pos), b.nameEnd(n))
+				id := d.Net(netName(n.Text), b.pos(n.Start()), b.nameEnd(n))
 				d.Nets[id].Port = true
 			}
 		case st.Part != nil:
@@ -285,7 +275,7 @@ func (b *builder) run(ast *grammar.File) {
 }
 
 func (b *builder) nameEnd(n *grammar.Name) diag.Pos {
-	return b.file.Pos(clamp(n.Pos.Offset+len(n.Text), b.file.Size()))
+	return b.pos(n.End())
 }
 
 func unquote(s string) string {

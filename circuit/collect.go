@@ -26,7 +26,7 @@ func (b *builder) collect(ast *grammar.File, stack []string) []*grammar.Statemen
 	var open *blockDef
 	lib := len(stack) > 1
 	for _, st := range ast.Stmts {
-		pos, end := b.pos(st.Pos), b.pos(st.EndPos)
+		pos, end := b.pos(st.Start()), b.pos(st.End())
 		switch {
 		case st.Block != nil:
 			if open != nil {

@@ -43,16 +43,16 @@ func (b *builder) net(sc *scope, st *bodyStmt, i int) NetID {
 	case refPin:
 		return sc.pins[r.idx]
 	case refGround:
-		return d.Net(b.groundName, b.pos(n.Pos), b.nameEnd(n))
+		return d.Net(b.groundName, b.pos(n.Start()), b.nameEnd(n))
 	case refLocal:
 		id := sc.local[r.idx]
 		if id == NoNet {
-			id = d.localNet(sc.prefix+sc.blk.locals[r.idx], b.pos(n.Pos), b.nameEnd(n), sc.inst)
+			id = d.localNet(sc.prefix+sc.blk.locals[r.idx], b.pos(n.Start()), b.nameEnd(n), sc.inst)
 			sc.local[r.idx] = id
 		}
 		return id
 	}
-	return d.Net(r.name, b.pos(n.Pos), b.nameEnd(n))
+	return d.Net(r.name, b.pos(n.Start()), b.nameEnd(n))
 }
 
 // instance expands one instance statement.
@@ -122,9 +122,9 @@ func (b *builder) params(parent *scope, st *bodyStmt, c *blockDef) []binding {
 		if i := st.assign[j]; i >= 0 {
 			a := st.pt.Params[i]
 			b.sc = parent
-			q, ok := b.paramValue(a.Value, b.pos(a.Pos), b.pos(a.EndPos), st.pt.Name.Text, pd)
+			q, ok := b.paramValue(a.Value, b.pos(a.Start()), b.pos(a.End()), st.pt.Name.Text, pd)
 			if ok && pd.dimKnown && (q.Dim != pd.dim || q.Percent != pd.percent) {
-				b.report(CodeParamUnit, b.pos(a.Pos), b.pos(a.EndPos), "instance %s: parameter %s of block %s is a %s (default %s), but is given %s, a %s", parent.prefix+st.pt.Name.Text, pd.name, c.name, nounOf(pd.dim, pd.percent), b.describe(pd.def), b.describe(a.Value), nounOf(q.Dim, q.Percent))
+				b.report(CodeParamUnit, b.pos(a.Start()), b.pos(a.End()), "instance %s: parameter %s of block %s is a %s (default %s), but is given %s, a %s", parent.prefix+st.pt.Name.Text, pd.name, c.name, nounOf(pd.dim, pd.percent), b.describe(pd.def), b.describe(a.Value), nounOf(q.Dim, q.Percent))
 				ok = false
 			}
 			env[j] = binding{q, ok}

@@ -14,10 +14,10 @@ import (
 // CodeUnknownParam for a name that is not a parameter in scope; NoCode
 // when the trouble has been reported already.
 type ExprError struct {
-	Code   Code
-	Msg    string
-	Offset int // byte offset of the offending part of the expression
-	Name   string
+	Code Code
+	Msg  string
+	Pos  grammar.Offset // the offending part of the expression
+	Name string
 }
 
 func (e *ExprError) Error() string { return e.Msg }
@@ -36,7 +36,7 @@ func Eval(e *grammar.Expr, look Lookup) (units.Quantity, error) {
 		return q, err
 	}
 	if math.IsInf(q.Value, 0) || math.IsNaN(q.Value) {
-		return q, &ExprError{Code: CodeBadValue, Msg: "the result is too large to represent", Offset: e.Pos.Offset}
+		return q, &ExprError{Code: CodeBadValue, Msg: "the result is too large to represent", Pos: e.Start()}
 	}
 	return q, nil
 }
@@ -65,7 +65,7 @@ func evalExpr(e *grammar.Expr, look Lookup) (units.Quantity, error) {
 			if ot.Op == "-" {
 				verb = "subtract"
 			}
-			return acc, &ExprError{Code: CodeParamUnit, Offset: termPos(ot.Term),
+			return acc, &ExprError{Code: CodeParamUnit, Pos: ot.Term.Start(),
 				Msg: fmt.Sprintf("cannot %s a %s (%s) and a %s (%s)", verb, noun(acc), acc, noun(r), r)}
 		}
 		if ot.Op == "+" {
@@ -88,11 +88,11 @@ func evalTerm(t *grammar.Term, look Lookup) (units.Quantity, error) {
 			return r, err
 		}
 		if acc.Percent && r.Percent && of.Op == "*" {
-			return acc, &ExprError{Code: CodeParamUnit, Offset: of.Factor.Pos.Offset,
+			return acc, &ExprError{Code: CodeParamUnit, Pos: of.Factor.Start(),
 				Msg: fmt.Sprintf("cannot multiply two percentages (%s × %s); write one of them as a plain number", acc, r)}
 		}
 		if (acc.Percent || r.Percent) && (acc.Dim != units.None || r.Dim != units.None) {
-			return acc, &ExprError{Code: CodeParamUnit, Offset: of.Factor.Pos.Offset,
+			return acc, &ExprError{Code: CodeParamUnit, Pos: of.Factor.Start(),
 				Msg: fmt.Sprintf("a percentage combines only with plain numbers, not with %s (%s)", noun(pick(acc, r)), pick(acc, r))}
 		}
 		if of.Op == "*" {
@@ -102,7 +102,7 @@ func evalTerm(t *grammar.Term, look Lookup) (units.Quantity, error) {
 			continue
 		}
 		if r.Value == 0 {
-			return acc, &ExprError{Code: CodeBadValue, Offset: of.Factor.Pos.Offset,
+			return acc, &ExprError{Code: CodeBadValue, Pos: of.Factor.Start(),
 				Msg: fmt.Sprintf("division by zero: the divisor is %s", r)}
 		}
 		acc.Value /= r.Value
@@ -132,7 +132,7 @@ func evalFactor(f *grammar.Factor, look Lookup) (units.Quantity, error) {
 	case f.Code != "":
 		q, ok := units.ParseCode(f.Code)
 		if !ok {
-			return q, &ExprError{Code: CodeBadValue, Offset: f.Pos.Offset, Msg: fmt.Sprintf("%q is not a resistor code", f.Code)}
+			return q, &ExprError{Code: CodeBadValue, Pos: f.Start(), Msg: fmt.Sprintf("%q is not a resistor code", f.Code)}
 		}
 		return q, nil
 	}
@@ -142,7 +142,7 @@ func evalFactor(f *grammar.Factor, look Lookup) (units.Quantity, error) {
 		if ue, ok := err.(*units.Error); ok && ue.Range {
 			code = CodeBadValue // a value out of range, whatever its unit
 		}
-		return q, &ExprError{Code: code, Offset: f.Pos.Offset, Msg: err.Error()}
+		return q, &ExprError{Code: code, Pos: f.Start(), Msg: err.Error()}
 	}
 	return q, nil
 }
@@ -153,11 +153,9 @@ func evalRef(r *grammar.Ref, look Lookup) (units.Quantity, error) {
 			return q, nil
 		}
 	}
-	return units.Quantity{}, &ExprError{Code: CodeUnknownParam, Offset: r.Pos.Offset, Name: r.Text,
+	return units.Quantity{}, &ExprError{Code: CodeUnknownParam, Pos: r.Start(), Name: r.Text,
 		Msg: fmt.Sprintf("no parameter named %s", r.Text)}
 }
-
-func termPos(t *grammar.Term) int { return t.First.Pos.Offset }
 
 // noun names a quantity's dimension for a message.
 func noun(q units.Quantity) string {

@@ -23,7 +23,7 @@ func (b *builder) part(sc *scope, st *bodyStmt, nets []NetID) {
 	word := pt.Kind.Text
 	kind := st.kind
 	if len(pt.Params) > 0 {
-		b.report(CodeSyntax, b.pos(pt.Params[0].Pos), end, "%s %s: parameters in [ ] are for block instances, not built-in parts", word, name)
+		b.report(CodeSyntax, b.pos(pt.Params[0].Start()), end, "%s %s: parameters in [ ] are for block instances, not built-in parts", word, name)
 		b.countOnly(nets)
 		return
 	}
@@ -114,7 +114,7 @@ func (b *builder) pins(p *Part, pt *grammar.Part, nets []NetID, info *KindInfo) 
 		}
 		set[slot] = true
 		p.Pins[slot] = nets[i]
-		p.PinPos[slot] = b.pos(pin.Net.Pos)
+		p.PinPos[slot] = b.pos(pin.Net.Start())
 	}
 	return true
 }

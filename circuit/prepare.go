@@ -24,27 +24,27 @@ func (b *builder) prepareHeader(bd *blockDef) {
 		for _, pn := range h.Pins {
 			name := netName(pn.Text)
 			if _, dup := bd.pinIndex[name]; dup {
-				b.report(CodeBlockPin, b.pos(pn.Pos), b.nameEnd(pn), "block %s lists pin %s twice", bd.name, name)
+				b.report(CodeBlockPin, b.pos(pn.Start()), b.nameEnd(pn), "block %s lists pin %s twice", bd.name, name)
 				continue
 			}
 			bd.pinIndex[name] = len(bd.pins)
 			bd.pins = append(bd.pins, name)
-			bd.pinPos = append(bd.pinPos, b.pos(pn.Pos))
+			bd.pinPos = append(bd.pinPos, b.pos(pn.Start()))
 		}
 		bd.parIndex = make(map[string]int, len(h.Params))
 		for _, a := range h.Params {
 			name := a.Name.Text
 			if _, dup := bd.parIndex[name]; dup {
-				b.report(CodeDuplicateName, b.pos(a.Pos), b.pos(a.EndPos), "block %s lists parameter %s twice", bd.name, name)
+				b.report(CodeDuplicateName, b.pos(a.Start()), b.pos(a.End()), "block %s lists parameter %s twice", bd.name, name)
 				continue
 			}
 			if why := grammar.ParamNameTrouble(name); why != "" {
 				// Kept as a parameter, so that instances setting it are
 				// not reported again; the block's statements cannot name it.
-				b.report(CodeSyntax, b.pos(a.Pos), b.nameEnd(a.Name), "parameter %s of block %s: %s, so it cannot stand for a value; rename it (for example %s)", name, bd.name, why, paramRename(name))
+				b.report(CodeSyntax, b.pos(a.Start()), b.nameEnd(a.Name), "parameter %s of block %s: %s, so it cannot stand for a value; rename it (for example %s)", name, bd.name, why, paramRename(name))
 			}
 			bd.parIndex[name] = len(bd.params)
-			bd.params = append(bd.params, paramDef{name: name, def: a.Value, pos: b.pos(a.Pos), end: b.pos(a.EndPos)})
+			bd.params = append(bd.params, paramDef{name: name, def: a.Value, pos: b.pos(a.Start()), end: b.pos(a.End())})
 		}
 		b.defaultUnits(bd)
 	}
@@ -280,7 +280,7 @@ func (b *builder) bindInstance(bd *blockDef, st *bodyStmt) bool {
 	for i, a := range pt.Params {
 		name := a.Name.Text
 		j, found := c.parIndex[name]
-		apos, aend := b.pos(a.Pos), b.pos(a.EndPos)
+		apos, aend := b.pos(a.Start()), b.pos(a.End())
 		switch {
 		case !found:
 			msg := fmt.Sprintf("block %s has no parameter %s", c.name, name)

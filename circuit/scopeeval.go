@@ -76,7 +76,7 @@ func evalGuarded(v *grammar.Value, look Lookup) (q units.Quantity, err error) {
 // parenthesis to the one that closes it: "((12 V - vdrop) / i)".
 func (b *builder) exprText(v *grammar.Value) string {
 	src := b.srcs[b.file]
-	o := v.Pos.Offset
+	o := int(v.Start())
 	if src == nil || o < 0 || o >= len(src) || src[o] != '(' {
 		return "(…)"
 	}

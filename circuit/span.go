@@ -14,9 +14,9 @@ import (
 // "(2 * rtop)", "rtop", "open". Without the file's text it returns the
 // value's first byte as a point.
 func (b *builder) valueSpan(v *grammar.Value) (pos, end diag.Pos) {
-	start := clamp(v.Pos.Offset, b.file.Size())
-	stop := start + b.valueLen(v, start)
-	return b.file.Pos(start), b.file.Pos(clamp(stop, b.file.Size()))
+	pos = b.pos(v.Start())
+	start := b.file.Offset(pos)
+	return pos, b.pos(grammar.Offset(start + b.valueLen(v, start)))
 }
 
 // valueLen measures the value that starts at offset start.
@@ -29,7 +29,7 @@ func (b *builder) valueLen(v *grammar.Value, start int) int {
 		}
 		return 0
 	case v.Param != nil:
-		return v.Param.Pos.Offset - start + len(v.Param.Text)
+		return int(v.Param.End()) - start
 	case v.Code != "":
 		return len(v.Code)
 	case v.Word != "":
@@ -59,7 +59,7 @@ func (b *builder) valueLen(v *grammar.Value, start int) int {
 // attrSpan returns the range of an attribute: its word through its last
 // value ("rated 250 mW, 50 V", "vf 2.0 V at 20 mA").
 func (b *builder) attrSpan(a *grammar.Attr) (pos, end diag.Pos) {
-	pos = b.pos(a.Pos)
+	pos = b.pos(a.Start())
 	end = b.nameEnd(a.Key)
 	last := a.At
 	if last == nil && len(a.Values) > 0 {

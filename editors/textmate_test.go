@@ -8,8 +8,6 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/alecthomas/participle/v2/lexer"
-
 	"nodal/circuit"
 	"nodal/grammar"
 )
@@ -167,7 +165,7 @@ func TestWordLists(t *testing.T) {
 			t.Errorf("TextMate grammar lacks kind %s", k)
 		}
 	}
-	want := map[string]lexer.TokenType{
+	want := map[string]grammar.TokenType{
 		"design": grammar.TokKeyword, "ground": grammar.TokKeyword, "port": grammar.TokKeyword,
 		"include": grammar.TokKeyword, "block": grammar.TokKeyword,
 		"tol": grammar.TokAttrWord, "rated": grammar.TokAttrWord, "vf": grammar.TokAttrWord,
@@ -175,7 +173,7 @@ func TestWordLists(t *testing.T) {
 		"dcr": grammar.TokAttrWord, "open": grammar.TokAttrWord, "closed": grammar.TokAttrWord,
 	}
 	for w, typ := range want {
-		if toks := grammar.LexLine(w, 1); len(toks) != 1 || toks[0].Type != typ {
+		if toks := grammar.LexLine(w); len(toks) != 1 || toks[0].Type != typ {
 			t.Errorf("%s does not lex as the highlighting assumes: %+v", w, toks)
 		}
 		if !regexp.MustCompile(`\b`+w+`\b`).Match(vimSyntax) || !regexp.MustCompile(`\b`+w+`\b`).Match(tm) {

@@ -35,8 +35,6 @@ import (
 	"strings"
 	"unicode/utf8"
 
-	"github.com/alecthomas/participle/v2/lexer"
-
 	"nodal/grammar"
 )
 
@@ -75,7 +73,7 @@ func Source(src []byte) []byte {
 	f := grammar.Parse("", src)
 	stmts := make(map[int]*grammar.Statement, len(f.Stmts))
 	for _, st := range f.Stmts {
-		stmts[st.Pos.Line] = st
+		stmts[st.Line()] = st
 	}
 	broken := make(map[int]bool, len(f.Errors))
 	for _, e := range f.Errors {
@@ -111,7 +109,7 @@ func Source(src []byte) []byte {
 // classify turns one line of text, starting at byte offset off of the
 // file, into a line.
 func classify(text string, off, n int, st *grammar.Statement, broken bool) line {
-	toks := grammar.LexLine(text, n)
+	toks := grammar.LexLine(text)
 	if len(toks) == 0 {
 		return line{kind: blankLine}
 	}
@@ -136,7 +134,7 @@ func classify(text string, off, n int, st *grammar.Statement, broken bool) line 
 // partCells splits a part line's tokens into its cells, at the offsets the
 // syntax tree gives for the value and each attribute. It reports false
 // when the tokens do not have the shape it expects.
-func partCells(p *grammar.Part, toks []lexer.Token, off int) ([]string, bool) {
+func partCells(p *grammar.Part, toks []grammar.Token, off int) ([]string, bool) {
 	if len(toks) < 3 || toks[2].Value != "(" {
 		return nil, false
 	}
@@ -160,17 +158,17 @@ func partCells(p *grammar.Part, toks []lexer.Token, off int) ([]string, bool) {
 	// Token indices where the value and each attribute start.
 	var starts []int
 	if p.Value != nil {
-		starts = append(starts, p.Value.Pos.Offset-off)
+		starts = append(starts, int(p.Value.Start())-off)
 	}
 	for _, a := range p.Attrs {
-		starts = append(starts, a.Pos.Offset-off)
+		starts = append(starts, int(a.Start())-off)
 	}
 	idx := make([]int, 0, len(starts)+1)
 	for _, s := range starts {
-		for i < len(toks) && toks[i].Pos.Offset < s {
+		for i < len(toks) && int(toks[i].Pos) < s {
 			i++
 		}
-		if i == len(toks) || toks[i].Pos.Offset != s {
+		if i == len(toks) || int(toks[i].Pos) != s {
 			return nil, false
 		}
 		idx = append(idx, i)
@@ -195,7 +193,7 @@ func partCells(p *grammar.Part, toks []lexer.Token, off int) ([]string, bool) {
 
 // pinsEndNext returns the index of the first token after the pins and, if
 // present, the parameters.
-func pinsEndNext(toks []lexer.Token, pinsEnd int, params bool) int {
+func pinsEndNext(toks []grammar.Token, pinsEnd int, params bool) int {
 	i := pinsEnd + 1
 	if params {
 		i = closing(toks, i) + 1
@@ -205,7 +203,7 @@ func pinsEndNext(toks []lexer.Token, pinsEnd int, params bool) int {
 
 // closing returns the index of the bracket that closes the one at open,
 // or -1.
-func closing(toks []lexer.Token, open int) int {
+func closing(toks []grammar.Token, open int) int {
 	depth := 0
 	for i := open; i < len(toks); i++ {
 		if toks[i].Type != grammar.TokPunct {
@@ -227,7 +225,7 @@ func closing(toks []lexer.Token, open int) int {
 // join lays out a run of tokens on one line. pins says that the first
 // "(" at the top level opens a list of pins or nets, in which "=" binds
 // tightly (anode=a); every other parenthesis belongs to an expression.
-func join(toks []lexer.Token, pins bool) string {
+func join(toks []grammar.Token, pins bool) string {
 	var b strings.Builder
 	// The open brackets: '(' a pin list, 'e' an expression's parenthesis,
 	// '[' parameters, '{' an old-style expression or a block body.
@@ -283,7 +281,7 @@ func join(toks []lexer.Token, pins bool) string {
 
 // spaceBefore reports whether one blank separates prev and t. top is the
 // innermost bracket open after prev.
-func spaceBefore(prev, t lexer.Token, top byte) bool {
+func spaceBefore(prev, t grammar.Token, top byte) bool {
 	if prev.Type == grammar.TokPunct {
 		switch prev.Value {
 		case "(", "[", "{":

@@ -134,8 +134,8 @@ func checkFormat(t *testing.T, src []byte) {
 // string per line.
 func lineTokens(src []byte) []string {
 	var out []string
-	for n, l := range strings.Split(string(src), "\n") {
-		toks := grammar.LexLine(l, n+1)
+	for _, l := range strings.Split(string(src), "\n") {
+		toks := grammar.LexLine(l)
 		if len(toks) == 0 {
 			continue
 		}

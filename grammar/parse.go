@@ -15,6 +15,13 @@
 // Offsets, lines and columns are counted in bytes; columns start at 1. The
 // lexer is ours, so no conversion from participle's rune columns is needed:
 // every lexer.Position the tree holds was made here.
+//
+// Every position the package hands out is an Offset, a byte offset into the
+// parsed file that Offset.At turns into the diag.Pos of a file set: syntax
+// errors, comments, and the Start and End of the tree's nodes. The nodes'
+// Pos and EndPos fields are participle's lexer.Position only because
+// participle fills fields of that type and no other; they are the grammar's
+// business, and later stages read positions through Start and End.
 package grammar
 
 import (
@@ -46,17 +53,18 @@ type File struct {
 
 // Comment is a comment with its position, kept for suppression comments.
 type Comment struct {
-	Offset int
-	Line   int
-	Text   string // from the # to the end of the line
+	Pos   Offset // the #
+	Line  int
+	Text  string // from the # to the end of the line
+	Alone bool   // only blanks precede it on its line
 }
 
 // SyntaxError is a line that does not parse.
 type SyntaxError struct {
-	Offset int // byte offset of the offending token
-	End    int
-	Line   int
-	Msg    string
+	Pos  Offset // the offending token
+	End  Offset // just past it; Pos when the error is at a point
+	Line int
+	Msg  string
 	// Words are the names and quoted strings on the line, so that later
 	// stages can tell a net the broken line may have used from one that
 	// is really alone.
@@ -119,7 +127,7 @@ func parse(name string, src string, fast bool) *File {
 		from := len(toks)
 		toks = appendLine(toks, src, off, end, line, &comments, &words)
 		for _, c := range comments {
-			f.Comments = append(f.Comments, Comment{Offset: c.Pos.Offset, Line: line, Text: c.Value})
+			f.Comments = append(f.Comments, Comment{Pos: Offset(c.Pos.Offset), Line: line, Text: c.Value, Alone: blanksBefore(src, c.Pos.Offset)})
 		}
 		if len(toks) > from {
 			eol := lexer.Position{Offset: end, Line: line, Column: end - off + 1}
@@ -151,7 +159,7 @@ func parse(name string, src string, fast bool) *File {
 // grammar both end here, so they agree on it.
 func (f *File) add(st *Statement, last lexer.Token) {
 	if n := emptyName(st); n != nil {
-		se := &SyntaxError{Offset: n.Pos.Offset, End: n.Pos.Offset + len(n.Text), Line: n.Pos.Line,
+		se := &SyntaxError{Pos: n.Start(), End: n.End(), Line: n.Pos.Line,
 			Msg: "a name cannot be empty: write the net's name between the quotes, or a plain name such as vin"}
 		if st.Part != nil {
 			for _, pin := range st.Part.Pins {
@@ -267,7 +275,7 @@ func parseAlone(f *File, toks []lexer.Token, sp lineSpan, lineToks *[]lexer.Toke
 func parseLine(toks []lexer.Token) (*Statement, *SyntaxError) {
 	pl, err := lexer.Upgrade(&sliceLexer{toks: toks})
 	if err != nil {
-		return nil, &SyntaxError{Offset: toks[0].Pos.Offset, Line: toks[0].Pos.Line, Msg: err.Error()}
+		return nil, &SyntaxError{Pos: Offset(toks[0].Pos.Offset), End: Offset(toks[0].Pos.Offset), Line: toks[0].Pos.Line, Msg: err.Error()}
 	}
 	st, err := parser.ParseFromLexer(pl)
 	if err == nil {
@@ -290,7 +298,7 @@ func syntaxError(err error, toks []lexer.Token) *SyntaxError {
 	}
 	if at, expect, ok := explain(toks); ok && at < len(toks) {
 		t := toks[at]
-		return &SyntaxError{Offset: t.Pos.Offset, End: t.Pos.Offset + len(t.Value), Line: t.Pos.Line, Msg: describeUnexpected(t, expect, afterNumber(toks, t))}
+		return &SyntaxError{Pos: Offset(t.Pos.Offset), End: Offset(t.Pos.Offset + len(t.Value)), Line: t.Pos.Line, Msg: describeUnexpected(t, expect, afterNumber(toks, t))}
 	}
 	pos := toks[0].Pos
 	msg := err.Error()
@@ -319,7 +327,17 @@ func syntaxError(err error, toks []lexer.Token) *SyntaxError {
 			break
 		}
 	}
-	return &SyntaxError{Offset: pos.Offset, End: end, Line: pos.Line, Msg: msg}
+	return &SyntaxError{Pos: Offset(pos.Offset), End: Offset(end), Line: pos.Line, Msg: msg}
+}
+
+// blanksBefore reports whether only blanks precede offset on its line.
+func blanksBefore(src string, offset int) bool {
+	for i := offset - 1; i >= 0 && src[i] != '\n'; i-- {
+		if src[i] != ' ' && src[i] != '\t' && src[i] != '\r' {
+			return false
+		}
+	}
+	return true
 }
 
 // afterNumber reports whether t follows a number on its line, where a word
@@ -406,7 +424,7 @@ func bracedValue(toks []lexer.Token) *SyntaxError {
 		default:
 			msg = "braces do not hold values: write (" + text + "); " + how
 		}
-		return &SyntaxError{Offset: toks[i].Pos.Offset, End: end.Pos.Offset + len(end.Value), Line: toks[i].Pos.Line, Msg: msg}
+		return &SyntaxError{Pos: Offset(toks[i].Pos.Offset), End: Offset(end.Pos.Offset + len(end.Value)), Line: toks[i].Pos.Line, Msg: msg}
 	}
 	return nil
 }

@@ -76,7 +76,7 @@ func acceptEdit(t *text, off int, rule string) (protocol.TextEdit, bool) {
 	start, end := t.lines[l], t.lineEnd(l)
 	line := strings.TrimRight(string(t.src[start:end]), " \t\r")
 	comment := "# nodal: accept " + rule + " because " + acceptPlaceholder
-	toks := grammar.LexLine(line, l+1)
+	toks := grammar.LexLine(line)
 	if len(toks) == 0 {
 		return protocol.TextEdit{}, false
 	}

@@ -5,7 +5,6 @@ import (
 	"slices"
 	"strings"
 
-	"github.com/alecthomas/participle/v2/lexer"
 	"go.lsp.dev/protocol"
 
 	"nodal/circuit"
@@ -30,7 +29,7 @@ func (s *Server) Completion(ctx context.Context, p *protocol.CompletionParams) (
 	off := doc.t.offset(p.Position)
 	line := int(doc.t.position(off).Line)
 	before := string(doc.t.src[doc.t.lines[line]:off])
-	toks := grammar.LexLine(before, line+1)
+	toks := grammar.LexLine(before)
 	// The word being typed is not context: drop it.
 	if n := len(toks); n > 0 && !strings.HasSuffix(before, " ") && !strings.HasSuffix(before, "\t") {
 		switch toks[n-1].Type {
@@ -85,7 +84,7 @@ func (s *Server) Completion(ctx context.Context, p *protocol.CompletionParams) (
 		}
 	case toks[len(toks)-1].Type == grammar.TokNumber:
 		add(protocol.CompletionItemKindUnit, "unit", unitsFor(toks[0].Value)...)
-	case slices.Contains(circuit.KindWords, toks[0].Value) && slices.ContainsFunc(toks, func(t lexer.Token) bool { return t.Value == ")" }):
+	case slices.Contains(circuit.KindWords, toks[0].Value) && slices.ContainsFunc(toks, func(t grammar.Token) bool { return t.Value == ")" }):
 		add(protocol.CompletionItemKindProperty, "attribute", attrsFor(toks[0].Value)...)
 	}
 	if items == nil {

@@ -56,7 +56,7 @@ type includeRef struct {
 func netName(n *grammar.Name) string { return strings.Trim(n.Text, `"`) }
 
 func nameSpan(n *grammar.Name) span {
-	return span{n.Pos.Offset, n.Pos.Offset + len(n.Text)}
+	return span{int(n.Start()), int(n.End())}
 }
 
 // newIndex parses src and indexes it.
@@ -69,7 +69,7 @@ func newIndex(file string, src []byte) *index {
 		case st.Block != nil:
 			b := st.Block
 			def := blockDef{name: b.Name.Text, at: nameSpan(b.Name),
-				header: span{st.Pos.Offset, st.EndPos.Offset}, body: span{st.Pos.Offset, len(src)}}
+				header: span{int(st.Start()), int(st.End())}, body: span{int(st.Start()), len(src)}}
 			for _, p := range b.Params {
 				def.params = append(def.params, p.Name.Text)
 			}
@@ -80,13 +80,13 @@ func newIndex(file string, src []byte) *index {
 			}
 		case st.Close != nil:
 			if cur >= 0 {
-				ix.blocks[cur].body.to = st.EndPos.Offset
+				ix.blocks[cur].body.to = int(st.End())
 			}
 			cur = -1
 		case st.Part != nil:
 			p := st.Part
 			ix.parts = append(ix.parts, partRef{kind: p.Kind.Text, name: p.Name.Text,
-				kindAt: nameSpan(p.Kind), at: nameSpan(p.Name), stmt: span{st.Pos.Offset, st.EndPos.Offset},
+				kindAt: nameSpan(p.Kind), at: nameSpan(p.Name), stmt: span{int(st.Start()), int(st.End())},
 				block: cur, instance: !slices.Contains(circuit.KindWords, p.Kind.Text)})
 			for _, pin := range p.Pins {
 				ix.nets = append(ix.nets, netRef{netName(pin.Net), nameSpan(pin.Net), cur})
@@ -99,7 +99,7 @@ func newIndex(file string, src []byte) *index {
 			ix.nets = append(ix.nets, netRef{netName(st.Ground.Net), nameSpan(st.Ground.Net), cur})
 		case st.Include != nil && st.Include.Path != nil:
 			s := st.Include.Path
-			ix.includes = append(ix.includes, includeRef{strings.Trim(s.Text, `"`), span{s.Pos.Offset, s.Pos.Offset + len(s.Text)}})
+			ix.includes = append(ix.includes, includeRef{strings.Trim(s.Text, `"`), span{int(s.Start()), int(s.End())}})
 		}
 	}
 	return ix

@@ -144,8 +144,7 @@ func parseAccept(s circuit.SourceFile, c grammar.Comment, known func(string) boo
 	if !strings.HasPrefix(text, directivePrefix) {
 		return nil, false
 	}
-	pos := s.File.Pos(c.Offset)
-	end := s.File.Pos(c.Offset + len(c.Text))
+	pos, end := c.Pos.At(s.File), c.End().At(s.File)
 	bad := func(msg string) (*acceptDirective, bool) {
 		report(BadAccept, diag.Diagnostic{Pos: pos, End: end, Message: msg})
 		return nil, false
@@ -203,7 +202,7 @@ func parseAccept(s circuit.SourceFile, c grammar.Comment, known func(string) boo
 	}
 	sort.Strings(rules)
 	ad := &acceptDirective{pos: pos, end: end, rules: rules, reason: reason, used: make([]bool, len(rules)), target: c.Line}
-	if aloneOnLine(s.Src, c.Offset) {
+	if c.Alone {
 		ad.target = c.Line + 1
 	}
 	return ad, true
@@ -248,16 +247,6 @@ func rewriteOld(rest string) string {
 		reason = "REASON"
 	}
 	return "# nodal: accept " + names + " because " + reason
-}
-
-// aloneOnLine reports whether only blanks precede offset on its line.
-func aloneOnLine(src []byte, offset int) bool {
-	for i := offset - 1; i >= 0 && src[i] != '\n'; i-- {
-		if src[i] != ' ' && src[i] != '\t' && src[i] != '\r' {
-			return false
-		}
-	}
-	return true
 }
 
 // quote puts a word from a comment in quotes for a message, escaping it
