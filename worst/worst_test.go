@@ -183,3 +183,38 @@ func boolInt(b bool) int {
 	}
 	return 0
 }
+
+// TestTemperatureRangeMatchesCorners is TestSensitivityMatchesCorners with
+// an ambient temperature range and resistors with a tempco: every corner
+// (each temperature end included) is the reference, and the sensitivity
+// method's worst never passes it nor falls short of it by more than the
+// second-order terms.
+func TestTemperatureRangeMatchesCorners(t *testing.T) {
+	rapid.Check(t, func(rt *rapid.T) {
+		b := newBuilder()
+		b.add(circuit.VoltageSource, "V1", "a", "gnd", rapid.Float64Range(1, 24).Draw(rt, "v"), 0.02)
+		sum := 0.02
+		for _, pair := range [][2]string{{"a", "b"}, {"b", "gnd"}, {"b", "c"}, {"c", "gnd"}} {
+			id := b.add(circuit.Resistor, "R"+pair[0]+pair[1], pair[0], pair[1], rapid.Float64Range(10, 1e4).Draw(rt, "r"), 0.01)
+			sum += 0.01
+			tc := float64(rapid.IntRange(-500, 500).Draw(rt, "tempco")) * 1e-6
+			b.d.Parts[id].Heat = &circuit.Thermal{Tempco: tc}
+			sum += math.Abs(tc) * 60 // the temperature range's relative swing
+		}
+		amb := Ambient{Low: -10, High: 50, Nominal: 25}
+		judge := func(i circuit.PartID, v, c, p, t float64) []float64 { return []float64{math.Abs(v), math.Abs(c)} }
+		sens := analyze(t, b.d, amb, judge, Options{MaxCorners: -1, ConfirmAbove: -1})
+		all := analyze(t, b.d, amb, judge, Options{})
+		if !all.Corners || !all.RangeT {
+			rt.Fatalf("every corner was not solved")
+		}
+		for i := range b.d.Parts {
+			for m := range all.Worst[i] {
+				s, e := sens.Worst[i][m].Frac, all.Worst[i][m].Frac
+				if s < e*(1-sum*sum)-1e-15 || s > e*(1+1e-9)+1e-15 {
+					rt.Fatalf("%s quantity %d: sensitivities %.12g, every corner %.12g", b.d.Parts[i].Name, m, s, e)
+				}
+			}
+		}
+	})
+}
