@@ -6,18 +6,15 @@ package main
 // process however many files are checked.
 
 import (
-	"bufio"
 	"bytes"
 	"errors"
 	"fmt"
-	"io"
 	"io/fs"
 	"os/exec"
 	"path"
 	"path/filepath"
 	"strconv"
 	"strings"
-	"sync"
 
 	"nodal/input"
 )
@@ -126,27 +123,15 @@ func gitStaged(root string) ([]string, error) {
 // safe for concurrent use.
 type index struct {
 	root string
-	mu   sync.Mutex
-	cmd  *exec.Cmd
-	in   io.WriteCloser
-	out  *bufio.Reader
+	cat  *catFile
 }
 
 func openIndex(root string) (*index, error) {
-	cmd := exec.Command("git", "cat-file", "--batch")
-	cmd.Dir = root
-	in, err := cmd.StdinPipe()
+	cat, err := openCatFile(root)
 	if err != nil {
 		return nil, err
 	}
-	out, err := cmd.StdoutPipe()
-	if err != nil {
-		return nil, err
-	}
-	if err := cmd.Start(); err != nil {
-		return nil, fmt.Errorf("git cat-file: %w", err)
-	}
-	return &index{root: root, cmd: cmd, in: in, out: bufio.NewReaderSize(out, 1<<16)}, nil
+	return &index{root: root, cat: cat}, nil
 }
 
 // reader returns ReadFile with a size cap.
@@ -168,45 +153,20 @@ func (x *index) readFile(name string, maxSize int64) ([]byte, error) {
 		// for on its own.
 		return x.readOne(name, p, maxSize)
 	}
-	x.mu.Lock()
-	defer x.mu.Unlock()
-	if _, err := fmt.Fprintf(x.in, ":%s\n", p); err != nil {
-		return nil, fmt.Errorf("git cat-file: %w", err)
-	}
-	header, err := x.out.ReadString('\n')
-	if err != nil {
-		return nil, fmt.Errorf("git cat-file: %w", err)
-	}
-	// "<object> missing" (or "ambiguous") repeats the name asked for,
-	// which may hold spaces; a found object's line is
-	// "<hash> <type> <size>".
-	h := strings.TrimSuffix(header, "\n")
-	if strings.HasSuffix(h, " missing") || strings.HasSuffix(h, " ambiguous") {
+	b, err := x.cat.read(":"+p, maxSize)
+	switch {
+	case errors.Is(err, errNoObject):
 		return nil, &fs.PathError{Op: "read staged", Path: name, Err: fs.ErrNotExist}
-	}
-	fields := strings.Fields(h)
-	if len(fields) != 3 {
-		return nil, fmt.Errorf("git cat-file: unexpected answer %q", header)
-	}
-	if fields[1] != "blob" {
+	case errors.Is(err, errNotBlob):
 		return nil, &fs.PathError{Op: "read staged", Path: name, Err: errors.New("not a file in git's index")}
-	}
-	size, err := strconv.Atoi(fields[2])
-	if err != nil {
-		return nil, fmt.Errorf("git cat-file: bad header %q", header)
-	}
-	if int64(size) > maxSize {
-		// Skipped unread, so the next answer starts where it should.
-		if _, err := io.CopyN(io.Discard, x.out, int64(size)+1); err != nil {
-			return nil, fmt.Errorf("git cat-file: %w", err)
+	case err != nil:
+		var tl *input.TooLargeError
+		if errors.As(err, &tl) {
+			return nil, &fs.PathError{Op: "read staged", Path: name, Err: err}
 		}
-		return nil, &fs.PathError{Op: "read staged", Path: name, Err: &input.TooLargeError{Size: int64(size), Limit: maxSize}}
+		return nil, err
 	}
-	buf := make([]byte, size+1) // content and its trailing newline
-	if _, err := io.ReadFull(x.out, buf); err != nil {
-		return nil, fmt.Errorf("git cat-file: %w", err)
-	}
-	return buf[:size], nil
+	return b, nil
 }
 
 // readOne reads one staged file by its own git call, for a name the batch
@@ -242,7 +202,4 @@ func gitUnmerged(root string) (map[string]bool, error) {
 	return u, nil
 }
 
-func (x *index) Close() error {
-	x.in.Close()
-	return x.cmd.Wait()
-}
+func (x *index) Close() error { return x.cat.Close() }

@@ -7,89 +7,20 @@ package main
 // does not hold does not exist, so includes cannot leave the repository.
 
 import (
-	"bufio"
 	"crypto/sha1"
 	"crypto/sha256"
 	"encoding/hex"
 	"errors"
 	"fmt"
 	"hash"
-	"io"
 	"io/fs"
-	"os/exec"
 	"path"
 	"path/filepath"
-	"strconv"
 	"strings"
 	"sync"
 
 	"nodal/input"
 )
-
-// catFile reads objects by id through one git cat-file --batch process;
-// it is safe for concurrent use.
-type catFile struct {
-	mu  sync.Mutex
-	cmd *exec.Cmd
-	in  io.WriteCloser
-	out *bufio.Reader
-}
-
-func openCatFile(root string) (*catFile, error) {
-	cmd := exec.Command("git", "cat-file", "--batch")
-	cmd.Dir = root
-	in, err := cmd.StdinPipe()
-	if err != nil {
-		return nil, err
-	}
-	out, err := cmd.StdoutPipe()
-	if err != nil {
-		return nil, err
-	}
-	if err := cmd.Start(); err != nil {
-		return nil, fmt.Errorf("git cat-file: %w", err)
-	}
-	return &catFile{cmd: cmd, in: in, out: bufio.NewReaderSize(out, 1<<16)}, nil
-}
-
-// blob returns the content of the blob with the given id, or a
-// *input.TooLargeError when it is larger than max.
-func (c *catFile) blob(id string, max int64) ([]byte, error) {
-	c.mu.Lock()
-	defer c.mu.Unlock()
-	if _, err := fmt.Fprintf(c.in, "%s\n", id); err != nil {
-		return nil, fmt.Errorf("git cat-file: %w", err)
-	}
-	header, err := c.out.ReadString('\n')
-	if err != nil {
-		return nil, fmt.Errorf("git cat-file: %w", err)
-	}
-	fields := strings.Fields(header)
-	if len(fields) != 3 || fields[1] != "blob" {
-		return nil, fmt.Errorf("git cat-file: unexpected answer %q for %s", strings.TrimSpace(header), id)
-	}
-	size, err := strconv.ParseInt(fields[2], 10, 64)
-	if err != nil || size < 0 {
-		return nil, fmt.Errorf("git cat-file: bad header %q", header)
-	}
-	if size > max {
-		// Skip the content to keep the stream in step, then refuse.
-		if _, err := io.CopyN(io.Discard, c.out, size+1); err != nil {
-			return nil, fmt.Errorf("git cat-file: %w", err)
-		}
-		return nil, &input.TooLargeError{Size: size, Limit: max}
-	}
-	buf := make([]byte, size+1) // content and its trailing newline
-	if _, err := io.ReadFull(c.out, buf); err != nil {
-		return nil, fmt.Errorf("git cat-file: %w", err)
-	}
-	return buf[:size], nil
-}
-
-func (c *catFile) Close() error {
-	c.in.Close()
-	return c.cmd.Wait()
-}
 
 // treeKind says where a revision's files are.
 type treeKind int
@@ -274,7 +205,7 @@ func (t *gitTree) readFile(name string, max int64) ([]byte, error) {
 		return nil, &fs.PathError{Op: "read", Path: name, Err: fs.ErrNotExist}
 	}
 	if t.kind != workTree {
-		b, err := t.cat.blob(id, max)
+		b, err := t.cat.read(id, max)
 		if err != nil {
 			return nil, &fs.PathError{Op: "read " + t.label, Path: name, Err: err}
 		}
