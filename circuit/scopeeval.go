@@ -75,23 +75,8 @@ func evalGuarded(v *grammar.Value, look Lookup) (q units.Quantity, err error) {
 // exprText quotes an expression value as written, from its opening
 // parenthesis to the one that closes it: "((12 V - vdrop) / i)".
 func (b *builder) exprText(v *grammar.Value) string {
-	src := b.srcs[b.file]
-	o := int(v.Start())
-	if src == nil || o < 0 || o >= len(src) || src[o] != '(' {
-		return "(…)"
+	if t, ok := v.ExprSource(b.srcs[b.file]); ok {
+		return t
 	}
-	end, depth := o, 0
-	for end < len(src) && src[end] != '\n' {
-		switch src[end] {
-		case '(':
-			depth++
-		case ')':
-			depth--
-		}
-		end++
-		if depth == 0 {
-			break
-		}
-	}
-	return string(src[o:end])
+	return "(…)"
 }
