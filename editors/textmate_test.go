@@ -165,12 +165,12 @@ func TestWordLists(t *testing.T) {
 			t.Errorf("TextMate grammar lacks kind %s", k)
 		}
 	}
-	want := map[string]grammar.TokenType{
-		"design": grammar.TokKeyword, "ground": grammar.TokKeyword, "port": grammar.TokKeyword,
-		"include": grammar.TokKeyword, "block": grammar.TokKeyword,
-		"tol": grammar.TokAttrWord, "rated": grammar.TokAttrWord, "vf": grammar.TokAttrWord,
-		"at": grammar.TokAttrWord, "ideality": grammar.TokAttrWord, "series": grammar.TokAttrWord,
-		"dcr": grammar.TokAttrWord, "open": grammar.TokAttrWord, "closed": grammar.TokAttrWord,
+	want := map[string]grammar.TokenType{}
+	for _, w := range grammar.Keywords() {
+		want[w] = grammar.TokKeyword
+	}
+	for _, w := range grammar.AttributeWords() {
+		want[w] = grammar.TokAttrWord
 	}
 	for w, typ := range want {
 		if toks := grammar.LexLine(w); len(toks) != 1 || toks[0].Type != typ {

@@ -2,6 +2,7 @@ package grammar
 
 import (
 	"io"
+	"sort"
 	"strings"
 	"unicode"
 	"unicode/utf8"
@@ -388,4 +389,20 @@ func ParamNameTrouble(name string) string {
 		return name + " reads as a resistor code"
 	}
 	return name + " is not a plain name (A-Z, a-z, 0-9 and _, not starting with a digit)"
+}
+
+// Keywords returns the statement keywords, sorted. The editors' highlighting
+// files are checked against it.
+func Keywords() []string { return sortedKeys(keywords) }
+
+// AttributeWords returns the attribute words and the switch states, sorted.
+func AttributeWords() []string { return sortedKeys(attrWords) }
+
+func sortedKeys(m map[string]bool) []string {
+	out := make([]string, 0, len(m))
+	for w := range m {
+		out = append(out, w)
+	}
+	sort.Strings(out)
+	return out
 }

@@ -20,13 +20,13 @@ syntax keyword nodalTodo TODO FIXME XXX contained
 syntax region nodalString start=+"+ end=+"+ end=+$+ oneline contains=@NoSpell
 
 " Statements.
-syntax keyword nodalKeyword design ground port include block
+syntax keyword nodalKeyword design ground port include block ambient
 " Built-in part kinds where a statement starts; any other first word
 " followed by a name is a block instance.
 syntax match nodalInstance "^\s*\zs\h\w*\ze\s\+\S\+\s*("
 syntax match nodalKind "^\s*\zs\%(resistor\|capacitor\|inductor\|source\|diode\|led\|fuse\|switch\|wire\|battery\|load\)\>"
 " Attributes and switch states.
-syntax keyword nodalAttribute tol rated vf at ideality series dcr capacity
+syntax keyword nodalAttribute tol rated vf at ideality series dcr capacity tempco derate theta tjmax
 syntax keyword nodalState open closed
 
 " Quantities: a number with anything glued to it (4.7kΩ, 4k7, 100nF, 5%),
@@ -35,6 +35,8 @@ syntax match nodalNumber "\<\d[0-9.]*\%([eE][+-]\=\d\+\)\=\%(\k\|%\)*"
 syntax match nodalNumber "\%(^\|[^[:alnum:]_]\)\zs\.\d\+\%(\k\|%\)*"
 syntax match nodalUnit "\<[pnuµμmkMGT]\=\%(Ω\|Ω\|ohm\|F\|H\|V\|Ah\|A\|W\)\>"
 syntax match nodalUnit "\s\zs%"
+" Temperatures and thermal quantities: °C (degC), K/W, ppm/K.
+syntax match nodalUnit "°C\|\<degC\>\|\<K/W\>\|\<ppm/K\>"
 " A code after the pins or parameters; elsewhere R1 is a name.
 syntax match nodalCode "\%(\%()\|]\)\s*\)\@<=R\d\+\>"
 " meg is not a prefix here: M is mega, m is milli.
