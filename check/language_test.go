@@ -224,6 +224,14 @@ func TestQuantityErrors(t *testing.T) {
 		{"diode DX (a, gnd) 0.6 V", "bad-value", "vf 0.6 V at 10 mA", "0.6 V"},
 		{"led DX (a, gnd) 20 mA", "bad-value", "vf 2.0 V at 10 mA", "20 mA"},
 		{"source VX (a, gnd) 5", "unit-mismatch", "5 V for a voltage source or 5 A for a current source", "5"},
+		// A diode's breakdown: a voltage at a current, both positive, on a
+		// diode only, and a reverse rating no lower than it.
+		{"diode DX (a, gnd) vf 0.7 V at 10 mA breakdown 5.1 V", "missing-value", "breakdown 5.1 V at 10 mA", "breakdown 5.1 V"},
+		{"diode DX (a, gnd) vf 0.7 V at 10 mA breakdown 5.1 mA at 5 mA", "unit-mismatch", "must be a voltage", "breakdown 5.1 mA at 5 mA"},
+		{"diode DX (a, gnd) vf 0.7 V at 10 mA breakdown 5.1 V at 5 V", "unit-mismatch", "must be a current", "breakdown 5.1 V at 5 V"},
+		{"diode DX (a, gnd) vf 0.7 V at 10 mA breakdown -5.1 V at 5 mA", "bad-value", "both must be positive", "breakdown -5.1 V at 5 mA"},
+		{"led DX (a, gnd) vf 2 V at 10 mA breakdown 5 V at 1 mA", "bad-attribute", "an LED takes no breakdown", "breakdown 5 V at 1 mA"},
+		{"diode DX (a, gnd) vf 0.7 V at 10 mA breakdown 5.1 V at 5 mA rated 3 V", "bad-value", "below its breakdown voltage", ""},
 		{"source VX (a, gnd) 5 W", "unit-mismatch", "in V (voltage source) or A (current source)", "5 W"},
 	}
 	for _, c := range cases {

@@ -60,8 +60,8 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo, needs bool) b
 			continue
 		}
 		seen[key] = true
-		if a.At != nil && key != "vf" {
-			bad(CodeBadAttribute, "only vf takes \"at\" (vf 2.0 V at 20 mA)")
+		if a.At != nil && key != "vf" && key != "breakdown" {
+			bad(CodeBadAttribute, "only vf and breakdown take \"at\" (vf 2.0 V at 20 mA, breakdown 5.1 V at 5 mA)")
 			continue
 		}
 		if a.To != nil && key != "derate" {
@@ -130,33 +130,16 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo, needs bool) b
 			} else {
 				p.Ideality = q.Value
 			}
-		case "vf":
-			if q.Dim != units.Voltage {
-				bad(um, "vf %s must be a voltage in V", b.describe(a.Values[0]))
-				continue
+		case "vf", "breakdown":
+			v, at, pok := b.pointAttr(key, a, q, um, bad)
+			switch {
+			case !pok:
+				ok = false
+			case key == "vf":
+				p.VF, p.VFAt = v, at
+			default:
+				p.Breakdown, p.BreakdownAt = v, at
 			}
-			if a.At == nil {
-				bad(CodeMissingValue, "vf needs the current it is measured at: vf %s at 10 mA", b.describe(a.Values[0]))
-				continue
-			}
-			at, err := b.quantity(a.At)
-			if err != nil {
-				if rule, silent := errRule(err); !silent {
-					bad(rule, "vf … at %s", err)
-				} else {
-					ok = false
-				}
-				continue
-			}
-			if at.Dim != units.Current {
-				bad(um, "vf %s at %s: the operating point must be a current in A", b.describe(a.Values[0]), b.describe(a.At))
-				continue
-			}
-			if q.Value <= 0 || at.Value <= 0 {
-				bad(CodeBadValue, "vf %s at %s: both must be positive", units.Format(q.Value, units.Voltage), units.Format(at.Value, units.Current))
-				continue
-			}
-			p.VF, p.VFAt = q.Value, at.Value
 		case "rated":
 			for i, r := range qs {
 				if r.Percent || !containsDim(info.RatedDims(), r.Dim) {
@@ -184,11 +167,46 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo, needs bool) b
 			}
 		}
 	}
+	if p.Breakdown > 0 && p.RatedVoltage > 0 && p.RatedVoltage < p.Breakdown {
+		apos, aend = p.Pos, p.End
+		bad(CodeBadValue, "its reverse rating %s is below its breakdown voltage %s, so it would be past its rating whenever it breaks down; a clamp or reference diode is rated by its power and current in breakdown (rated W, A)",
+			units.Format(p.RatedVoltage, units.Voltage), units.Format(p.Breakdown, units.Voltage))
+	}
 	if need := info.Needs; need != "" && !seen[need] && needs {
 		apos, aend = p.Pos, p.End
 		bad(CodeMissingValue, "%s", info.NeedsHint)
 	}
 	return ok
+}
+
+// pointAttr reads "KEY V at A", a voltage measured at a current, both
+// positive (vf, breakdown). ok is false when it is unusable, which bad
+// has said.
+func (b *builder) pointAttr(key string, a *grammar.Attr, q units.Quantity, um Code, bad func(Code, string, ...any)) (v, at float64, ok bool) {
+	if q.Dim != units.Voltage || q.Percent {
+		bad(um, "%s %s must be a voltage in V", key, b.describe(a.Values[0]))
+		return 0, 0, false
+	}
+	if a.At == nil {
+		bad(CodeMissingValue, "%s needs the current it is measured at: %s %s at 10 mA", key, key, b.describe(a.Values[0]))
+		return 0, 0, false
+	}
+	aq, err := b.quantity(a.At)
+	if err != nil {
+		if rule, silent := errRule(err); !silent {
+			bad(rule, "%s … at %s", key, err)
+		} // else already reported where the value was read
+		return 0, 0, false
+	}
+	if aq.Dim != units.Current || aq.Percent {
+		bad(um, "%s %s at %s: the operating point must be a current in A", key, b.describe(a.Values[0]), b.describe(a.At))
+		return 0, 0, false
+	}
+	if q.Value <= 0 || aq.Value <= 0 {
+		bad(CodeBadValue, "%s %s at %s: both must be positive", key, units.Format(q.Value, units.Voltage), units.Format(aq.Value, units.Current))
+		return 0, 0, false
+	}
+	return q.Value, aq.Value, true
 }
 
 func containsDim(list []units.Dim, d units.Dim) bool {

@@ -80,6 +80,9 @@ type Part struct {
 	VFAt     float64 // ... at this current (A)
 	Ideality float64 // 0 = the kind's default
 	Series   float64 // Ω
+	// Breakdown is a diode's reverse breakdown voltage (V, positive) at
+	// the reverse current BreakdownAt (A); 0 when not given.
+	Breakdown, BreakdownAt float64
 
 	DCR float64 // inductors and fuses: resistance at DC (Ω)
 

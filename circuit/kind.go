@@ -261,7 +261,7 @@ var kinds = [numKinds]KindInfo{
 		Ratings: []Rating{{Dim: units.Voltage, What: "voltage", Says: "must develop %s", Of: "compliance voltage"}},
 		DC:      func(*Part) DC { return DC{Model: CurrentFlow} }},
 	Diode: {Word: "diode", Pins: junctionPins, Roles: junctionRoles, NoValue: junctionNoValue,
-		Attrs: []string{"vf", "ideality", "series", "theta", "tjmax"}, Needs: "vf", NeedsHint: junctionNeeds,
+		Attrs: []string{"vf", "ideality", "series", "theta", "tjmax", "breakdown"}, Needs: "vf", NeedsHint: junctionNeeds,
 		Ratings: junctionRatings("diode-current"), DC: junctionDC, Ideality: 1},
 	LED: {Word: "led", Pins: junctionPins, Roles: junctionRoles, NoValue: ledNoValue,
 		Attrs: []string{"vf", "ideality", "series", "theta", "tjmax"}, Needs: "vf", NeedsHint: ledNeeds,

@@ -124,7 +124,11 @@ reverse rating, judged by reverse-voltage.`)
 // rated voltage.
 var ReverseVoltage = ratingRule("reverse-voltage", `a diode or LED is reverse-biased beyond its rated voltage
 The rated voltage of a diode or LED is its reverse rating: the most it may
-see from cathode to anode.`)
+see from cathode to anode. A diode given a breakdown voltage (breakdown
+5.1 V at 5 mA: a clamp or reference diode) is meant to conduct in reverse:
+while it does, its current rating limits the reverse current and its power
+rating the power, and both are judged here, so a breakdown within them is
+no finding.`)
 
 // NearRating warns when a part is within its rating but past the usual
 // derating limit.

@@ -156,7 +156,10 @@ func (u Use) Derated() bool { return u.Limit > 0 && u.Frac > u.Limit*overLimit &
 // rating has no use. A resistor's power is judged against its rating
 // derated for the ambient temperature (DeratingFactor); a diode's or
 // LED's junction temperature Ta + θ·|P| against its tjmax, when both theta
-// and tjmax are written (JunctionTemperature).
+// and tjmax are written (JunctionTemperature). A diode with a breakdown
+// voltage that conducts in reverse has its current rating judged on the
+// reverse current, and that use and its power reported by reverse-voltage
+// (breakdownUse).
 func Judge(p *circuit.Part, q Quantities, der Derating) []Use {
 	var out []Use
 	rs := p.Kind.Info().Ratings
@@ -187,13 +190,36 @@ func Judge(p *circuit.Part, q Quantities, der Derating) []Use {
 			out = append(out, resistorPowerUse(p, q, rating, der.limitOf(r), der))
 			continue
 		}
-		out = append(out, Use{What: r.What, Rule: r.RuleName(), Dim: r.Dim, Value: x, Rating: rating, Frac: x / rating,
+		what, rule := r.What, r.RuleName()
+		if w, v, ok := breakdownUse(p, r, q); ok {
+			what, rule, x = w, "reverse-voltage", v
+		}
+		out = append(out, Use{What: what, Rule: rule, Dim: r.Dim, Value: x, Rating: rating, Frac: x / rating,
 			Limit: der.limitOf(r), Uncertified: q.Uncertified})
 	}
 	if u, ok := junctionUse(p, q); ok {
 		out = append(out, u)
 	}
 	return out
+}
+
+// breakdownUse says how a diode with a breakdown voltage uses rating r
+// while it conducts in reverse (q.I < 0): its current rating limits the
+// reverse current, and both that and its power are reported by
+// reverse-voltage, "current in breakdown" and "power in breakdown". ok is
+// false for other parts, forward bias and other ratings: a rated reverse
+// voltage stays judged as written.
+func breakdownUse(p *circuit.Part, r *circuit.Rating, q Quantities) (what string, use float64, ok bool) {
+	if p.Breakdown <= 0 || !(q.I < 0) {
+		return "", 0, false
+	}
+	switch {
+	case r.Dim == units.Current && r.Measure == circuit.Forward:
+		return "current in breakdown", -q.I, true
+	case r.Dim == units.Power:
+		return "power in breakdown", math.Abs(q.P), true
+	}
+	return "", 0, false
 }
 
 // Worst returns the index of the use with the largest fraction, or -1 when
@@ -265,6 +291,10 @@ func Describe(p *circuit.Part, u Use) string {
 		switch u.What {
 		case "power":
 			says = "dissipates %s"
+		case "power in breakdown":
+			says = "dissipates %s in reverse breakdown"
+		case "current in breakdown":
+			says = "carries %s in reverse breakdown"
 		case "current":
 			says = "carries %s"
 		default:

@@ -84,6 +84,12 @@ func build(d *circuit.Design, vt float64, mna bool) (*model, error) {
 			msgs = append(msgs, fmt.Sprintf("%s %s: its series resistance drops %s at %s, at least its vf", p.Kind, p.Name, fmtV(p.VFAt*p.Series), fmtA(p.VFAt)))
 			continue
 		}
+		br, _, brOK := BreakdownOf(p)
+		if !brOK {
+			badParts = append(badParts, circuit.PartID(i))
+			msgs = append(msgs, fmt.Sprintf("%s %s: its series resistance drops %s at %s, at least its breakdown voltage", p.Kind, p.Name, fmtV(p.BreakdownAt*p.Series), fmtA(p.BreakdownAt)))
+			continue
+		}
 		a, oa := m.node[p.Pins[0]], m.off[p.Pins[0]]
 		if p.Series > 0 {
 			m.branch[i] = int32(m.nNodes)
@@ -91,7 +97,7 @@ func build(d *circuit.Design, vt float64, mna bool) (*model, error) {
 			m.nNodes++
 		}
 		m.junc = append(m.junc, junction{part: circuit.PartID(i), a: a, c: m.node[p.Pins[1]], oa: oa, oc: m.off[p.Pins[1]],
-			is: is, nvt: n * vt, vref: vref, vj: vref})
+			is: is, nvt: n * vt, vref: vref, vj: vref, br: br})
 	}
 	m.n = m.nNodes
 	m.addLoads()

@@ -57,15 +57,24 @@ type junction struct {
 	a, c    int32   // junction unknowns: anode side (internal when there is series resistance) and cathode
 	oa, oc  float64 // their potentials above those unknowns at full source values (see model.off)
 	is, nvt float64
-	vref    float64 // junction voltage at the vf point
-	vj      float64 // linearisation point
-	iLin    float64 // current of the last linear solve
-	vLast   float64 // junction voltage of the last linear solve
+	vref    float64   // junction voltage at the vf point
+	br      Breakdown // the reverse exponential; zero for a junction without breakdown
+	vj      float64   // linearisation point
+	iLin    float64   // current of the last linear solve
+	vLast   float64   // junction voltage of the last linear solve
 	settled bool
 }
 
-// eval returns the Shockley current and its derivative at v.
+// eval returns the Shockley current and its derivative at v, with the
+// breakdown's reverse exponential added.
 func (j *junction) eval(v float64) (id, gd float64) {
+	id, gd = j.shockley(v)
+	ib, gb := j.br.Eval(v)
+	return id + ib, gd + gb
+}
+
+// shockley returns the forward exponential's current and derivative at v.
+func (j *junction) shockley(v float64) (id, gd float64) {
 	arg := v / j.nvt
 	if top := j.vref/j.nvt + MaxOverdrive; arg > top {
 		e := math.Exp(top)
@@ -81,11 +90,12 @@ func (j *junction) eval(v float64) (id, gd float64) {
 // (current iteration; Vlach & Singhal, Computer Methods for Circuit
 // Analysis and Design, 1983, from memory), and a junction coming up from
 // zero or reverse bias moves at most to its vf point. Steps down are
-// taken whole: the exponential only shrinks.
+// taken whole unless the junction has a breakdown, whose own step
+// limiting (Breakdown.limit) damps them.
 func (j *junction) limit(vraw float64) (float64, bool) {
 	vold := j.vj
 	if vraw <= vold+2*j.nvt {
-		return vraw, false
+		return j.br.limit(vold, vraw)
 	}
 	if vold <= 0 {
 		if vraw > j.vref {
@@ -96,7 +106,7 @@ func (j *junction) limit(vraw float64) (float64, bool) {
 	if vold >= j.vref+MaxOverdrive*j.nvt {
 		return vraw, false // the tangent continuation is linear: no damping needed
 	}
-	id, gd := j.eval(vold)
+	id, gd := j.shockley(vold)
 	ilin := id + gd*(vraw-vold)
 	if ilin <= 0 {
 		return vold + 2*j.nvt, true

@@ -153,15 +153,18 @@ func (j *jacobian) fill() int {
 
 // junctionSlope returns dI/dV of p's junction at junction voltage v and
 // temperature tK: Is·exp(v/(n·Vt))/(n·Vt), continued by its tangent past
-// solve.MaxOverdrive as the solver does.
+// solve.MaxOverdrive as the solver does, plus the slope of its breakdown
+// (solve.Breakdown) when it has one.
 func junctionSlope(p *circuit.Part, v, tK float64) (float64, error) {
 	is, vref, ok := solve.SaturationCurrentAt(p, tK)
-	if !ok {
+	br, _, brOK := solve.BreakdownOf(p)
+	if !ok || !brOK {
 		return 0, &Skipped{Reason: p.Name + " cannot be modelled"}
 	}
 	nvt := solve.Ideality(p) * solve.ThermalVoltage(tK)
 	arg := math.Min(v/nvt, vref/nvt+solve.MaxOverdrive)
-	return is * math.Exp(arg) / nvt, nil
+	_, gb := br.Eval(v)
+	return is*math.Exp(arg)/nvt + gb, nil
 }
 
 // rhs fills f with −∂F/∂p for parameter p (a part value at relative
