@@ -26,7 +26,7 @@ syntax keyword nodalKeyword design ground port include block ambient
 syntax match nodalInstance "^\s*\zs\h\w*\ze\s\+\S\+\s*("
 syntax match nodalKind "^\s*\zs\%(resistor\|capacitor\|inductor\|source\|diode\|led\|fuse\|switch\|wire\|battery\|load\)\>"
 " Attributes and switch states.
-syntax keyword nodalAttribute tol rated vf at ideality series dcr capacity tempco derate theta tjmax
+syntax keyword nodalAttribute tol rated vf at ideality series dcr capacity tempco derate theta tjmax breakdown
 syntax keyword nodalState open closed
 
 " Quantities: a number with anything glued to it (4.7kΩ, 4k7, 100nF, 5%),
