@@ -86,34 +86,46 @@ type List []Diagnostic
 // Add appends a diagnostic.
 func (l *List) Add(d Diagnostic) { *l = append(*l, d) }
 
-// Sort orders the list by file (in the order the file set resolves names),
-// line, column, then rule and message, so that output is deterministic.
+// Order is the order in which findings are listed: by file name, line and
+// column, then rule and message. List.Sort uses it, and output, which
+// lists the findings of several checks together, uses the same.
+type Order struct {
+	File         string
+	Line, Column int
+	Rule         string
+	Message      string
+}
+
+// Less reports whether a is listed before b.
+func (a Order) Less(b Order) bool {
+	if a.File != b.File {
+		return a.File < b.File
+	}
+	if a.Line != b.Line {
+		return a.Line < b.Line
+	}
+	if a.Column != b.Column {
+		return a.Column < b.Column
+	}
+	if a.Rule != b.Rule {
+		return a.Rule < b.Rule
+	}
+	return a.Message < b.Message
+}
+
+// Sort orders the list by Order (file names as the file set resolves
+// them), so that output is deterministic.
 func (l List) Sort(fset *FileSet) {
-	keys := make([]Position, len(l))
+	keys := make([]Order, len(l))
 	for i := range l {
-		keys[i] = fset.Position(l[i].Pos)
+		p := fset.Position(l[i].Pos)
+		keys[i] = Order{p.Filename, p.Line, p.Column, l[i].Rule, l[i].Message}
 	}
 	idx := make([]int, len(l))
 	for i := range idx {
 		idx[i] = i
 	}
-	sort.SliceStable(idx, func(a, b int) bool {
-		pa, pb := keys[idx[a]], keys[idx[b]]
-		if pa.Filename != pb.Filename {
-			return pa.Filename < pb.Filename
-		}
-		if pa.Line != pb.Line {
-			return pa.Line < pb.Line
-		}
-		if pa.Column != pb.Column {
-			return pa.Column < pb.Column
-		}
-		da, db := &l[idx[a]], &l[idx[b]]
-		if da.Rule != db.Rule {
-			return da.Rule < db.Rule
-		}
-		return da.Message < db.Message
-	})
+	sort.SliceStable(idx, func(a, b int) bool { return keys[idx[a]].Less(keys[idx[b]]) })
 	out := make(List, len(l))
 	for i, j := range idx {
 		out[i] = l[j]

@@ -139,25 +139,19 @@ func FromDiags(fset *diag.FileSet, l diag.List) []Finding {
 	return out
 }
 
-// Sort orders findings as the text form prints them.
+// Sort orders findings as every form lists them: by diag.Order, the order
+// in which a check's last pass already leaves them.
 func Sort(fs []Finding) {
-	sort.SliceStable(fs, func(i, j int) bool { return less(&fs[i], &fs[j]) })
+	sort.SliceStable(fs, func(i, j int) bool { return fs[i].order().Less(fs[j].order()) })
 }
 
-func less(a, b *Finding) bool {
-	if a.File != b.File {
-		return a.File < b.File
-	}
-	if a.Line != b.Line {
-		return a.Line < b.Line
-	}
-	if a.Column != b.Column {
-		return a.Column < b.Column
-	}
-	if a.Rule != b.Rule {
-		return a.Rule < b.Rule
-	}
-	return a.Message < b.Message
+// Sorted reports whether fs are in the order Sort gives.
+func Sorted(fs []Finding) bool {
+	return sort.SliceIsSorted(fs, func(i, j int) bool { return fs[i].order().Less(fs[j].order()) })
+}
+
+func (f *Finding) order() diag.Order {
+	return diag.Order{File: f.File, Line: f.Line, Column: f.Column, Rule: f.Rule, Message: f.Message}
 }
 
 // Count returns how many findings have each severity.
@@ -176,8 +170,14 @@ func (r *Report) Count() (errors, warnings, notes int) {
 }
 
 // Write writes the report in the named format.
+//
+// The findings of one check come in order from its last pass, and are not
+// sorted again; those of several checks (several files, the designs of a
+// comparison) are sorted here, once.
 func Write(w io.Writer, format string, r *Report, opt Options) error {
-	Sort(r.Findings)
+	if !Sorted(r.Findings) {
+		Sort(r.Findings)
+	}
 	switch format {
 	case "text", "":
 		return writeText(w, r, opt)
