@@ -30,7 +30,7 @@ func unitFix(end diag.Pos, dim units.Dim) []diag.Fix {
 // megFix replaces "meg" inside a number written with it glued on
 // ("1meg", "2.2megohm"): M for mega, and the unit of dim when none
 // follows.
-func (b *builder) megFix(v *grammar.Value, pos, end diag.Pos, dim units.Dim) []diag.Fix {
+func (b *builder) megFix(v *grammar.Value, dim units.Dim) []diag.Fix {
 	if v.Num == "" || dim == units.None {
 		return nil
 	}
@@ -38,15 +38,12 @@ func (b *builder) megFix(v *grammar.Value, pos, end diag.Pos, dim units.Dim) []d
 	if i < 0 {
 		return nil
 	}
-	// v.Num starts at the value's start, after any sign.
-	src := b.srcs[b.file]
-	start := b.file.Offset(pos)
-	j := strings.Index(string(src[start:min(start+len(v.Num)+1, len(src))]), v.Num)
-	if j < 0 {
+	num, ok := v.NumStart(b.srcs[b.file])
+	if !ok {
 		return nil
 	}
-	from := b.file.Pos(start + j + i)
-	to := b.file.Pos(start + j + len(v.Num))
+	from := b.pos(num + grammar.Offset(i))
+	to := b.pos(num + grammar.Offset(len(v.Num)))
 	rest := v.Num[i+3:]
 	text := "M" + rest
 	if rest == "" && v.Unit == "" {

@@ -136,7 +136,7 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 	if err != nil {
 		rule, silent := errRule(err)
 		if !silent {
-			b.reportFix(b.megFix(v, vpos, vend, info.Value), rule, vpos, vend, "%s %s: %s", word, p.Name, b.unitHint(p.Kind, err))
+			b.reportFix(b.megFix(v, info.Value), rule, vpos, vend, "%s %s: %s", word, p.Name, b.unitHint(p.Kind, err))
 		}
 		return false
 	}

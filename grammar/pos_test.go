@@ -33,6 +33,12 @@ func TestPositionsAreOffsets(t *testing.T) {
 	if v := r1.Part.Value; text(v.Start(), v.End(src)) != "4.7 kΩ" || v.End(nil) != v.Start() {
 		t.Errorf("value %q; without the source it ends at %d, not its start %d", text(v.Start(), v.End(src)), v.End(nil), v.Start())
 	}
+	if n, ok := r1.Part.Value.NumStart(src); !ok || text(n, n+3) != "4.7" {
+		t.Errorf("number at %d (%v)", n, ok)
+	}
+	if _, ok := r1.Part.Value.NumStart(nil); ok {
+		t.Error("a number found without the source")
+	}
 	if a := r1.Part.Attrs[0]; text(a.Start(), a.Values[0].End(src)) != "tol 1%" {
 		t.Errorf("attribute %q", text(a.Start(), a.Values[0].End(src)))
 	}

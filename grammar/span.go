@@ -4,7 +4,10 @@ package grammar
 // design holds millions of them), so it is measured in the source text when
 // a finding needs it.
 
-import "bytes"
+import (
+	"bytes"
+	"strings"
+)
 
 // End returns the offset just past the value as written in src, the text
 // the value was parsed from: "4.7 kΩ", "-5 V", "(2 * rtop)", "rtop",
@@ -43,6 +46,21 @@ func (v *Value) End(src []byte) Offset {
 		}
 	}
 	return start + Offset(n)
+}
+
+// NumStart returns the offset of the value's number in src: the value's
+// start, or past its sign. It reports false when src does not hold the
+// number there.
+func (v *Value) NumStart(src []byte) (Offset, bool) {
+	start := int(v.Start())
+	if v.Num == "" || start < 0 || start > len(src) {
+		return 0, false
+	}
+	j := strings.Index(string(src[start:min(start+len(v.Num)+1, len(src))]), v.Num)
+	if j < 0 {
+		return 0, false
+	}
+	return Offset(start + j), true
 }
 
 // ExprSource returns an expression value as written in src, from its
