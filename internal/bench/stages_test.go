@@ -394,9 +394,12 @@ func samplePeak(stop <-chan struct{}, out chan<- float64) {
 }
 
 // BenchmarkCaseClash is the case-clash rule alone (and the last pass over
-// its findings, none here) on the built design.
+// its findings, none here) on the built design, at the usual sizes and on
+// the 1000×1000 rated mesh (2 M parts):
+//
+//	go test ./internal/bench -run '^$' -bench 'CaseClash/mesh/parts=1999008' -benchtime 5x
 func BenchmarkCaseClash(b *testing.B) {
-	each(b, func(b *testing.B, kind string, src []byte) {
+	run := func(b *testing.B, src []byte) {
 		fset, r := built(b, src)
 		b.ReportAllocs()
 		for b.Loop() {
@@ -409,5 +412,8 @@ func BenchmarkCaseClash(b *testing.B) {
 			}
 		}
 		perPart(b, len(r.Design.Parts))
-	})
+	}
+	each(b, func(b *testing.B, kind string, src []byte) { run(b, src) })
+	m := &gen.Mesh{K: 1000, Supplies: 4, Loads: 1000}
+	b.Run(fmt.Sprintf("mesh/parts=%d", m.Parts()), func(b *testing.B) { run(b, meshSource(b, 1000, false)) })
 }
