@@ -97,13 +97,7 @@ func (m *model) refineDD(raw func([]float64), lu *ddLU, x, xlo []float64) {
 	var bd []dd
 	if lu != nil {
 		bd = make([]dd, n)
-		for i := range bd {
-			bd[i] = dd{s.rhs[i], s.rhsLo[i]}
-		}
-		lu.solve(bd)
-		for i, v := range bd {
-			x[i], xlo[i] = v.hi, v.lo
-		}
+		solveDD(lu, s, bd, x, xlo)
 	} else {
 		copy(x, s.rhs)
 		raw(x)
@@ -154,7 +148,12 @@ func (m *model) refineDD(raw func([]float64), lu *ddLU, x, xlo []float64) {
 		}
 		if lu == nil && n <= ddDenseMax {
 			if f, ok := factorDD(s); ok {
+				// Start again from the double-double solve of b: the
+				// stalled iterate's error can be so large that the
+				// float64 rounding of its residual, spread over every
+				// net, would swamp a small voltage for the next step too.
 				lu, bd = f, make([]dd, n)
+				solveDD(lu, s, bd, x, xlo)
 				prev, step = math.Inf(1), -1
 				continue
 			}
@@ -168,6 +167,18 @@ func (m *model) refineDD(raw func([]float64), lu *ddLU, x, xlo []float64) {
 			m.uncertified[i] = true
 		}
 		return
+	}
+}
+
+// solveDD sets x + xlo to A⁻¹b, b the right side in double-double, by the
+// double-double factorisation lu; bd is its workspace.
+func solveDD(lu *ddLU, s *system, bd []dd, x, xlo []float64) {
+	for i := range bd {
+		bd[i] = dd{s.rhs[i], s.rhsLo[i]}
+	}
+	lu.solve(bd)
+	for i, v := range bd {
+		x[i], xlo[i] = v.hi, v.lo
 	}
 }
 
