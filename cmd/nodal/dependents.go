@@ -114,7 +114,15 @@ func worktreeDependents(names, paths []string, stderr io.Writer) []string {
 	if real, err := filepath.EvalSymlinks(cwd); err == nil {
 		cwd = real
 	}
-	out, err := gitOutput(root, "ls-files", "-z", "--full-name", "--cached", "--others", "--exclude-standard", "--", "*.nodal")
+	// The files git tracks or would track, then those it knows that are
+	// gone from the disk, deleted in the work tree or with the deletion
+	// staged. The three listings are independent: asked at once, a check
+	// of one small file waits for one git start instead of three.
+	outs, errs := gitOutputs(root,
+		[]string{"ls-files", "-z", "--full-name", "--cached", "--others", "--exclude-standard", "--", "*.nodal"},
+		[]string{"ls-files", "-z", "--full-name", "--deleted", "--", "*.nodal"},
+		[]string{"diff", "--cached", "--name-only", "-z", "--diff-filter=D", "--", "*.nodal"})
+	out, err := outs[0], errs[0]
 	if err != nil {
 		fmt.Fprintf(stderr, "nodal: note: designs that include the named files were not looked for: %s\n", output.TextSafe(err.Error()))
 		return names
@@ -154,15 +162,10 @@ func worktreeDependents(names, paths []string, stderr io.Writer) []string {
 			}
 		}
 	}
-	// Files git knows that are gone from the disk, deleted in the work
-	// tree or with the deletion staged: their includers change too, though
-	// a hook's file list never names a deleted file.
-	for _, args := range [][]string{
-		{"ls-files", "-z", "--full-name", "--deleted", "--", "*.nodal"},
-		{"diff", "--cached", "--name-only", "-z", "--diff-filter=D", "--", "*.nodal"},
-	} {
-		out, err := gitOutput(root, args...)
-		if err != nil {
+	// Files git knows that are gone from the disk: their includers change
+	// too, though a hook's file list never names a deleted file.
+	for k, out := range outs[1:] {
+		if errs[1+k] != nil {
 			continue // a repository without commits has no staged deletions
 		}
 		for _, p := range strings.Split(string(out), "\x00") {

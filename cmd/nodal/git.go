@@ -15,9 +15,26 @@ import (
 	"path/filepath"
 	"strconv"
 	"strings"
+	"sync"
 
 	"nodal/input"
 )
+
+// gitOutputs runs one git command for each argument list, all at once,
+// and returns their outputs and errors in the same order.
+func gitOutputs(dir string, argLists ...[]string) ([][]byte, []error) {
+	outs, errs := make([][]byte, len(argLists)), make([]error, len(argLists))
+	var wg sync.WaitGroup
+	for k, args := range argLists {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			outs[k], errs[k] = gitOutput(dir, args...)
+		}()
+	}
+	wg.Wait()
+	return outs, errs
+}
 
 func gitOutput(dir string, args ...string) ([]byte, error) {
 	cmd := exec.Command("git", args...)
