@@ -233,6 +233,16 @@ func TestQuantityErrors(t *testing.T) {
 		{"led DX (a, gnd) vf 2 V at 10 mA breakdown 5 V at 1 mA", "bad-attribute", "an LED takes no breakdown", "breakdown 5 V at 1 mA"},
 		{"diode DX (a, gnd) vf 0.7 V at 10 mA breakdown 5.1 V at 5 mA rated 3 V", "bad-value", "below its breakdown voltage", ""},
 		{"source VX (a, gnd) 5 W", "unit-mismatch", "in V (voltage source) or A (current source)", "5 W"},
+		// A port's drive: a voltage (behind series) or a current, on one
+		// net other than ground, with no rating.
+		// (The ground net is check.TestPortDriveErrors's case: here net a
+		// would be left with one pin.)
+		{"port a 5", "unit-mismatch", "write 5 V for a voltage drive or 5 A for a current drive", "5"},
+		{"port a 5 W", "unit-mismatch", "in V (voltage drive) or A (current drive)", "5 W"},
+		{"port a 5 mA tol 5%", "bad-attribute", "a current drive takes no tol", "tol 5%"},
+		{"port a 2 mA rated 1 A", "bad-attribute", "a current drive takes no rating", "rated 1 A"},
+		{"port a series 50 Ω", "missing-value", "port a gives series but no drive", "series 50 Ω"},
+		{"port a, py 5 V", "syntax", "belongs to one net", "py 5 V"},
 	}
 	for _, c := range cases {
 		res := run(t, "ground gnd\nsource V1 (a, gnd) 1 V\n"+c.line+"\n")
@@ -306,6 +316,7 @@ resistor  R2 (h, gnd) 100 Ω
 		{"resistor RX (a, gnd) 1 kΩ ideality 2", "ideality is for: diode, led"},
 		{"inductor LX (a, gnd) 1 mH series 1 Ω", "series is for: diode, led"},
 		{"wire WX (a, gnd) tol 5%", "tol is for: resistor, capacitor, inductor, source"},
+		{"port a 2 mA series 1 Ω", "a current drive takes no series (series is for: diode, led, battery, port)"},
 		{"resistor RX (a, gnd) 1 kΩ colour red", "a resistor takes tol, tempco, derate … to and rated"},
 		// A switch takes no attribute but a rating.
 		{"switch SX (a, gnd) open ajar", "a switch takes only rated (its state is open or closed)"},

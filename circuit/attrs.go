@@ -15,14 +15,18 @@ import (
 // table.
 var attrKinds = func() map[string]string {
 	m := map[string]string{"rated": "every kind"}
-	for _, w := range KindWords {
-		k, _ := kindOf(w)
-		for _, a := range k.Info().Attrs {
-			if m[a] == "" {
+	seen := map[string]bool{} // attribute and keyword, listed once
+	for k := range kinds {
+		w := kinds[k].Word
+		for _, a := range kinds[k].Attrs {
+			switch {
+			case seen[a+" "+w]:
+			case m[a] == "":
 				m[a] = w
-			} else {
+			default:
 				m[a] += ", " + w
 			}
+			seen[a+" "+w] = true
 		}
 	}
 	return m
@@ -141,6 +145,10 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo, needs bool) b
 				p.Breakdown, p.BreakdownAt = v, at
 			}
 		case "rated":
+			if len(info.RatedDims()) == 0 {
+				bad(CodeBadAttribute, "%s takes no rating: it stands for what the outside world connects, which the design does not contain", article(p.Kind.String()))
+				continue
+			}
 			for i, r := range qs {
 				if r.Percent || !containsDim(info.RatedDims(), r.Dim) {
 					bad(um, "rated %s: %s is rated in %s", b.describe(a.Values[i]), article(p.Kind.String()), dimList(info.RatedDims()))

@@ -224,6 +224,7 @@ func (b *builder) run(ast *grammar.File) {
 	b.file = topFile
 	topScope := &scope{blk: b.top, inst: -1}
 	next := 0
+	var ports []pendingDrive
 	for _, st := range top {
 		pos, end := b.pos(st.Start()), b.pos(st.End())
 		switch {
@@ -258,6 +259,7 @@ func (b *builder) run(ast *grammar.File) {
 				id := d.Net(netName(n.Text), b.pos(n.Start()), b.nameEnd(n))
 				d.Nets[id].Port = true
 			}
+			ports = append(ports, pendingDrive{port: st.Port, pos: pos, end: end})
 		case st.Part != nil:
 			if !b.firstPart.IsValid() {
 				b.firstPart = pos
@@ -266,6 +268,7 @@ func (b *builder) run(ast *grammar.File) {
 			next++
 		}
 	}
+	b.drives(ports)
 	b.probeUnused()
 	b.unusedBlocks()
 	if d.Ground == NoNet && len(d.Parts) > 0 || d.Ground == NoNet && b.firstPart.IsValid() {

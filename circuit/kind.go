@@ -30,6 +30,8 @@ const (
 	Battery
 	CurrentLoad
 	PowerLoad
+	VoltageDrive
+	CurrentDrive
 	numKinds
 )
 
@@ -69,6 +71,10 @@ type KindInfo struct {
 	Ideality float64
 	// DC says how a part of the kind behaves at DC.
 	DC func(p *Part) DC
+	// OnPort says the kind is written on a port statement, as the drive
+	// of the port's net (port vin 5 V series 50 Ω), never as a part
+	// statement: its Word is no part kind's keyword.
+	OnPort bool
 }
 
 // Measure says which magnitude of an operating-point value a rating limits.
@@ -226,6 +232,17 @@ var (
 	// 2 V for a red one (from memory; its datasheet gives its own).
 	ledNoValue = "no plain value; give its forward voltage from its datasheet, e.g. \"vf 2.0 V at 10 mA\""
 	ledNeeds   = "needs its forward voltage from its datasheet, e.g. vf 2.0 V at 10 mA"
+	// emfBehindSeries is a voltage (the value) behind its series
+	// resistance, first pin positive, or an ideal voltage without one:
+	// a battery, and the drive a port states.
+	emfBehindSeries = func(p *Part) DC {
+		if p.Series > 0 {
+			return DC{Model: Conductance, R: p.Series, E: p.Value}
+		}
+		return DC{Model: VoltageDrop}
+	}
+	drivePins = []string{"port", "ground"}
+	driveHint = ": a voltage in V (with series for its source resistance) or a current in A"
 	// shortUnlessDCR is an inductor's or fuse's behaviour: its dcr, or
 	// an ideal short without one.
 	shortUnlessDCR = func(p *Part) DC {
@@ -295,18 +312,25 @@ var kinds = [numKinds]KindInfo{
 			Says: "delivers %s", Of: "discharge rating"}, "supply-current", 0.90)},
 		// Its internal resistance is written as series; without one it is
 		// an ideal voltage.
-		DC: func(p *Part) DC {
-			if p.Series > 0 {
-				return DC{Model: Conductance, R: p.Series, E: p.Value}
-			}
-			return DC{Model: VoltageDrop}
-		}},
+		DC: emfBehindSeries},
 	CurrentLoad: {Word: "load", Name: "constant-current load", Pins: loadPins, Roles: loadRoles, Value: units.Current,
 		ValueHint: loadHint, Attrs: []string{"tol"}, Ratings: []Rating{ratedVoltage},
 		DC: func(*Part) DC { return DC{Model: CurrentFlow} }},
 	PowerLoad: {Word: "load", Name: "constant-power load", Pins: loadPins, Roles: loadRoles, Value: units.Power,
 		ValueHint: loadHint, Attrs: []string{"tol"}, Ratings: []Rating{ratedVoltage},
 		DC: func(*Part) DC { return DC{Model: ConstantPower} }},
+	// What the outside world connects at a port, written on the port
+	// statement (port vin 5 V series 50 Ω, port sense 2 mA) and placed
+	// between the port's net and ground. It takes no rating: the port
+	// stands for a supply the design does not contain.
+	VoltageDrive: {Word: "port", Name: "voltage drive", Pins: drivePins,
+		Roles: []string{"the value's volts above ground, behind series", "the design's ground"}, Value: units.Voltage,
+		ValueHint: driveHint, Attrs: []string{"series"}, DC: emfBehindSeries, OnPort: true},
+	// A current drive's pins are the other way round: its current flows
+	// out of ground through the drive and into the port's net.
+	CurrentDrive: {Word: "port", Name: "current drive", Pins: []string{"ground", "port"},
+		Roles: []string{"the design's ground", "the current flows into the design here"}, Value: units.Current,
+		ValueHint: driveHint, DC: func(*Part) DC { return DC{Model: CurrentFlow} }, OnPort: true},
 }
 
 // Kinds lists every built-in kind, in a fixed order.
@@ -344,15 +368,15 @@ func (ki *KindInfo) RatedDims() []units.Dim {
 	return out
 }
 
-// KindWords lists the kind keywords, each once, for "did you mean" and
-// help.
+// KindWords lists the keywords of part statements, each once, for "did
+// you mean" and help; a port's drive is written on the port statement.
 var KindWords = kindWords()
 
 func kindWords() []string {
 	var out []string
 	seen := map[string]bool{}
 	for k := range kinds {
-		if w := kinds[k].Word; !seen[w] {
+		if w := kinds[k].Word; !seen[w] && !kinds[k].OnPort {
 			seen[w] = true
 			out = append(out, w)
 		}
@@ -360,10 +384,10 @@ func kindWords() []string {
 	return out
 }
 
-// kindOf returns the first kind written word.
+// kindOf returns the first part kind written word.
 func kindOf(word string) (Kind, bool) {
 	for k := Kind(0); k < numKinds; k++ {
-		if kinds[k].Word == word {
+		if kinds[k].Word == word && !kinds[k].OnPort {
 			return k, true
 		}
 	}

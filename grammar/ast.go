@@ -39,9 +39,14 @@ type Ground struct {
 	Net *Name `parser:"@@"`
 }
 
-// Port lists nets that leave the file and may have a single pin.
+// Port lists nets that leave the file and may have a single pin. A port
+// of one net may say what drives it from outside: a voltage, with an
+// optional source resistance (port vin 5 V series 50 Ω), or a current
+// (port sense 2 mA).
 type Port struct {
-	Nets []*Name `parser:"@@ ( \",\" @@ )*"`
+	Nets  []*Name `parser:"@@ ( \",\" @@ )*"`
+	Drive *Value  `parser:"@@?"`
+	Attrs []*Attr `parser:"@@*"`
 }
 
 // Ambient states the design's ambient temperature, or its range:

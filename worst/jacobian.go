@@ -67,7 +67,7 @@ func newJacobian(d *circuit.Design, r *solve.Result, tK float64, maxUnknowns int
 			}
 			uf[ra] = rb
 		}
-		if p.Kind == circuit.VoltageSource || p.IsShort() {
+		if dc := p.DC(); p.Kind == circuit.VoltageSource || dc.Model == circuit.Short || dc.Model == circuit.VoltageDrop {
 			j.branch[i] = n
 			n++
 		}
@@ -123,6 +123,13 @@ func newJacobian(d *circuit.Design, r *solve.Result, tK float64, maxUnknowns int
 				a = in
 			}
 			cond(a, b, j.gd[i])
+		default:
+			// A kind with no toleranced value of its own (a battery, a
+			// port's drive) stamps its DC behaviour: a resistance behind
+			// its EMF is that conductance.
+			if dc := p.DC(); dc.Model == circuit.Conductance {
+				cond(a, b, 1/dc.R)
+			}
 		}
 	}
 	a := t.Compress()
@@ -268,6 +275,9 @@ func (j *jacobian) partDeltas(dx []float64, p Param, orig []circuit.Part, dv, di
 			}
 		default:
 			di[i] = 0
+			if dc := q.DC(); dc.Model == circuit.Conductance {
+				di[i] = v / dc.R
+			}
 		}
 	}
 }
