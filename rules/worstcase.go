@@ -130,7 +130,7 @@ var CornerOverRating = &Analyzer{
 	Severity: diag.Error,
 	Requires: []*Analyzer{Solve, WorstCase},
 	Doc: `a part within its rating at nominal values is past it at the worst corner of tolerances and temperature
-Every part written with tol (resistors and sources) may sit anywhere in its
+Every part written with tol (resistors, sources, batteries and loads) may sit anywhere in its
 band, and the ambient temperature anywhere in its range; each rating is
 judged at its worst over all of them together, and the finding names the
 corner that reaches it. A part past a rating at nominal already has its

@@ -37,7 +37,8 @@ func params(d *circuit.Design, amb Ambient) (ps []Param, hasT bool) {
 	for i := range d.Parts {
 		p := &d.Parts[i]
 		switch p.Kind {
-		case circuit.Resistor, circuit.VoltageSource, circuit.CurrentSource:
+		case circuit.Resistor, circuit.VoltageSource, circuit.CurrentSource,
+			circuit.Battery, circuit.CurrentLoad, circuit.PowerLoad:
 			if p.Tol > 0 {
 				ps = append(ps, Param{Part: circuit.PartID(i), Tol: p.Tol})
 			}

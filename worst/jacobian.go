@@ -124,11 +124,16 @@ func newJacobian(d *circuit.Design, r *solve.Result, tK float64, maxUnknowns int
 			}
 			cond(a, b, j.gd[i])
 		default:
-			// A kind with no toleranced value of its own (a battery, a
-			// port's drive) stamps its DC behaviour: a resistance behind
-			// its EMF is that conductance.
-			if dc := p.DC(); dc.Model == circuit.Conductance {
+			// Other kinds stamp their DC behaviour: a resistance behind
+			// an EMF (a battery, a port's drive) is that conductance, and
+			// a constant-power load P at voltage V the slope of
+			// I = P/V, dI/dV = −P/V² (the slope is negative).
+			switch dc := p.DC(); dc.Model {
+			case circuit.Conductance:
 				cond(a, b, 1/dc.R)
+			case circuit.ConstantPower:
+				j.gd[i] = powerSlope(p, r.V[i])
+				cond(a, b, j.gd[i])
 			}
 		}
 	}
@@ -199,9 +204,26 @@ func (j *jacobian) rhs(f []float64, p Param, orig []circuit.Part) {
 		case circuit.VoltageSource:
 			// branch row V_a − V_b − E = 0, ∂/∂s = −E·tol
 			f[j.branch[i]] += q.Value * p.Tol
-		case circuit.CurrentSource:
+		case circuit.CurrentSource, circuit.CurrentLoad:
+			// Both carry their value from their first pin to their
+			// second.
 			inj(a, q.Value*p.Tol)
 			inj(b, -q.Value*p.Tol)
+		case circuit.PowerLoad:
+			// I = P/V: ∂I/∂s = P·tol/V at the operating point
+			if v := r.V[i]; v != 0 {
+				inj(a, q.Value*p.Tol/v)
+				inj(b, -q.Value*p.Tol/v)
+			}
+		case circuit.Battery:
+			if k := j.branch[i]; k >= 0 {
+				// an ideal battery's branch row, as a voltage source's
+				f[k] += q.Value * p.Tol
+			} else if dc := q.DC(); dc.Model == circuit.Conductance {
+				// I = (V − E)/R: ∂I/∂s = −E·tol/R
+				inj(a, -q.Value*p.Tol/dc.R)
+				inj(b, q.Value*p.Tol/dc.R)
+			}
 		}
 		return
 	}
@@ -259,10 +281,15 @@ func (j *jacobian) partDeltas(dx []float64, p Param, orig []circuit.Part, dv, di
 			if q.DCR > 0 {
 				di[i] = v / q.DCR
 			}
-		case circuit.CurrentSource:
+		case circuit.CurrentSource, circuit.CurrentLoad:
 			di[i] = 0
 			if p.Part == circuit.PartID(i) {
 				di[i] = q.Value * p.Tol
+			}
+		case circuit.PowerLoad:
+			di[i] = j.gd[i] * v
+			if p.Part == circuit.PartID(i) && r.V[i] != 0 {
+				di[i] += q.Value * p.Tol / r.V[i]
 			}
 		case circuit.Diode, circuit.LED:
 			a := j.node[q.Pins[0]]
@@ -277,6 +304,9 @@ func (j *jacobian) partDeltas(dx []float64, p Param, orig []circuit.Part, dv, di
 			di[i] = 0
 			if dc := q.DC(); dc.Model == circuit.Conductance {
 				di[i] = v / dc.R
+				if p.Part == circuit.PartID(i) && q.Kind == circuit.Battery {
+					di[i] -= q.Value * p.Tol / dc.R
+				}
 			}
 		}
 	}
@@ -331,4 +361,13 @@ func (j *jacobian) solve(dx, f []float64, byInverse bool) {
 			dx[i] += x * z
 		}
 	}
+}
+
+// powerSlope returns dI/dV = −P/V² of a constant-power load at voltage v
+// (I = P/V), or 0 where v is 0 and the load draws nothing.
+func powerSlope(p *circuit.Part, v float64) float64 {
+	if v == 0 {
+		return 0
+	}
+	return -p.Value / (v * v)
 }

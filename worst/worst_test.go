@@ -218,3 +218,27 @@ func TestTemperatureRangeMatchesCorners(t *testing.T) {
 		}
 	})
 }
+
+// TestPowerLoadFirstOrder checks the linearisation of a constant-power
+// load against the derivatives of its closed form. Fed through R from Vs,
+// a load drawing P sits at V = (Vs + √(Vs² − 4PR))/2 (Ohm's law with
+// I = P/V, the upper root), so ∂V/∂Vs = (1 + Vs/√(Vs² − 4PR))/2 and
+// ∂V/∂P = −R/√(Vs² − 4PR); first order, the range of V over Vs ± tV and
+// P ± tP is V ± (∂V/∂Vs·Vs·tV + |∂V/∂P|·P·tP). Without the load's slope
+// −P/V² in the linearised equations the source's share comes out wrong.
+func TestPowerLoadFirstOrder(t *testing.T) {
+	const vs, r, p, tv, tp = 10.0, 100.0, 0.2, 0.05, 0.1
+	b := newBuilder()
+	b.add(circuit.VoltageSource, "V1", "in", "gnd", vs, tv)
+	b.add(circuit.Resistor, "R1", "in", "out", r, 0)
+	b.add(circuit.PowerLoad, "L1", "out", "gnd", p, tp)
+	root := math.Sqrt(vs*vs - 4*p*r)
+	v0 := (vs + root) / 2
+	half := (1+vs/root)/2*vs*tv + r/root*p*tp
+	none := func(circuit.PartID, float64, float64, float64, float64) []float64 { return nil }
+	res := analyze(t, b.d, room, none, Options{MaxCorners: -1})
+	out := b.d.LookupNet("out")
+	if res.Corners || math.Abs(res.NetLow[out]-(v0-half)) > 1e-9*v0 || math.Abs(res.NetHigh[out]-(v0+half)) > 1e-9*v0 {
+		t.Errorf("first order: %.12g … %.12g V, the closed form's derivatives give %.12g … %.12g V", res.NetLow[out], res.NetHigh[out], v0-half, v0+half)
+	}
+}
