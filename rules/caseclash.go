@@ -150,9 +150,20 @@ func foldGroups(keys, tmp []uint64, name func(int) string, clash func(first, i i
 	}
 }
 
+// smallSort is the most keys radixSortHigh sorts by comparison.
+const smallSort = 4096
+
 // radixSortHigh sorts keys by their upper 32 bits, keeping the order of
 // equal ones: a least-significant-digit radix sort in two 16-bit passes.
 func radixSortHigh(keys, tmp []uint64) {
+	if len(keys) <= smallSort {
+		// The radix passes clear and sum 2¹⁶ counters each, which costs
+		// more than the sort itself on a small design. The low halves are
+		// the indexes, ascending on entry and distinct, so sorting whole
+		// keys orders them as the stable radix sort does.
+		slices.Sort(keys)
+		return
+	}
 	var count [1 << 16]int
 	src, dst := keys, tmp
 	for shift := uint(32); shift < 64; shift += 16 {

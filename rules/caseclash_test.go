@@ -1,6 +1,7 @@
 package rules
 
 import (
+	"cmp"
 	"fmt"
 	"math/rand/v2"
 	"slices"
@@ -119,5 +120,23 @@ func TestCaseClashLarge(t *testing.T) {
 	want, got := clashReference(d), runClash(t, d)
 	if len(want) != 200 || !slices.Equal(got, want) {
 		t.Fatalf("%d findings, reference %d; first %v / %v", len(got), len(want), got[:min(3, len(got))], want[:min(3, len(want))])
+	}
+}
+
+// The radix passes and the comparison sort of small inputs put keys in
+// the same order: hashes with many repeats, indexes ascending.
+func TestRadixSortHighMatchesSort(t *testing.T) {
+	for _, n := range []int{0, 1, 7, smallSort, smallSort + 1, 3 * smallSort} {
+		keys := make([]uint64, n)
+		for i := range keys {
+			h := uint64(i*2654435761) % uint64(max(n/3, 1)) * 0x9e3779b9
+			keys[i] = (h&0xffffffff)<<32 | uint64(i)
+		}
+		want := slices.Clone(keys)
+		slices.SortStableFunc(want, func(x, y uint64) int { return cmp.Compare(x>>32, y>>32) })
+		radixSortHigh(keys, make([]uint64, n))
+		if !slices.Equal(keys, want) {
+			t.Fatalf("n=%d: orders differ", n)
+		}
 	}
 }
