@@ -358,7 +358,7 @@ func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	if cf.format == "sarif" {
 		if root != "" {
 			opt.Dir = root // staged names are repository paths
-		} else if r, _, err := gitRoot("."); err == nil {
+		} else if r, _, err := worktreeRoot(); err == nil {
 			opt.Root = r
 		} else {
 			opt.Root = cwd

@@ -10,6 +10,7 @@ package main
 // checked.
 
 import (
+	"errors"
 	"fmt"
 	"io"
 	"os"
@@ -96,7 +97,14 @@ func isConfigName(p string) bool { return filepath.Base(p) == "nodal.toml" }
 // (deleted .nodal files and nodal.toml files among them), or on a .nodal
 // file git knows that is gone from the disk.
 func worktreeDependents(names, paths []string, stderr io.Writer) []string {
-	root, _, err := gitRoot(".")
+	root, _, err := worktreeRoot()
+	if errors.Is(err, errNoRepository) {
+		if loc, lerr := input.Locate("."); lerr == nil && loc.Top != "" {
+			// A .git on the path as written but not above the physical
+			// folder: git has the last word.
+			root, _, err = gitRoot(".")
+		}
+	}
 	if err != nil {
 		if loc, lerr := input.Locate("."); lerr == nil && loc.Top != "" {
 			// A repository git could not be asked about: say what was not

@@ -1,0 +1,174 @@
+package main
+
+// reporoot.go: the top level of the work tree found without starting git,
+// where the layout leaves no doubt, so that a check of one file does not
+// wait for a process to be told what the folders already say. Anything
+// out of the ordinary is left to git.
+
+import (
+	"errors"
+	"io/fs"
+	"os"
+	"path/filepath"
+	"strings"
+	"syscall"
+)
+
+// errNoRepository says that no folder from the current one up holds a .git
+// entry and git's environment points nowhere else: git would find no work
+// tree either.
+var errNoRepository = errors.New("not inside a git repository")
+
+// gitEnv lists the environment variables that change where git finds the
+// repository or its work tree; with any of them set, git is asked.
+var gitEnv = []string{"GIT_DIR", "GIT_WORK_TREE", "GIT_COMMON_DIR", "GIT_CEILING_DIRECTORIES", "GIT_DISCOVERY_ACROSS_FILESYSTEM", "GIT_CONFIG_PARAMETERS", "GIT_CONFIG_COUNT"}
+
+// worktreeRoot returns what gitRoot(".") returns: the top level of the work
+// tree holding the current folder, with its links resolved as git names
+// it, and the current folder's path inside it. It walks up from the
+// current folder for .git. A plain .git folder of the current user, whose
+// config moves or removes no work tree, settles it, and so does the .git
+// file of a work tree added by "git worktree add" to such a repository; no .git at all, with
+// no git variable set, is errNoRepository; everything else (a submodule's
+// .git file, a config with core.worktree, bare or
+// includes, another owner, an unreadable folder) is asked of git.
+func worktreeRoot() (root, prefix string, err error) {
+	if root, prefix, ok, none := fastRoot(); ok {
+		return root, prefix, nil
+	} else if none {
+		return "", "", errNoRepository
+	}
+	return gitRoot(".")
+}
+
+// fastRoot finds the root without git: ok when found for certain, none
+// when there is certainly no work tree; neither when git must decide.
+func fastRoot() (root, prefix string, ok, none bool) {
+	for _, v := range gitEnv {
+		if _, set := os.LookupEnv(v); set {
+			return "", "", false, false
+		}
+	}
+	cwd, err := os.Getwd()
+	if err != nil {
+		return "", "", false, false
+	}
+	// git walks up the physical path of the current folder.
+	real, err := filepath.EvalSymlinks(cwd)
+	if err != nil {
+		return "", "", false, false
+	}
+	for d := real; ; {
+		info, err := os.Lstat(filepath.Join(d, ".git"))
+		switch {
+		case err == nil:
+			if !plainGitDir(filepath.Join(d, ".git"), info) && !linkedWorktree(filepath.Join(d, ".git"), info) {
+				return "", "", false, false
+			}
+			rel, err := filepath.Rel(d, real)
+			if err != nil {
+				return "", "", false, false
+			}
+			if rel != "." {
+				prefix = filepath.ToSlash(rel) + "/"
+			}
+			return d, prefix, true, false
+		case !errors.Is(err, fs.ErrNotExist):
+			return "", "", false, false
+		}
+		up := filepath.Dir(d)
+		if up == d {
+			return "", "", false, true
+		}
+		d = up
+	}
+}
+
+// plainGitDir reports whether .git at p is an ordinary repository folder
+// whose work tree is the folder holding it: a folder (not a link or a
+// gitfile) owned by the current user, with HEAD, objects and refs, and a
+// config that sets no work tree, no bare flag and includes no other file.
+func plainGitDir(p string, info fs.FileInfo) bool {
+	if !info.IsDir() {
+		return false
+	}
+	if st, ok := info.Sys().(*syscall.Stat_t); !ok || int(st.Uid) != os.Getuid() {
+		return false
+	}
+	for _, name := range []string{"HEAD", "objects", "refs"} {
+		if _, err := os.Lstat(filepath.Join(p, name)); err != nil {
+			return false
+		}
+	}
+	cfg, err := os.ReadFile(filepath.Join(p, "config"))
+	if err != nil || len(cfg) > 1<<20 {
+		return false
+	}
+	c := strings.ToLower(string(cfg))
+	for _, word := range []string{"worktree", "bare", "include"} {
+		if strings.Contains(c, word) && !(word == "bare" && onlyBareFalse(c)) {
+			return false
+		}
+	}
+	return true
+}
+
+// onlyBareFalse reports whether every line of a lower-cased config that
+// names bare is the "bare = false" git init writes.
+func onlyBareFalse(c string) bool {
+	for _, line := range strings.Split(c, "\n") {
+		if !strings.Contains(line, "bare") {
+			continue
+		}
+		if strings.Join(strings.Fields(line), "") != "bare=false" {
+			return false
+		}
+	}
+	return true
+}
+
+// linkedWorktree reports whether .git at p is the file "git worktree add"
+// writes: a regular file of one "gitdir:" line naming a folder of the
+// repository's worktrees with HEAD and a commondir leading to a plain
+// repository folder (plainGitDir). The work tree is then the folder
+// holding the file. A submodule's .git file names a folder without
+// commondir and is left to git.
+func linkedWorktree(p string, info fs.FileInfo) bool {
+	if !info.Mode().IsRegular() || info.Size() > 4096 {
+		return false
+	}
+	b, err := os.ReadFile(p)
+	if err != nil {
+		return false
+	}
+	line, ok := strings.CutPrefix(strings.TrimRight(string(b), "\n"), "gitdir: ")
+	if !ok || line == "" || strings.ContainsAny(line, "\n\r") {
+		return false
+	}
+	gd := filepath.FromSlash(line)
+	if !filepath.IsAbs(gd) {
+		gd = filepath.Join(filepath.Dir(p), gd)
+	}
+	if filepath.Base(filepath.Dir(gd)) != "worktrees" {
+		return false
+	}
+	if _, err := os.Lstat(filepath.Join(gd, "HEAD")); err != nil {
+		return false
+	}
+	cd, err := os.ReadFile(filepath.Join(gd, "commondir"))
+	if err != nil || len(cd) > 4096 {
+		return false
+	}
+	common := filepath.FromSlash(strings.TrimRight(string(cd), "\n"))
+	if common == "" || strings.ContainsAny(common, "\n\r") {
+		return false
+	}
+	if !filepath.IsAbs(common) {
+		common = filepath.Join(gd, common)
+	}
+	ci, err := os.Lstat(common)
+	if err != nil {
+		return false
+	}
+	return plainGitDir(common, ci)
+}
