@@ -16,8 +16,10 @@ import (
 	"os"
 	"path"
 	"path/filepath"
+	"runtime"
 	"sort"
 	"strings"
+	"sync"
 
 	"nodal/check"
 	"nodal/input"
@@ -48,13 +50,42 @@ func dependents(ch changed, names, all []string, read reader) []string {
 		}
 	}
 	targets := append(append([]string(nil), names...), ch.files...)
-	out := check.Dependents(targets, others, func(f string) []string {
-		src, err := read(f)
-		if err != nil {
-			return nil
+	isTarget := map[string]bool{}
+	for _, t := range targets {
+		isTarget[t] = true
+	}
+	// The files check.Dependents asks about (every other file that is not
+	// a target), read and scanned on every core before it asks.
+	var toRead []string
+	for _, f := range others {
+		if !isTarget[f] {
+			toRead = append(toRead, f)
 		}
-		return check.Includes(f, src)
-	})
+	}
+	incs := make([][]string, len(toRead))
+	var wg sync.WaitGroup
+	next := make(chan int)
+	for range min(runtime.GOMAXPROCS(0), max(len(toRead), 1)) {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := range next {
+				if src, err := read(toRead[i]); err == nil {
+					incs[i] = check.Includes(toRead[i], src)
+				}
+			}
+		}()
+	}
+	for i := range toRead {
+		next <- i
+	}
+	close(next)
+	wg.Wait()
+	byFile := make(map[string][]string, len(toRead))
+	for i, f := range toRead {
+		byFile[f] = incs[i]
+	}
+	out := check.Dependents(targets, others, func(f string) []string { return byFile[f] })
 	seen := map[string]bool{}
 	for _, f := range out {
 		seen[f] = true
@@ -182,7 +213,7 @@ func worktreeDependents(names, paths []string, stderr io.Writer) []string {
 			}
 		}
 	}
-	deps := dependents(ch, absNames, all, readDisk)
+	deps := dependents(ch, absNames, all, newDiskReaders().read)
 	rel := make([]string, 0, len(deps))
 	for _, d := range deps {
 		if r, err := filepath.Rel(cwd, d); err == nil {

@@ -22,15 +22,37 @@ import (
 // reader reads a file the way the current mode sees files.
 type reader func(name string) ([]byte, error)
 
-// readDisk reads a file of the work tree outside a check (to follow
-// includes for a hook): confined to the repository holding it, a regular
-// file, within the default cap.
-func readDisk(name string) ([]byte, error) {
-	r, err := check.DefaultReader(name)
-	if err != nil {
-		return nil, err
+// diskReaders read files of the work tree outside a check (to follow
+// includes for a hook): each confined to the repository holding it, a
+// regular file, within the default cap. The reader check.DefaultReader
+// makes for a folder is made once per folder, not once per file. It is
+// safe for concurrent use.
+type diskReaders struct {
+	mu    sync.Mutex
+	byDir map[string]diskReader
+}
+
+type diskReader struct {
+	r   *input.Reader
+	err error
+}
+
+func newDiskReaders() *diskReaders { return &diskReaders{byDir: map[string]diskReader{}} }
+
+// read reads a file through its folder's reader.
+func (d *diskReaders) read(name string) ([]byte, error) {
+	dir := filepath.Dir(name)
+	d.mu.Lock()
+	dr, ok := d.byDir[dir]
+	if !ok {
+		dr.r, dr.err = check.DefaultReader(name)
+		d.byDir[dir] = dr
 	}
-	return r.ReadFile(name)
+	d.mu.Unlock()
+	if dr.err != nil {
+		return nil, dr.err
+	}
+	return dr.r.ReadFile(name)
 }
 
 // readers builds and keeps one input.Reader per set of roots and cap.
