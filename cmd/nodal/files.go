@@ -14,7 +14,6 @@ import (
 	"strings"
 	"sync"
 
-	"nodal/check"
 	"nodal/input"
 	"nodal/output"
 )
@@ -28,8 +27,10 @@ type reader func(name string) ([]byte, error)
 // makes for a folder is made once per folder, not once per file. It is
 // safe for concurrent use.
 type diskReaders struct {
-	mu    sync.Mutex
-	byDir map[string]diskReader
+	mu     sync.Mutex
+	byDir  map[string]diskReader
+	byRoot map[string]*input.Reader
+	tops   map[string]string // folder → input.Locate's Top ("" outside a repository)
 }
 
 type diskReader struct {
@@ -37,7 +38,68 @@ type diskReader struct {
 	err error
 }
 
-func newDiskReaders() *diskReaders { return &diskReaders{byDir: map[string]diskReader{}} }
+func newDiskReaders() *diskReaders {
+	return &diskReaders{byDir: map[string]diskReader{}, byRoot: map[string]*input.Reader{}, tops: map[string]string{}}
+}
+
+// reader is check.DefaultReader for the files of the clean absolute
+// folder dir: confined to input.TreeRoot(dir).
+func (d *diskReaders) reader(dir string) (*input.Reader, error) {
+	root, err := d.treeRoot(dir)
+	if err != nil {
+		return nil, err
+	}
+	if r, ok := d.byRoot[root]; ok {
+		return r, nil
+	}
+	r, err := input.New([]string{root}, 0)
+	if err == nil {
+		d.byRoot[root] = r
+	}
+	return r, err
+}
+
+// treeRoot is input.TreeRoot(dir) for a clean absolute folder. A folder
+// that is not a link and holds no .git lies in the repository of its
+// parent, as input.Locate walks up to it, so inside a repository the
+// answer is the parent's (kept per folder) after two lstat calls instead
+// of resolving the whole path again.
+func (d *diskReaders) treeRoot(dir string) (string, error) {
+	if top, ok := d.tops[dir]; ok && top != "" {
+		return top, nil
+	}
+	if parent := filepath.Dir(dir); parent != dir && filepath.IsAbs(dir) && filepath.Clean(dir) == dir {
+		info, err := os.Lstat(dir)
+		if err == nil && info.IsDir() {
+			if _, gerr := os.Lstat(filepath.Join(dir, ".git")); gerr != nil {
+				if top, err := d.top(parent); err == nil && top != "" {
+					d.tops[dir] = top
+					return top, nil
+				}
+			}
+		}
+	}
+	loc, err := input.Locate(dir)
+	if err != nil {
+		return "", err
+	}
+	d.tops[dir] = loc.Top
+	if loc.Top != "" {
+		return loc.Top, nil
+	}
+	return loc.Dir, nil
+}
+
+// top is input.Locate(dir).Top, kept per folder.
+func (d *diskReaders) top(dir string) (string, error) {
+	if top, ok := d.tops[dir]; ok {
+		return top, nil
+	}
+	if _, err := d.treeRoot(dir); err != nil {
+		return "", err
+	}
+	return d.tops[dir], nil
+}
 
 // read reads a file through its folder's reader.
 func (d *diskReaders) read(name string) ([]byte, error) {
@@ -45,7 +107,7 @@ func (d *diskReaders) read(name string) ([]byte, error) {
 	d.mu.Lock()
 	dr, ok := d.byDir[dir]
 	if !ok {
-		dr.r, dr.err = check.DefaultReader(name)
+		dr.r, dr.err = d.reader(dir)
 		d.byDir[dir] = dr
 	}
 	d.mu.Unlock()
