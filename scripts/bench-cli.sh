@@ -27,6 +27,7 @@ gen="$work/nodal-gen"
 # the cost of starting the process at all.
 designs=(
   "baseline: nodal version|$runs|version"
+  "one line: ground gnd|$runs|ground"
   "random-200|$runs|random -parts 200 -seed 1"
   "mesh-10x10|$runs|mesh -k 10"
 )
@@ -61,6 +62,8 @@ for d in "${designs[@]}"; do
   f="$work/design.nodal"
   if [ "$args" = version ]; then
     : >"$f"; cmd=(version)
+  elif [ "$args" = ground ]; then
+    echo 'ground gnd' >"$f"; cmd=(check --no-color "$f")
   else
     # shellcheck disable=SC2086
     "$gen" $args >"$f"
