@@ -58,6 +58,11 @@ func fastRoot() (root, prefix string, ok, none bool) {
 	if err != nil {
 		return "", "", false, false
 	}
+	for _, c := range strings.Split(filepath.ToSlash(real), "/") {
+		if c == ".git" {
+			return "", "", false, false // inside a repository's own folder: no work tree there
+		}
+	}
 	for d := real; ; {
 		info, err := os.Lstat(filepath.Join(d, ".git"))
 		switch {

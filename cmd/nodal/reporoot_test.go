@@ -36,6 +36,12 @@ func TestWorktreeRootAgreesWithGit(t *testing.T) {
 		})
 	}
 
+	// Inside .git itself there is no work tree: git says so.
+	t.Chdir(filepath.Join(dir, ".git", "refs"))
+	if _, _, ok, none := fastRoot(); ok || none {
+		t.Errorf("inside .git: fastRoot ok %v, none %v", ok, none)
+	}
+
 	// A .git folder whose config sets the work tree elsewhere is git's to
 	// read.
 	odd := gitRepo(t)
