@@ -51,14 +51,7 @@ func TestBatteryTheveninAndEnergy(t *testing.T) {
 	if emf, loss, term := e*iout, iout*iout*rint, v[b]*iout; math.Abs(emf-(loss+term)) > 1e-9*emf {
 		t.Errorf("energy balance: EMF %.12g W, internal loss %.12g W + terminal %.12g W", emf, loss, term)
 	}
-	sum, scale := 0.0, 0.0
-	for k := range d.Parts {
-		sum += v[k] * i[k]
-		scale += math.Abs(v[k] * i[k])
-	}
-	if math.Abs(sum) > 1e-9*scale {
-		t.Errorf("Tellegen: powers sum to %g W of %g W", sum, scale)
-	}
+	assertTellegen(t, d, v, i)
 }
 
 // TestBatteriesInParallel: two batteries with internal resistance in
@@ -76,6 +69,22 @@ func TestBatteriesInParallel(t *testing.T) {
 	}
 	if i[b1] >= 0 || math.Abs(i[b1]+i[b2]) > 1e-12 {
 		t.Errorf("B1 carries %g A, B2 %g A: B1 should charge B2", i[b1], i[b2])
+	}
+}
+
+// assertTellegen checks Tellegen's theorem on an operating point: the
+// powers V·I of all parts, with one sign convention, sum to zero
+// (Tellegen, Philips Res. Rep. 7, 259 (1952), from memory), to 1e-9 of
+// their magnitudes.
+func assertTellegen(t *testing.T, d *circuit.Design, v, i []float64) {
+	t.Helper()
+	sum, scale := 0.0, 0.0
+	for k := range d.Parts {
+		sum += v[k] * i[k]
+		scale += math.Abs(v[k] * i[k])
+	}
+	if math.Abs(sum) > 1e-9*scale {
+		t.Errorf("Tellegen: powers sum to %g W of %g W", sum, scale)
 	}
 }
 

@@ -89,14 +89,7 @@ func TestPowerLoadsShareARail(t *testing.T) {
 	if rel(v[l1], want) > 1e-9 {
 		t.Errorf("rail at %.12g V, want %.12g V", v[l1], want)
 	}
-	sum, scale := 0.0, 0.0
-	for k := range d.Parts {
-		sum += v[k] * i[k]
-		scale += math.Abs(v[k] * i[k])
-	}
-	if math.Abs(sum) > 1e-9*scale {
-		t.Errorf("Tellegen: powers sum to %g W of %g W", sum, scale)
-	}
+	assertTellegen(t, d, v, i)
 }
 
 // TestCurrentLoad: a constant-current load draws its current whatever its
