@@ -145,30 +145,8 @@ func (w *walker) part() (int, string, bool) {
 		return fail("( and the part's nets")
 	}
 	w.i++
-	if punctIs(w.peek(), ")") {
-		w.i++
-	} else {
-		for {
-			if !nameLike(w.peek()) {
-				return fail("a net name")
-			}
-			w.i++
-			if punctIs(w.peek(), "=") {
-				w.i++
-				if !nameLike(w.peek()) {
-					return fail("a net name after =")
-				}
-				w.i++
-			}
-			if punctIs(w.peek(), ")") {
-				w.i++
-				break
-			}
-			if !punctIs(w.peek(), ",") {
-				return fail(", or )")
-			}
-			w.i++
-		}
+	if e := w.nameList("a net name", true); e != "" {
+		return fail(e)
 	}
 	if punctIs(w.peek(), "[") {
 		return 0, "", false // block parameters: the hierarchy's grammar
@@ -227,6 +205,38 @@ func (w *walker) startsValue() bool {
 		t.Type == TokAttrWord && (t.Value == "open" || t.Value == "closed")
 }
 
+// nameList walks the names of a list just opened by "(" up to and past its
+// ")": what, one after another, separated by commas; with named, each may
+// be "name = name" (a pin bound by name). It returns what was expected
+// where the list goes wrong, or "".
+func (w *walker) nameList(what string, named bool) string {
+	if punctIs(w.peek(), ")") {
+		w.i++
+		return ""
+	}
+	for {
+		if !nameLike(w.peek()) {
+			return what
+		}
+		w.i++
+		if named && punctIs(w.peek(), "=") {
+			w.i++
+			if !nameLike(w.peek()) {
+				return what + " after ="
+			}
+			w.i++
+		}
+		if punctIs(w.peek(), ")") {
+			w.i++
+			return ""
+		}
+		if !punctIs(w.peek(), ",") {
+			return ", or )"
+		}
+		w.i++
+	}
+}
+
 // blockHeader walks block NAME (PIN, ...) [PARAM = VALUE, ...] {
 func (w *walker) blockHeader() (int, string, bool) {
 	fail := func(e string) (int, string, bool) { return w.i, e, true }
@@ -239,23 +249,8 @@ func (w *walker) blockHeader() (int, string, bool) {
 		return fail("( and the block's pins")
 	}
 	w.i++
-	if punctIs(w.peek(), ")") {
-		w.i++
-	} else {
-		for {
-			if !nameLike(w.peek()) {
-				return fail("a pin name")
-			}
-			w.i++
-			if punctIs(w.peek(), ")") {
-				w.i++
-				break
-			}
-			if !punctIs(w.peek(), ",") {
-				return fail(", or )")
-			}
-			w.i++
-		}
+	if e := w.nameList("a pin name", false); e != "" {
+		return fail(e)
 	}
 	if punctIs(w.peek(), "[") {
 		w.i++
