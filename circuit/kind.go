@@ -75,7 +75,39 @@ type KindInfo struct {
 	// of the port's net (port vin 5 V series 50 Ω), never as a part
 	// statement: its Word is no part kind's keyword.
 	OnPort bool
+	// Supply says which pins of a supply-like kind carry its rails; nil
+	// for a kind that drives no rail. The power tree of "nodal report"
+	// is drawn from it.
+	Supply *Supply
 }
+
+// Supply says which pins of a supply-like part carry its rails. A rail is
+// a net whose voltage the part holds against a reference net: its output.
+// A part that takes its power from another rail of the design (a
+// regulator) names that rail's pins as its input; one whose energy comes
+// from inside itself or from outside the design (a voltage source, a
+// battery, a port's voltage drive) has none. Pins are indices into the
+// kind's Pins.
+type Supply struct {
+	// Out is the pin that drives the output rail, OutRef the pin it is
+	// held against (ground, usually).
+	Out, OutRef int
+	// In is the pin that draws from the input rail and InRef its
+	// reference; both are NoPin for a part with no input rail.
+	In, InRef int
+}
+
+// NoPin marks a Supply with no input rail.
+const NoPin = -1
+
+// HasInput reports whether the part draws from another rail of the design.
+func (s *Supply) HasInput() bool { return s.In != NoPin }
+
+// ownSupply is the Supply of a two-pin part that drives its first pin
+// against its second and draws from no rail: a voltage source, a battery,
+// a port's voltage drive. A current source or current drive is not one: it
+// holds a current, not a rail's voltage.
+var ownSupply = &Supply{Out: 0, OutRef: 1, In: NoPin, InRef: NoPin}
 
 // Measure says which magnitude of an operating-point value a rating limits.
 type Measure uint8
@@ -271,7 +303,7 @@ var kinds = [numKinds]KindInfo{
 		ValueHint: ": a voltage in V (a voltage source) or a current in A (a current source)",
 		Attrs:     []string{"tol"},
 		Ratings:   []Rating{derated(Rating{Dim: units.Current, What: "current", Says: "is asked for %s"}, "supply-current", 0.90)},
-		DC:        func(*Part) DC { return DC{Model: VoltageDrop} }},
+		DC:        func(*Part) DC { return DC{Model: VoltageDrop} }, Supply: ownSupply},
 	CurrentSource: {Word: "source", Name: "current source", Pins: []string{"from", "to"},
 		Roles: []string{"the current enters the source here", "and leaves here"}, Value: units.Current,
 		Attrs:   []string{"tol"},
@@ -312,7 +344,7 @@ var kinds = [numKinds]KindInfo{
 			Says: "delivers %s", Of: "discharge rating"}, "supply-current", 0.90)},
 		// Its internal resistance is written as series; without one it is
 		// an ideal voltage.
-		DC: emfBehindSeries},
+		DC: emfBehindSeries, Supply: ownSupply},
 	CurrentLoad: {Word: "load", Name: "constant-current load", Pins: loadPins, Roles: loadRoles, Value: units.Current,
 		ValueHint: loadHint, Attrs: []string{"tol"}, Ratings: []Rating{ratedVoltage},
 		DC: func(*Part) DC { return DC{Model: CurrentFlow} }},
@@ -325,7 +357,7 @@ var kinds = [numKinds]KindInfo{
 	// stands for a supply the design does not contain.
 	VoltageDrive: {Word: "port", Name: "voltage drive", Pins: drivePins,
 		Roles: []string{"the value's volts above ground, behind series", "the design's ground"}, Value: units.Voltage,
-		ValueHint: driveHint, Attrs: []string{"series"}, DC: emfBehindSeries, OnPort: true},
+		ValueHint: driveHint, Attrs: []string{"series"}, DC: emfBehindSeries, OnPort: true, Supply: ownSupply},
 	// A current drive's pins are the other way round: its current flows
 	// out of ground through the drive and into the port's net.
 	CurrentDrive: {Word: "port", Name: "current drive", Pins: []string{"ground", "port"},
