@@ -56,12 +56,17 @@ type Net struct {
 	Inst int32
 }
 
-// Part is one built-in part. Every built-in kind has two pins; hierarchy is
-// flattened before a Design is made.
+// MaxPins is the most pins a built-in kind has. A part's first
+// len(Kind.Info().Pins) entries of Pins and PinPos are its pins, in the
+// order the kind lists them; the rest are unused (read them through Nets).
+const MaxPins = 3
+
+// Part is one built-in part; hierarchy is flattened before a Design is
+// made.
 type Part struct {
 	Kind Kind
 	Name string
-	Pins [2]NetID
+	Pins [MaxPins]NetID
 
 	// Value is the part's main value in SI units: Ω, F, H, V or A; for a
 	// fuse its rated current.
@@ -94,7 +99,7 @@ type Part struct {
 
 	Pos    diag.Pos // start of the statement
 	End    diag.Pos // end of the statement
-	PinPos [2]diag.Pos
+	PinPos [MaxPins]diag.Pos
 	// Inst is the instance this part was expanded from (an index into
 	// Design.Instances), or -1 for a part written at the top level.
 	Inst int32
@@ -195,7 +200,7 @@ func (d *Design) LookupNet(name string) NetID {
 
 // AddPart appends p, counts its pins on their nets, and returns its id.
 func (d *Design) AddPart(p Part) PartID {
-	for _, n := range p.Pins {
+	for _, n := range p.Nets() {
 		d.Nets[n].Pins++
 	}
 	d.Parts = append(d.Parts, p)

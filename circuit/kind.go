@@ -13,7 +13,8 @@ import (
 	"nodal/units"
 )
 
-// Kind is a built-in part kind. Every built-in part has two pins.
+// Kind is a built-in part kind. Most have two pins; a kind may have up to
+// MaxPins, its DC behaviour acting across two of them (Ends).
 type Kind uint8
 
 const (
@@ -45,6 +46,11 @@ type KindInfo struct {
 	// is for, in the words of the language reference.
 	Pins  []string
 	Roles []string
+	// Ends are the two pins DC acts across, first pin first, for a kind
+	// with more than two pins; a two-pin kind's are its pins 0 and 1. The
+	// topology rules and the rating function read a part's voltage and
+	// current across these two pins.
+	Ends [2]uint8
 	// Value is the unit of the part's value; None when the kind takes no
 	// quantity. Kinds that share a keyword are told apart by it.
 	Value units.Dim
@@ -365,6 +371,19 @@ var kinds = [numKinds]KindInfo{
 		ValueHint: driveHint, DC: func(*Part) DC { return DC{Model: CurrentFlow} }, OnPort: true},
 }
 
+func init() {
+	for k := range kinds {
+		ki := &kinds[k]
+		switch {
+		case len(ki.Pins) == 2:
+			ki.Ends = [2]uint8{0, 1}
+		case len(ki.Pins) > MaxPins || len(ki.Pins) < 2 || len(ki.Roles) != len(ki.Pins) ||
+			ki.Ends[0] == ki.Ends[1] || int(ki.Ends[0]) >= len(ki.Pins) || int(ki.Ends[1]) >= len(ki.Pins):
+			panic("circuit: kind " + ki.Word + " declares its pins wrongly")
+		}
+	}
+}
+
 // Kinds lists every built-in kind, in a fixed order.
 func Kinds() []Kind {
 	out := make([]Kind, numKinds)
@@ -459,6 +478,25 @@ func (k Kind) siblings(f func(sym, name string) string) string {
 	}
 	return strings.Join(out, " or ")
 }
+
+// Nets returns the nets of p's pins, in the order its kind lists them.
+func (p *Part) Nets() []NetID { return p.Pins[:len(kinds[p.Kind].Pins)] }
+
+// Ends returns the nets of the two pins p's DC behaviour acts across:
+// pins 0 and 1 of a two-pin part.
+func (p *Part) Ends() (a, b NetID) {
+	e := &kinds[p.Kind].Ends
+	return p.Pins[e[0]], p.Pins[e[1]]
+}
+
+// ShortedAcross reports whether both of p's ends are on one net.
+func (p *Part) ShortedAcross() bool {
+	a, b := p.Ends()
+	return a == b
+}
+
+// Multi reports whether p has more than two pins.
+func (p *Part) Multi() bool { return len(kinds[p.Kind].Pins) > 2 }
 
 // DC returns how p behaves at DC.
 func (p *Part) DC() DC { return kinds[p.Kind].DC(p) }

@@ -86,11 +86,12 @@ func plural(n int, noun string) string {
 // pins binds the statement's nets to the kind's pins, by position or name.
 func (b *builder) pins(p *Part, pt *grammar.Part, nets []NetID, info *KindInfo) bool {
 	word := pt.Kind.Text
-	if len(pt.Pins) != 2 {
-		b.report(CodePinCount, p.Pos, p.End, "%s %s has %s; %s has two: (%s, %s)", word, p.Name, plural(len(pt.Pins), "pin"), article(p.Kind.String()), info.Pins[0], info.Pins[1])
+	n := len(info.Pins)
+	if len(pt.Pins) != n {
+		b.report(CodePinCount, p.Pos, p.End, "%s %s has %s; %s has %s: (%s)", word, p.Name, plural(len(pt.Pins), "pin"), article(p.Kind.String()), countWord(n), strings.Join(info.Pins, ", "))
 		return false
 	}
-	var set [2]bool
+	var set [MaxPins]bool
 	for i, pin := range pt.Pins {
 		slot := i
 		if pin.Label != nil {
@@ -101,11 +102,11 @@ func (b *builder) pins(p *Part, pt *grammar.Part, nets []NetID, info *KindInfo) 
 				}
 			}
 			if slot < 0 {
-				b.report(CodePinCount, p.Pos, p.End, "%s %s has no pin named %q; its pins are %s and %s", word, p.Name, pin.Label.Text, info.Pins[0], info.Pins[1])
+				b.report(CodePinCount, p.Pos, p.End, "%s %s has no pin named %q; its pins are %s", word, p.Name, pin.Label.Text, andList(info.Pins))
 				return false
 			}
 		} else if i > 0 && pt.Pins[0].Label != nil {
-			b.report(CodePinCount, p.Pos, p.End, "%s %s mixes named and positional pins; name both (%s=…, %s=…) or neither", word, p.Name, info.Pins[0], info.Pins[1])
+			b.report(CodePinCount, p.Pos, p.End, "%s %s mixes named and positional pins; name %s (%s=…) or %s", word, p.Name, allOf(n), strings.Join(info.Pins, "=…, "), noneOf(n))
 			return false
 		}
 		if set[slot] {
@@ -117,6 +118,41 @@ func (b *builder) pins(p *Part, pt *grammar.Part, nets []NetID, info *KindInfo) 
 		p.PinPos[slot] = b.pos(pin.Net.Start())
 	}
 	return true
+}
+
+// countWord writes a small count in words: "two", "three".
+func countWord(n int) string {
+	if n >= 0 && n < len(countWords) {
+		return countWords[n]
+	}
+	return fmt.Sprint(n)
+}
+
+var countWords = []string{"none", "one", "two", "three", "four", "five", "six"}
+
+// allOf is "both" for two, "all three" for more.
+func allOf(n int) string {
+	if n == 2 {
+		return "both"
+	}
+	return "all " + countWord(n)
+}
+
+// noneOf is "neither" for two, "none" for more.
+func noneOf(n int) string {
+	if n == 2 {
+		return "neither"
+	}
+	return "none"
+}
+
+// andList joins names with commas and a last "and": "a and b", "in, out
+// and common".
+func andList(w []string) string {
+	if len(w) < 2 {
+		return strings.Join(w, "")
+	}
+	return strings.Join(w[:len(w)-1], ", ") + " and " + w[len(w)-1]
 }
 
 // article puts "a" or "an" before a kind: "an inductor", "a led" is

@@ -38,7 +38,7 @@ capacitors touch.`,
 			for _, s := range c.Sources {
 				q := &d.Parts[s]
 				dir := "out"
-				if inSet[int32(q.Pins[1])] {
+				if _, to := q.Ends(); inSet[int32(to)] {
 					dir = "in"
 				}
 				srcs = append(srcs, fmt.Sprintf("%s %s %s", q.Name, units.Format(q.Value, units.Current), dir))

@@ -102,7 +102,7 @@ func pinOwners(d *circuit.Design, nets []circuit.NetID) map[circuit.NetID]pinRef
 	}
 	out := make(map[circuit.NetID]pinRef, len(nets))
 	for i := range d.Parts {
-		for j, n := range d.Parts[i].Pins {
+		for j, n := range d.Parts[i].Nets() {
 			if want[n] {
 				out[n] = pinRef{circuit.PartID(i), j}
 			}

@@ -18,7 +18,8 @@ shorted across itself is an error: no current can make its voltage hold.`,
 		d := p.Design
 		for _, id := range topo(p).Shorted {
 			q := &d.Parts[id]
-			net := netName(d, q.Pins[0])
+			a, _ := q.Ends()
+			net := netName(d, a)
 			if q.DC().Model == circuit.VoltageDrop {
 				p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Severity: diag.Error, Subject: q.Name,
 					Message: q.Kind.String() + " " + q.Name + " (" + units.Format(q.Value, units.Voltage) + ") has both pins on net " + net + ": it is shorted across itself"})

@@ -19,8 +19,8 @@ func TestSolverVerdictsReachJudge(t *testing.T) {
 	a := d.Net("a", diag.NoPos, diag.NoPos)
 	g := d.Net("gnd", diag.NoPos, diag.NoPos)
 	d.Ground = g
-	d.AddPart(circuit.Part{Name: "R1", Kind: circuit.Resistor, Value: 10, RatedPower: 1, Pins: [2]circuit.NetID{a, g}, Inst: -1})
-	d.AddPart(circuit.Part{Name: "W1", Kind: circuit.Wire, RatedCurrent: 0.1, Pins: [2]circuit.NetID{a, g}, Inst: -1})
+	d.AddPart(circuit.Part{Name: "R1", Kind: circuit.Resistor, Value: 10, RatedPower: 1, Pins: [circuit.MaxPins]circuit.NetID{a, g}, Inst: -1})
+	d.AddPart(circuit.Part{Name: "W1", Kind: circuit.Wire, RatedCurrent: 0.1, Pins: [circuit.MaxPins]circuit.NetID{a, g}, Inst: -1})
 	r := &solve.Result{NetV: []float64{10, 0}, V: []float64{10, 0}, I: []float64{1, 0}, P: []float64{10, 0},
 		Uncertified: []bool{true, false}, Undetermined: []solve.Unknown{0, solve.UnknownCurrent}}
 	pt := NewPoint(r)

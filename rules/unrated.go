@@ -100,9 +100,9 @@ func whyUnknown(p *Pass, r *solve.Result, id circuit.PartID) string {
 	q := &d.Parts[id]
 	u := r.Undetermined[id]
 	if u&solve.UnknownVoltage != 0 {
-		n := q.Pins[0]
+		n, nb := q.Ends()
 		if r.Floating == nil || !r.Floating[n] {
-			n = q.Pins[1]
+			n = nb
 		}
 		return fmt.Sprintf("net %s has no DC path to ground, so the voltage across %s is not determined", netName(d, n), q.Name)
 	}

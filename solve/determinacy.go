@@ -231,7 +231,7 @@ func (m *model) parallelGroup(r *Result, parts []circuit.PartID) (ShortGroup, bo
 		if p.DC().Model != circuit.Short {
 			return g, false
 		}
-		switch p.Pins {
+		switch [2]circuit.NetID{p.Pins[0], p.Pins[1]} {
 		case [2]circuit.NetID{g.From, g.To}:
 			g.I += r.I[id]
 		case [2]circuit.NetID{g.To, g.From}:

@@ -28,7 +28,7 @@ func (b *builder) add(p circuit.Part, a, c string) circuit.PartID {
 	if p.Name == "" {
 		p.Name = fmt.Sprintf("X%d", b.n)
 	}
-	p.Pins = [2]circuit.NetID{b.net(a), b.net(c)}
+	p.Pins = [circuit.MaxPins]circuit.NetID{b.net(a), b.net(c)}
 	p.Inst = -1
 	return b.d.AddPart(p)
 }

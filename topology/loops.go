@@ -42,14 +42,14 @@ func findLoops(d *circuit.Design, r *Result) {
 	// the statements are written in (names are unique).
 	var order []circuit.PartID
 	for i := range d.Parts {
-		if p := &d.Parts[i]; p.IsVoltageDefining() && p.Pins[0] != p.Pins[1] {
+		if p := &d.Parts[i]; p.IsVoltageDefining() && !p.ShortedAcross() {
 			order = append(order, circuit.PartID(i))
 		}
 	}
 	sort.Slice(order, func(x, y int) bool { return d.Parts[order[x]].Name < d.Parts[order[y]].Name })
 	for _, i := range order {
-		p := &d.Parts[i]
-		a, b := int32(p.Pins[0]), int32(p.Pins[1])
+		na, nb := d.Parts[i].Ends()
+		a, b := int32(na), int32(nb)
 		if uf.union(a, b) {
 			link(a, b, i)
 			link(b, a, i)
@@ -70,8 +70,8 @@ func findLoops(d *circuit.Design, r *Result) {
 	}
 	var queue []int32
 	for _, i := range order {
-		p := &d.Parts[i]
-		for _, start := range p.Pins {
+		na, nb := d.Parts[i].Ends()
+		for _, start := range [2]circuit.NetID{na, nb} {
 			s := int32(start)
 			if depth[s] >= 0 || head[s] < 0 {
 				continue
@@ -100,8 +100,8 @@ func findLoops(d *circuit.Design, r *Result) {
 			r.LoopsLeft = len(closing) - MaxLoops
 			break
 		}
-		p := &d.Parts[c]
-		a, b := int32(p.Pins[0]), int32(p.Pins[1])
+		na, nb := d.Parts[c].Ends()
+		a, b := int32(na), int32(nb)
 		// The loop: a → (p) → b, then the forest path b → lca → a.
 		var up, down []Step // up: from b towards the lca; down: from a towards the lca
 		x, y := b, a
@@ -135,7 +135,7 @@ func findLoops(d *circuit.Design, r *Result) {
 			hasSource = true
 			// V(pos) − V(neg) = Value; a step from neg to pos rises by Value.
 			rise := q.Value
-			if s.From == q.Pins[0] {
+			if pos, _ := q.Ends(); s.From == pos {
 				rise = -rise
 			}
 			l.Sum += rise

@@ -82,7 +82,7 @@ type Result struct {
 	Cutsets   []Cutset
 
 	// Graph facts over all parts, with nets as vertices.
-	Branches   int // parts
+	Branches   int // parts, and a part with more pins one more per pin
 	Vertices   int // nets touched by at least one pin
 	Components int // connected pieces
 	// CycleRank is the number of independent loops, b − n + c.
@@ -119,7 +119,8 @@ func Analyze(d *circuit.Design) *Result {
 	dc := newUnionFind(n)
 	for i := range d.Parts {
 		p := &d.Parts[i]
-		a, b := int32(p.Pins[0]), int32(p.Pins[1])
+		na, nb := p.Ends()
+		a, b := int32(na), int32(nb)
 		if a == b {
 			r.Shorted = append(r.Shorted, circuit.PartID(i))
 		}
@@ -128,6 +129,19 @@ func Analyze(d *circuit.Design) *Result {
 		}
 		if p.ConductsDC() {
 			dc.union(a, b)
+		}
+		if p.Multi() {
+			// Its other pins are branches to its second end (a
+			// regulator's input is a load between input and common):
+			// they join the graph but give no DC path.
+			for _, n := range p.Nets() {
+				if n != na && n != nb {
+					r.Branches++
+					if !all.union(int32(n), b) {
+						r.CycleRank++
+					}
+				}
+			}
 		}
 	}
 	roots := 0
@@ -200,7 +214,8 @@ func findCutsets(d *circuit.Design, r *Result) {
 		if p.DC().Branch() != circuit.CurrentDefining {
 			continue
 		}
-		from, to := r.DCGroup[p.Pins[0]], r.DCGroup[p.Pins[1]]
+		a, b := p.Ends()
+		from, to := r.DCGroup[a], r.DCGroup[b]
 		if from == to {
 			continue
 		}

@@ -34,7 +34,7 @@ func design(n int, branches []br) *circuit.Design {
 		if v == 0 && e.kind == circuit.Resistor {
 			v = 1
 		}
-		d.AddPart(circuit.Part{Kind: e.kind, Name: fmt.Sprintf("P%d", i), Pins: [2]circuit.NetID{circuit.NetID(e.a), circuit.NetID(e.b)}, Value: v, Closed: e.closed, Inst: -1})
+		d.AddPart(circuit.Part{Kind: e.kind, Name: fmt.Sprintf("P%d", i), Pins: [circuit.MaxPins]circuit.NetID{circuit.NetID(e.a), circuit.NetID(e.b)}, Value: v, Closed: e.closed, Inst: -1})
 	}
 	return d
 }

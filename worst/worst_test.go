@@ -21,7 +21,7 @@ func newBuilder() *builder {
 }
 
 func (b *builder) add(k circuit.Kind, name, a, c string, v, tol float64) circuit.PartID {
-	return b.d.AddPart(circuit.Part{Kind: k, Name: name, Pins: [2]circuit.NetID{b.d.Net(a, 0, 0), b.d.Net(c, 0, 0)}, Value: v, Tol: tol, Inst: -1})
+	return b.d.AddPart(circuit.Part{Kind: k, Name: name, Pins: [circuit.MaxPins]circuit.NetID{b.d.Net(a, 0, 0), b.d.Net(c, 0, 0)}, Value: v, Tol: tol, Inst: -1})
 }
 
 func analyze(t *testing.T, d *circuit.Design, amb Ambient, j Judge, opt Options) *Result {
