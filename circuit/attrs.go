@@ -145,12 +145,12 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo, needs bool) b
 				p.Breakdown, p.BreakdownAt = v, at
 			}
 		case "rated":
-			if len(info.RatedDims()) == 0 {
+			if !takesRating(info, units.None, true) {
 				bad(CodeBadAttribute, "%s takes no rating: it stands for what the outside world connects, which the design does not contain", article(p.Kind.String()))
 				continue
 			}
 			for i, r := range qs {
-				if r.Percent || !containsDim(info.RatedDims(), r.Dim) {
+				if r.Percent || !takesRating(info, r.Dim, false) {
 					bad(um, "rated %s: %s is rated in %s", b.describe(a.Values[i]), article(p.Kind.String()), dimList(info.RatedDims()))
 					continue
 				}
@@ -217,9 +217,12 @@ func (b *builder) pointAttr(key string, a *grammar.Attr, q units.Quantity, um Co
 	return q.Value, aq.Value, true
 }
 
-func containsDim(list []units.Dim, d units.Dim) bool {
-	for _, x := range list {
-		if x == d {
+// takesRating reports whether the kind takes a written rating in d (any,
+// when anyDim is set): RatedDims without building its list, which would be
+// an allocation per rated part.
+func takesRating(info *KindInfo, d units.Dim, anyDim bool) bool {
+	for _, r := range info.Ratings {
+		if !r.FromValue && (anyDim || r.Dim == d) {
 			return true
 		}
 	}

@@ -27,30 +27,41 @@ func (b *builder) part(sc *scope, st *bodyStmt, nets []NetID) {
 		b.countOnly(nets)
 		return
 	}
-	p := Part{Kind: kind, Name: name, Pos: pos, End: end, Inst: sc.inst, Ideality: 0}
+	// The part is written where it will stay, at the end of the part
+	// table (reserved for the whole design), and taken back if it cannot
+	// be placed: a Part built on the side would be a heap object per part,
+	// as the attribute table's setters take its address.
+	d.Parts = append(d.Parts, Part{Kind: kind, Name: name, Pos: pos, End: end, Inst: sc.inst})
+	p := &d.Parts[len(d.Parts)-1]
+	drop := func() {
+		d.Parts = d.Parts[:len(d.Parts)-1]
+		b.countOnly(nets)
+	}
 
 	// Value first: for a source its unit decides the kind, and so the pins.
-	valueOK := b.value(&p, pt)
+	valueOK := b.value(p, pt)
 	if !valueOK {
 		b.r.Invalid = true
 		if p.Kind.shared() {
 			// Without a usable value a source is neither kind: its
 			// pins cannot be placed.
-			b.countOnly(nets)
+			drop()
 			return
 		}
 	}
 	info := p.Kind.Info()
-	if !b.pins(&p, pt, nets, info) {
-		b.countOnly(nets)
+	if !b.pins(p, pt, nets, info) {
+		drop()
 		return
 	}
 	// A refused value has said what the kind needs instead.
-	if !b.attrs(&p, pt, info, valueOK || pt.Value == nil) {
+	if !b.attrs(p, pt, info, valueOK || pt.Value == nil) {
 		b.r.Invalid = true
 	}
 	b.count++
-	d.AddPart(p)
+	for _, n := range p.Pins {
+		d.Nets[n].Pins++ // as AddPart counts them
+	}
 }
 
 // countOnly counts a statement's nets as used even though the statement
