@@ -51,6 +51,10 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo, needs bool) b
 		key := a.Key.Text
 		apos, aend = b.attrSpan(a)
 		kinds, knownAttr := attrKinds[key]
+		if key == "to" {
+			toAttr(p, a, bad)
+			continue
+		}
 		if !knownAttr {
 			bad(CodeBadAttribute, "unknown attribute %q; %s", key, takes(p.Kind))
 			continue

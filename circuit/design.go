@@ -129,6 +129,10 @@ type Design struct {
 	// Ambient is the ambient temperature the design states; its Set is
 	// false when it states none.
 	Ambient Ambient
+	// DriveRanges lists the ports' drives written as a range (port vin
+	// 4.5 V to 5.5 V), in the order their parts were placed; each part's
+	// Value is its range's midpoint.
+	DriveRanges []DriveRange
 
 	netIndex map[string]NetID
 }

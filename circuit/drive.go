@@ -1,14 +1,16 @@
 package circuit
 
 // drive.go: what a port statement says drives its net from outside
-// (port vin 5 V series 50 Ω, port sense 2 mA), made into a part of the
-// kind VoltageDrive or CurrentDrive between the net and ground. Drives are
-// placed after every top-level statement is read, so that the ground they
-// stand on may be declared anywhere in the file.
+// (port vin 5 V series 50 Ω, port sense 2 mA, port vin 4.5 V to 5.5 V),
+// made into a part of the kind VoltageDrive or CurrentDrive between the
+// net and ground. Drives are placed after every top-level statement is
+// read, so that the ground they stand on may be declared anywhere in the
+// file.
 
 import (
 	"nodal/diag"
 	"nodal/grammar"
+	"nodal/units"
 )
 
 // pendingDrive is a port statement that states a drive.
@@ -76,6 +78,17 @@ func (b *builder) drives(ports []pendingDrive) {
 			b.r.Invalid = true
 			continue
 		}
+		// A range is read first: its ends in one unit, the bottom first.
+		// The part is then placed at its bottom, whose unit says which
+		// drive it is, and moved to the midpoint.
+		var low, high units.Quantity
+		if pt.DriveHigh != nil {
+			var ok bool
+			if low, high, ok = b.quantityRange(pt.Drive, pt.DriveHigh, "port "+name); !ok {
+				b.r.Invalid = true
+				continue
+			}
+		}
 		// The drive as the part statement it stands for, its pins named
 		// so that either kind binds them in its own order.
 		stmt := &grammar.Part{
@@ -90,7 +103,11 @@ func (b *builder) drives(ports []pendingDrive) {
 			Attrs: pt.Attrs,
 		}
 		id := d.Net(name, b.pos(first.Start()), b.nameEnd(first))
+		placed := len(d.Parts)
 		b.part(&scope{blk: b.top, inst: -1}, &bodyStmt{pt: stmt, pos: pd.pos, end: pd.end, kind: VoltageDrive}, []NetID{id, d.Ground})
+		if pt.DriveHigh != nil && len(d.Parts) > placed {
+			b.driveRange(low, high)
+		}
 	}
 }
 

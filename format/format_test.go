@@ -79,6 +79,7 @@ func TestLayout(t *testing.T) {
 		{"   resistor R1 (a  b\n", "resistor R1 (a  b\n"},                                      // broken: kept as written
 		{"resistor R1 (a, b) 1 kΩ\r\nground gnd\r\n", "resistor R1 (a, b) 1 kΩ\nground gnd\n"}, // CRLF
 		{"", ""},
+		{"port  vin 4.5 V   to 5.5V series 50 Ω\nport loop 4 mA to -20 mA\n", "port vin 4.5 V to 5.5V series 50 Ω\nport loop 4 mA to -20 mA\n"}, // a drive's range
 		{"# only\n", "# only\n"},
 		{"resistor R1 (a, b) 1 kΩ\n  # why\nresistor R222 (a, b) 1 kΩ\n",
 			"resistor R1   (a, b) 1 kΩ\n# why\nresistor R222 (a, b) 1 kΩ\n"},

@@ -42,11 +42,13 @@ type Ground struct {
 // Port lists nets that leave the file and may have a single pin. A port
 // of one net may say what drives it from outside: a voltage, with an
 // optional source resistance (port vin 5 V series 50 Ω), or a current
-// (port sense 2 mA).
+// (port sense 2 mA); or a range of either, LOW to HIGH, DriveHigh being
+// its top (port vin 4.5 V to 5.5 V series 50 Ω).
 type Port struct {
-	Nets  []*Name `parser:"@@ ( \",\" @@ )*"`
-	Drive *Value  `parser:"@@?"`
-	Attrs []*Attr `parser:"@@*"`
+	Nets      []*Name `parser:"@@ ( \",\" @@ )*"`
+	Drive     *Value  `parser:"( @@"`
+	DriveHigh *Value  `parser:"  ( \"to\" @@ )? )?"`
+	Attrs     []*Attr `parser:"@@*"`
 }
 
 // Ambient states the design's ambient temperature, or its range:

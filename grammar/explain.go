@@ -77,10 +77,30 @@ func explain(toks []lexer.Token) (at int, expect string, ok bool) {
 				return 0, "", false
 			}
 			if !punctIs(w.peek(), ",") {
-				return fail(", or end of line")
+				break
 			}
 			w.i++
 		}
+		// A drive: a value, a range of values, attributes.
+		if t := w.peek(); t.Type == TokIdent && t.Value == "to" {
+			return fail("the bottom of the range before to (port vin 4.5 V to 5.5 V)")
+		}
+		if !w.startsValue() {
+			return fail(", or end of line, or what drives the port (port vin 5 V series 50 Ω, port vin 4.5 V to 5.5 V)")
+		}
+		if at, e, ok := w.value(true); ok {
+			return at, e, ok
+		}
+		if w.peek().Type == TokIdent && w.peek().Value == "to" {
+			w.i++
+			if !w.startsValue() {
+				return fail("the top of the range after to (port vin 4.5 V to 5.5 V)")
+			}
+			if at, e, ok := w.value(true); ok {
+				return at, e, ok
+			}
+		}
+		return w.attrs(true)
 	case t.Type == TokKeyword && t.Value == "include":
 		w.i++
 		if w.peek().Type != TokString {
@@ -156,7 +176,13 @@ func (w *walker) part() (int, string, bool) {
 	if at, e, ok := w.value(false); ok {
 		return at, e, ok
 	}
-	// Attributes.
+	return w.attrs(hasValue)
+}
+
+// attrs walks a statement's attributes up to the end of the line;
+// hasValue says a value came before them.
+func (w *walker) attrs(hasValue bool) (int, string, bool) {
+	fail := func(e string) (int, string, bool) { return w.i, e, true }
 	lastKey, lastHadValues := "", false
 	for !w.eol() {
 		t := w.peek()

@@ -116,7 +116,7 @@ var vocabulary = []string{
 	"(", ")", ",", "=", "[", "]", "{", "}", "+", "-", "*", "/",
 	"12", "4.7", "1e3", "4k7", "R47", "2R2", "100nF", "1%", "-3", ".5", "10meg",
 	"Ω", "kΩ", "mA", "V", "W", "%", "ohm", "µH",
-	"tol", "rated", "vf", "at", "ideality", "series", "dcr", "open", "closed",
+	"tol", "rated", "vf", "at", "to", "ideality", "series", "dcr", "open", "closed",
 	"design", "ground", "port", "include", "block", "param",
 	"é", "\xff", "#", "# note", "$",
 }

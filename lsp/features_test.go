@@ -317,3 +317,24 @@ func TestHoverWorstCase(t *testing.T) {
 		t.Errorf("hover on tap without its range:\n%s", h)
 	}
 }
+
+// TestHoverDriveRange: on a port whose drive is a range, hover says the
+// range, the middle it is solved at, and the net's range. The port sits
+// behind no resistance here, so its net spans the drive's range exactly.
+func TestHoverDriveRange(t *testing.T) {
+	s := newSession(t, Options{})
+	s.initialize()
+	src := "ground gnd\nport vin 4.5 V to 5.5 V\nresistor R1 (vin, gnd) 1 kΩ\nport vb 2 V series 10 Ω\nresistor R2 (vb, gnd) 1 kΩ\n"
+	u := s.write("r.nodal", src)
+	s.open(u, src)
+	s.diagnostics(u, 1)
+	h := hoverText(t, s, u, pos(t, src, "vin", 0, 0))
+	for _, want := range []string{"voltage drive of 4\\.50 V to 5\\.50 V", "5\\.00 V", "from 4\\.50 V to 5\\.50 V over the tolerances and drive ranges"} {
+		if !strings.Contains(h, want) {
+			t.Errorf("hover on vin lacks %q:\n%s", want, h)
+		}
+	}
+	if h := hoverText(t, s, u, pos(t, src, "vb", 0, 0)); !strings.Contains(h, "voltage drive of 2\\.00 V behind 10\\.0 Ω") {
+		t.Errorf("hover on vb:\n%s", h)
+	}
+}

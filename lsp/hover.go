@@ -176,15 +176,42 @@ func (s *Server) hoverNet(b *strings.Builder, doc indexed, n *netRef, last *snap
 	}
 	if net.Port {
 		b.WriteString(", a port")
+		hoverDrive(b, d, id)
 	}
 	if sv := last.res.Solved; sv != nil && sv.OP != nil && int(id) < len(sv.OP.NetV) {
 		fmt.Fprintf(b, "; %s at the operating point", md(units.Format(rules.NewPoint(sv.OP).Net(id), units.Voltage)))
 		if wr := last.res.Worst; wr != nil && wr.R != nil && int(id) < len(wr.R.NetLow) && int(id) < len(wr.R.NetHigh) {
-			fmt.Fprintf(b, ", from %s to %s over the tolerances", md(units.Format(wr.R.NetLow[id], units.Voltage)), md(units.Format(wr.R.NetHigh[id], units.Voltage)))
+			over := "the tolerances"
+			if len(d.DriveRanges) > 0 {
+				over = "the tolerances and drive ranges"
+			}
+			fmt.Fprintf(b, ", from %s to %s over %s", md(units.Format(wr.R.NetLow[id], units.Voltage)), md(units.Format(wr.R.NetHigh[id], units.Voltage)), over)
 		}
 		b.WriteString("\n")
 	} else {
 		b.WriteString("; no operating point (the design was not solved; see the findings)\n")
+	}
+}
+
+// hoverDrive says what drives port net id, if its port states a drive:
+// its value or range, and its source resistance.
+func hoverDrive(b *strings.Builder, d *circuit.Design, id circuit.NetID) {
+	for i := range d.Parts {
+		p := &d.Parts[i]
+		info := p.Kind.Info()
+		if !info.OnPort || p.Inst >= 0 || p.Pins[0] != id && p.Pins[1] != id {
+			continue
+		}
+		if r, ok := d.RangeOf(circuit.PartID(i)); ok {
+			fmt.Fprintf(b, ", driven by a %s of %s to %s (solved at its middle, %s)", md(p.Kind.String()),
+				md(units.Format(r.Low, info.Value)), md(units.Format(r.High, info.Value)), md(units.Format(p.Value, info.Value)))
+		} else {
+			fmt.Fprintf(b, ", driven by a %s of %s", md(p.Kind.String()), md(units.Format(p.Value, info.Value)))
+		}
+		if p.Series > 0 {
+			fmt.Fprintf(b, " behind %s", md(units.Format(p.Series, units.Resistance)))
+		}
+		return
 	}
 }
 

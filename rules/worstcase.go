@@ -131,7 +131,8 @@ var CornerOverRating = &Analyzer{
 	Requires: []*Analyzer{Solve, WorstCase},
 	Doc: `a part within its rating at nominal values is past it at the worst corner of tolerances and temperature
 Every part written with tol (resistors, sources, batteries and loads) may sit anywhere in its
-band, and the ambient temperature anywhere in its range; each rating is
+band, a port's drive written as a range (port vin 4.5 V to 5.5 V) anywhere in
+it, and the ambient temperature anywhere in its range; each rating is
 judged at its worst over all of them together, and the finding names the
 corner that reaches it. A part past a rating at nominal already has its
 over-power, over-current, over-voltage, reverse-voltage or over-temperature

@@ -204,25 +204,29 @@ func (j *jacobian) rhs(f []float64, p Param, orig []circuit.Part) {
 		case circuit.VoltageSource:
 			// branch row V_a − V_b − E = 0, ∂/∂s = −E·tol
 			f[j.branch[i]] += q.Value * p.Tol
-		case circuit.CurrentSource, circuit.CurrentLoad:
-			// Both carry their value from their first pin to their
-			// second.
-			inj(a, q.Value*p.Tol)
-			inj(b, -q.Value*p.Tol)
+		case circuit.CurrentSource, circuit.CurrentLoad, circuit.CurrentDrive:
+			// All three carry their value from their first pin to
+			// their second.
+			inj(a, p.step(q))
+			inj(b, -p.step(q))
 		case circuit.PowerLoad:
 			// I = P/V: ∂I/∂s = P·tol/V at the operating point
 			if v := r.V[i]; v != 0 {
 				inj(a, q.Value*p.Tol/v)
 				inj(b, -q.Value*p.Tol/v)
 			}
-		case circuit.Battery:
+		case circuit.Battery, circuit.VoltageDrive:
+			// An EMF E behind its series resistance, or an ideal one;
+			// one unit of s moves E by dE (E·tol, or half a drive's
+			// range).
+			dE := p.step(q)
 			if k := j.branch[i]; k >= 0 {
-				// an ideal battery's branch row, as a voltage source's
-				f[k] += q.Value * p.Tol
+				// an ideal EMF's branch row, as a voltage source's
+				f[k] += dE
 			} else if dc := q.DC(); dc.Model == circuit.Conductance {
-				// I = (V − E)/R: ∂I/∂s = −E·tol/R
-				inj(a, -q.Value*p.Tol/dc.R)
-				inj(b, q.Value*p.Tol/dc.R)
+				// I = (V − E)/R: ∂I/∂s = −dE/R
+				inj(a, -dE/dc.R)
+				inj(b, dE/dc.R)
 			}
 		}
 		return
@@ -281,10 +285,10 @@ func (j *jacobian) partDeltas(dx []float64, p Param, orig []circuit.Part, dv, di
 			if q.DCR > 0 {
 				di[i] = v / q.DCR
 			}
-		case circuit.CurrentSource, circuit.CurrentLoad:
+		case circuit.CurrentSource, circuit.CurrentLoad, circuit.CurrentDrive:
 			di[i] = 0
 			if p.Part == circuit.PartID(i) {
-				di[i] = q.Value * p.Tol
+				di[i] = p.step(q)
 			}
 		case circuit.PowerLoad:
 			di[i] = j.gd[i] * v
@@ -304,8 +308,8 @@ func (j *jacobian) partDeltas(dx []float64, p Param, orig []circuit.Part, dv, di
 			di[i] = 0
 			if dc := q.DC(); dc.Model == circuit.Conductance {
 				di[i] = v / dc.R
-				if p.Part == circuit.PartID(i) && q.Kind == circuit.Battery {
-					di[i] -= q.Value * p.Tol / dc.R
+				if p.Part == circuit.PartID(i) && (q.Kind == circuit.Battery || q.Kind == circuit.VoltageDrive) {
+					di[i] -= p.step(q) / dc.R
 				}
 			}
 		}
