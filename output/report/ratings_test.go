@@ -206,3 +206,34 @@ func TestBatteryRuntime(t *testing.T) {
 		t.Errorf("battery section:\n%s", out)
 	}
 }
+
+// TestReportNamesDriveRanges: where a port's drive is a range, the nets'
+// ranges and the worst case cover it, and the report's headings say so;
+// without one they name tolerances and temperature only. The tap of a
+// divider behind 4.5 V to 5.5 V through 1 kΩ over 1 kΩ spans 2.25 V to
+// 2.75 V (voltage division at the range's ends).
+func TestReportNamesDriveRanges(t *testing.T) {
+	text := func(src string) string {
+		res, err := check.Source("t.nodal", []byte(src), nil)
+		if err != nil || res.Worst == nil || res.Worst.R == nil {
+			t.Fatalf("%q: %v, no worst case", src, err)
+		}
+		tb := report.New("t.nodal", res.Build.Design, res.Solved.OP, rules.DefaultDerating())
+		tb.AddWorst(res.Build.Design, res.Worst.R, rules.DefaultDerating())
+		var b strings.Builder
+		if err := tb.WriteText(&b, report.TextOptions{}); err != nil {
+			t.Fatal(err)
+		}
+		return b.String()
+	}
+	got := text("ground gnd\nport vin 4.5 V to 5.5 V\nresistor R1 (vin, tap) 1 kΩ rated 10 mW\nresistor R2 (tap, gnd) 1 kΩ\n")
+	for _, want := range []string{"range over tolerances, drive ranges and temperature", "2.25 V … 2.75 V", "Worst case over tolerances, drive ranges and temperature", "port vin at 5.50 V (top of its range)"} {
+		if !strings.Contains(got, want) {
+			t.Errorf("report lacks %q:\n%s", want, got)
+		}
+	}
+	got = text("ground gnd\nport vin 5 V\nresistor R1 (vin, tap) 1 kΩ tol 1%\nresistor R2 (tap, gnd) 1 kΩ\n")
+	if strings.Contains(got, "drive ranges") || !strings.Contains(got, "range over tolerances and temperature") {
+		t.Errorf("report without a drive range:\n%s", got)
+	}
+}

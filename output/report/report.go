@@ -137,6 +137,9 @@ type Table struct {
 	// temperature, found at every corner when RangeCorners, to first
 	// order otherwise.
 	HasRanges, RangeCorners bool
+	// DriveRanges says a port's drive is written as a range, which the
+	// nets' ranges and the worst case cover too.
+	DriveRanges bool `json:"-"`
 	// Groups are the groups of ideal shorts in parallel, by the name of
 	// their first member.
 	Groups []Group

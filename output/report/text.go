@@ -83,7 +83,7 @@ func (t *Table) WriteText(w io.Writer, opt TextOptions) error {
 	bw.WriteString("Nets\n")
 	nets := [][]string{{"net", "voltage"}}
 	if t.HasRanges {
-		nets[0] = append(nets[0], "range over tolerances and temperature")
+		nets[0] = append(nets[0], "range over "+t.box())
 	}
 	unknown := false
 	for _, n := range t.Nets {
@@ -104,7 +104,7 @@ func (t *Table) WriteText(w io.Writer, opt TextOptions) error {
 	writeColumns(bw, nets, []bool{false, true, false}[:len(nets[0])], nil)
 	if t.HasRanges {
 		if t.RangeCorners {
-			bw.WriteString("Ranges are the extremes over every corner of the tolerances and temperature.\n")
+			bw.WriteString("Ranges are the extremes over every corner of the " + t.box() + ".\n")
 		} else {
 			bw.WriteString("Ranges are first-order estimates from the sensitivities at the nominal point.\n")
 		}

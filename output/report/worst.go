@@ -23,6 +23,7 @@ func (t *Table) AddWorst(d *circuit.Design, w *worst.Result, der rules.Derating)
 	}
 	t.RangeCorners = w.Corners
 	t.HasRanges = true
+	t.DriveRanges = len(d.DriveRanges) > 0
 	byName := make(map[string]circuit.NetID, len(d.Nets))
 	for i := range d.Nets {
 		byName[d.Nets[i].Name] = circuit.NetID(i)
@@ -78,11 +79,20 @@ func writeWorst(bw *bufio.Writer, t *Table) {
 		return
 	}
 	sort.SliceStable(ps, func(a, b int) bool { return ps[a].WorstUse > ps[b].WorstUse })
-	bw.WriteString("\nWorst case over tolerances and temperature\n")
+	bw.WriteString("\nWorst case over " + t.box() + "\n")
 	rows := [][]string{{"part", "nominal", "worst", "at"}}
 	for _, p := range ps {
 		u, _ := p.Use()
 		rows = append(rows, []string{output.LineSafe(p.Name), units.FormatPercent(u), units.FormatPercent(p.WorstUse), p.WorstAt})
 	}
 	writeColumns(bw, rows, []bool{false, true, true, false}, nil)
+}
+
+// box names what the worst case varies: the tolerances and the
+// temperature, and the ports' drive ranges where a design has any.
+func (t *Table) box() string {
+	if t.DriveRanges {
+		return "tolerances, drive ranges and temperature"
+	}
+	return "tolerances and temperature"
 }
