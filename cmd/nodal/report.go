@@ -46,6 +46,16 @@ both are null for a part with no rating. A battery with a capacity also has
 "runtime" (in seconds): capacity ÷ discharge current, a simple estimate
 that ignores the discharge rate, temperature, age and cut-off voltage.
 
+After the parts comes the power tree ("rails" in JSON): each supply (a
+kind that holds a rail's voltage: a voltage source, a battery, a port's
+voltage drive) with the rail it holds, what it delivers into it and the
+share of its rating, where its power comes from (its own, or the rail it
+draws from), what it loses and how efficiently; then, one branch each, the
+supplies whose input is on that rail and every other part with a pin on
+it, with the current it takes there, worst use of a rating first. Nets
+tied to a rail by ideal shorts (wires, closed switches) are part of it.
+"off_rail" counts the parts that touch no rail.
+
 Values the circuit does not fix (a section with no DC path to ground, the
 current around a loop of ideal shorts and voltage sources) are shown as
 "undetermined" (in JSON, listed in a part's "undetermined" and read as 0),

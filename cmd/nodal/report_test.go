@@ -48,6 +48,98 @@ type reportDoc struct {
 		Capacity float64 `json:"capacity"`
 		Runtime  float64 `json:"runtime"`
 	} `json:"parts"`
+	// The power tree.
+	Rails   []*reportSupply `json:"rails"`
+	OffRail int             `json:"off_rail"`
+}
+
+// reportSupply is one supply of the power tree in the JSON form.
+type reportSupply struct {
+	Name, Kind, Rail, Reference string
+	Judged                      bool
+	Voltage, Current, Power     float64
+	Use                         *float64
+	Limit                       *string
+	Input                       *struct {
+		Rail           string
+		Current, Power float64
+		Fed            bool
+	}
+	Taken, Loss  float64
+	Efficiency   *float64
+	Undetermined []string
+	ListedUnder  string `json:"listed_under"`
+	Repeated     bool
+	InLoop       bool `json:"in_loop"`
+	Feeds        []*reportSupply
+	Loads        []struct {
+		Name, Kind     string
+		Current, Power float64
+		Towards        []string
+		Use            *float64
+		Limit          *string
+		Undetermined   []string
+	}
+}
+
+// checkRails checks the power tree against the parts: every supply
+// delivers what its part's current and power say (the sign convention of
+// "nodal report --help"), takes what it delivers plus what it loses
+// (energy balance), and the parts and supplies its rail feeds take what it
+// delivers (Kirchhoff's current law), to the ten figures JSON keeps.
+func checkRails(t *testing.T, doc *reportDoc) {
+	t.Helper()
+	power := map[string]float64{}
+	for _, p := range doc.Parts {
+		if p.Power != nil {
+			power[p.Name] = *p.Power
+		}
+	}
+	onRail := map[string]float64{} // what the supplies listing each rail deliver
+	var walk func(ss []*reportSupply)
+	walk = func(ss []*reportSupply) {
+		for _, s := range ss {
+			if !s.Judged || len(s.Undetermined) > 0 || s.Repeated {
+				continue
+			}
+			if !relNear(s.Power, -power[s.Name], 1e-8) {
+				t.Errorf("supply %s delivers %v W, its part absorbs %v W", s.Name, s.Power, power[s.Name])
+			}
+			if math.Abs(s.Taken-s.Power-s.Loss) > 1e-8*math.Max(math.Abs(s.Taken), 1e-12) {
+				t.Errorf("supply %s takes %v W, delivers %v W, loses %v W", s.Name, s.Taken, s.Power, s.Loss)
+			}
+			key := s.Name
+			if s.ListedUnder != "" {
+				key = s.ListedUnder
+			}
+			onRail[key] += s.Current
+			walk(s.Feeds)
+		}
+	}
+	walk(doc.Rails)
+	var sums func(ss []*reportSupply)
+	sums = func(ss []*reportSupply) {
+		for _, s := range ss {
+			if !s.Judged || len(s.Undetermined) > 0 || s.Repeated || s.ListedUnder != "" {
+				continue
+			}
+			taken, scale := 0.0, math.Abs(onRail[s.Name])
+			for _, l := range s.Loads {
+				taken += l.Current
+				scale = math.Max(scale, math.Abs(l.Current))
+			}
+			for _, f := range s.Feeds {
+				if f.Input != nil {
+					taken += f.Input.Current
+				}
+			}
+			if math.Abs(taken-onRail[s.Name]) > 1e-8*math.Max(scale, 1e-12) {
+				t.Errorf("rail %s: its parts take %v A, its supplies deliver %v A", s.Rail, taken, onRail[s.Name])
+			}
+			sums(s.Feeds)
+		}
+	}
+	sums(doc.Rails)
 }
 
 func parseReport(t *testing.T, out string) *reportDoc {
@@ -143,7 +235,9 @@ func TestReportGoldens(t *testing.T) {
 					t.Error("colour codes off a terminal")
 				}
 				if form == "json" {
-					checkUses(t, parseReport(t, out))
+					doc := parseReport(t, out)
+					checkUses(t, doc)
+					checkRails(t, doc)
 				}
 				if *update {
 					if err := os.MkdirAll(golden, 0o755); err != nil {

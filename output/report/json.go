@@ -15,6 +15,121 @@ type jsonDoc struct {
 	// Groups are the groups of ideal shorts in parallel, with the current
 	// they carry together; omitted when there are none.
 	Groups []jsonGroup `json:"groups,omitempty"`
+	// Rails is the power tree (see Table.Rails), and OffRail how many
+	// parts touch no rail; omitted when the design has no supply.
+	Rails   []*jsonSupply `json:"rails,omitempty"`
+	OffRail int           `json:"off_rail,omitempty"`
+}
+
+// jsonSupply is one supply in the power tree. Figures the circuit does not
+// fix read 0 and are listed in undetermined; a supply whose flow could not
+// be judged has judged false and its figures read 0.
+type jsonSupply struct {
+	Name      string `json:"name"`
+	Kind      string `json:"kind"`
+	Rail      string `json:"rail"`
+	Reference string `json:"reference"`
+	Judged    bool   `json:"judged"`
+	// Voltage is the rail's, Current and Power what the supply delivers
+	// into it.
+	Voltage float64 `json:"voltage"`
+	Current float64 `json:"current"`
+	Power   float64 `json:"power"`
+	// Use and Limit as for a part: its worst rating, null without one.
+	Use   *float64 `json:"use"`
+	Limit *string  `json:"limit"`
+	// Input is the rail it draws from, null for a supply that draws from
+	// none; Taken the power it converts (from its input, or of its own),
+	// Loss what it dissipates, Efficiency Power ÷ Taken (null when it
+	// converts nothing).
+	Input        *jsonInput `json:"input"`
+	Taken        float64    `json:"taken"`
+	Loss         float64    `json:"loss"`
+	Efficiency   *float64   `json:"efficiency"`
+	Undetermined []string   `json:"undetermined,omitempty"`
+	// ListedUnder names the supply that lists the parts of a rail shared
+	// with it; Repeated marks a supply met again round a loop of supplies
+	// (drawn in full where it first appears), InLoop where a loop is
+	// first drawn.
+	ListedUnder string        `json:"listed_under,omitempty"`
+	Repeated    bool          `json:"repeated,omitempty"`
+	InLoop      bool          `json:"in_loop,omitempty"`
+	Feeds       []*jsonSupply `json:"feeds"`
+	Loads       []jsonLoad    `json:"loads"`
+}
+
+type jsonInput struct {
+	Rail    string  `json:"rail"`
+	Current float64 `json:"current"`
+	Power   float64 `json:"power"`
+	// Fed is false when no supply drives the input's net.
+	Fed bool `json:"fed"`
+}
+
+// jsonLoad is a part on a rail: the current it takes there, its own power.
+type jsonLoad struct {
+	Name         string   `json:"name"`
+	Kind         string   `json:"kind"`
+	Current      float64  `json:"current"`
+	Power        float64  `json:"power"`
+	Towards      []string `json:"towards,omitempty"`
+	Use          *float64 `json:"use"`
+	Limit        *string  `json:"limit"`
+	Undetermined []string `json:"undetermined,omitempty"`
+}
+
+// jsonUse returns a use and its rating's key, or nils.
+func jsonUse(u Rating, ok bool) (*float64, *string) {
+	if !ok {
+		return nil, nil
+	}
+	f, k := round(u.Frac), key(u.What)
+	return &f, &k
+}
+
+// unknowns lists the values a voltage and a current the circuit does not
+// fix leave open.
+func unknowns(v, c bool) []string {
+	var out []string
+	if v {
+		out = append(out, "voltage")
+	}
+	if c {
+		out = append(out, "current")
+	}
+	if v || c {
+		out = append(out, "power")
+	}
+	return out
+}
+
+func railJSON(s *Supply) *jsonSupply {
+	f := &s.Flow
+	j := &jsonSupply{Name: s.Name, Kind: s.Kind.String(), Rail: s.Rail, Reference: s.Ref, Judged: s.Judged,
+		ListedUnder: s.Alongside, Repeated: s.Loop, InLoop: s.InLoop, Feeds: []*jsonSupply{}, Loads: []jsonLoad{}}
+	if s.Judged {
+		j.Voltage, j.Current, j.Power = round(f.VOut), round(f.IOut), round(f.POut)
+		j.Taken, j.Loss = round(f.Taken), round(f.Loss)
+		if f.HasEfficiency {
+			e := round(f.Efficiency)
+			j.Efficiency = &e
+		}
+		j.Undetermined = unknowns(f.VoltageUnknown, f.CurrentUnknown)
+	}
+	if s.Input != "" {
+		j.Input = &jsonInput{Rail: s.Input, Current: round(f.IIn), Power: round(f.PIn), Fed: !s.Unfed}
+	}
+	j.Use, j.Limit = jsonUse(s.Use, s.HasUse)
+	for _, c := range s.Feeds {
+		j.Feeds = append(j.Feeds, railJSON(c))
+	}
+	for _, l := range s.Loads {
+		jl := jsonLoad{Name: l.Name, Kind: l.Kind.String(), Current: round(l.Current), Power: round(l.Power),
+			Towards: l.Towards, Undetermined: unknowns(l.VoltageUnknown, l.CurrentUnknown)}
+		jl.Use, jl.Limit = jsonUse(l.Use, l.HasUse)
+		j.Loads = append(j.Loads, jl)
+	}
+	return j
 }
 
 type jsonNet struct {
@@ -104,6 +219,12 @@ func (t *Table) WriteJSON(w io.Writer) error {
 	}
 	for _, g := range t.Groups {
 		doc.Groups = append(doc.Groups, jsonGroup{Parts: g.Parts, Current: round(g.Current)})
+	}
+	for _, s := range t.Rails {
+		doc.Rails = append(doc.Rails, railJSON(s))
+	}
+	if doc.Rails != nil {
+		doc.OffRail = t.OffRail
 	}
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")

@@ -17,6 +17,12 @@
 // fuse's current against its value. A part's use is the largest of those
 // fractions; parts are listed worst first, and parts with no rating last,
 // in the order the design gives them.
+//
+// # Power tree
+//
+// The rails section (rails.go) draws every supply-like part (its kind's
+// Supply in the kinds table), the rail it holds, and the supplies and
+// parts that rail feeds, with the figures of rules.SupplyFlow.
 package report
 
 import (
@@ -143,6 +149,11 @@ type Table struct {
 	// Groups are the groups of ideal shorts in parallel, by the name of
 	// their first member.
 	Groups []Group
+	// Rails is the power tree (rails.go): the supplies fed by no other,
+	// by name, each with what its rail feeds. OffRail counts the parts
+	// that touch no rail (their current comes through other parts).
+	Rails   []*Supply
+	OffRail int
 }
 
 // New builds the table of design d solved as r. der gives the derating
@@ -165,6 +176,7 @@ func NewAt(file string, d *circuit.Design, r *solve.Result, der rules.Derating, 
 	}
 	t.Undriven = true
 	t.Parts = make([]Part, len(d.Parts))
+	uses := make([][]rules.Use, len(d.Parts))
 	for i := range d.Parts {
 		q := &d.Parts[i]
 		if dc := q.DC(); (dc.Model == circuit.VoltageDrop || dc.Model == circuit.CurrentFlow) && q.Value != 0 || dc.E != 0 {
@@ -179,8 +191,9 @@ func NewAt(file string, d *circuit.Design, r *solve.Result, der rules.Derating, 
 			p.Runtime = p.Capacity / -qs.I // its current flows out of its first pin
 		}
 		p.Worst = rules.Worst(p.Ratings)
-		t.Parts[i] = p
+		t.Parts[i], uses[i] = p, p.Ratings
 	}
+	t.Rails, t.OffRail = buildRails(d, pt, uses)
 	for _, g := range r.Groups {
 		var names []string
 		for _, id := range g.Parts {

@@ -142,7 +142,7 @@ func (t *Table) WriteText(w io.Writer, opt TextOptions) error {
 	}
 	writeColumns(bw, rows, []bool{false, false, true, true, true, true, true, false}, paint)
 	writeWorst(bw, t)
-
+	t.writeRails(bw)
 	t.writeBatteries(bw)
 
 	bw.WriteString("\nVoltage is V(first pin) − V(second pin); current flows from the first pin\n" +
@@ -181,7 +181,7 @@ func (t *Table) writeBatteries(bw *bufio.Writer) {
 		if p.Runtime > 0 {
 			run, out = "about "+Duration(p.Runtime), units.Format(-p.Current, units.Current)
 		}
-		rows = append(rows, []string{p.Name, FormatCapacity(p.Capacity), out, run})
+		rows = append(rows, []string{output.LineSafe(p.Name), FormatCapacity(p.Capacity), out, run})
 	}
 	if len(rows) == 1 {
 		return

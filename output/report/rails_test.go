@@ -1,0 +1,248 @@
+package report_test
+
+import (
+	"bytes"
+	"encoding/json"
+	"math"
+	"math/rand"
+	"strings"
+	"testing"
+
+	"nodal/check"
+	"nodal/output/report"
+	"nodal/rules"
+)
+
+// tableOf solves src and returns its report table.
+func tableOf(t *testing.T, src string) *report.Table {
+	t.Helper()
+	res, err := check.Source("t.nodal", []byte(src), nil)
+	if err != nil || res.Solved == nil || res.Solved.OP == nil {
+		t.Fatalf("no operating point: %v %v", err, res.Diags)
+	}
+	return report.NewAt("t.nodal", res.Build.Design, res.Solved.OP, rules.Derating{}, res.Solved.Ambient)
+}
+
+// eachSupply calls f for every supply in the tree, depth first.
+func eachSupply(ss []*report.Supply, f func(*report.Supply)) {
+	for _, s := range ss {
+		f(s)
+		eachSupply(s.Feeds, f)
+	}
+}
+
+// threeRails has a battery, a bench source and a port's drive, each with
+// its own rail and loads across it, and an LED behind a resistor (a part
+// on no rail).
+const threeRails = `ground gnd
+port vext 12 V series 2 Ω
+battery   BAT  (pos=vbat, neg=gnd) 7.4 V series 150 mΩ rated 2 A
+source    PSU  (v5, gnd)  5 V rated 1 A
+load      RADIO (vbat, gnd) 1.5 W rated 12 V
+load      CLK   (vbat, gnd) 3 mA
+resistor  RH    (vbat, gnd) 47 Ω rated 2 W
+load      MCU   (v5, gnd) 400 mW rated 6 V
+resistor  RL    (v5, led) 150 Ω rated 250 mW
+led       D1    (led, gnd) vf 2.0 V at 20 mA rated 30 mA
+load      HEAT  (vext, gnd) 250 mA
+resistor  RX    (vext, gnd) 1 kΩ rated 500 mW
+`
+
+// TestRailsEnergyBalance: at every rail the currents the parts under it
+// take add up to what its supply delivers (Kirchhoff's current law); for
+// parts across the rail their powers add up to the power it delivers, and
+// over the whole design the supplies deliver what every other part absorbs
+// (Tellegen's theorem: Σ vₖ·iₖ = 0, Philips Res. Rep. 7, 259 (1952), from
+// memory); each supply takes what it delivers plus what it loses (energy
+// balance). All to 1e-9.
+func TestRailsEnergyBalance(t *testing.T) {
+	tab := tableOf(t, threeRails)
+	if len(tab.Rails) != 3 {
+		t.Fatalf("%d roots, want BAT, PSU and vext", len(tab.Rails))
+	}
+	delivered := 0.0
+	eachSupply(tab.Rails, func(s *report.Supply) {
+		f := s.Flow
+		if !s.Judged || f.CurrentUnknown || f.VoltageUnknown {
+			t.Fatalf("%s not judged", s.Name)
+		}
+		sumI, sumP, across := 0.0, 0.0, true
+		for _, l := range s.Loads {
+			sumI += l.Current
+			sumP += l.Power
+			across = across && len(l.Towards) == 0
+		}
+		if math.Abs(sumI-f.IOut) > 1e-9*f.IOut {
+			t.Errorf("%s: its parts take %.12g A, it delivers %.12g A (KCL)", s.Name, sumI, f.IOut)
+		}
+		if across && math.Abs(sumP-f.POut) > 1e-9*f.POut {
+			t.Errorf("%s: its parts absorb %.12g W, it delivers %.12g W (Tellegen)", s.Name, sumP, f.POut)
+		}
+		if math.Abs(f.Taken-f.POut-f.Loss) > 1e-12 || f.Loss < 0 {
+			t.Errorf("%s: takes %g W, delivers %g W, loses %g W", s.Name, f.Taken, f.POut, f.Loss)
+		}
+		delivered += f.POut
+	})
+	absorbed := 0.0
+	for _, p := range tab.Parts {
+		if p.Kind.Info().Supply == nil {
+			absorbed += p.Power
+		}
+	}
+	if math.Abs(absorbed-delivered) > 1e-9*delivered {
+		t.Errorf("supplies deliver %.12g W, the other parts absorb %.12g W (Tellegen)", delivered, absorbed)
+	}
+	if tab.OffRail != 1 {
+		t.Errorf("%d parts on no rail, want D1", tab.OffRail)
+	}
+	// The battery's loss is I²·R in its 150 mΩ (Joule's law).
+	eachSupply(tab.Rails, func(s *report.Supply) {
+		if s.Name == "BAT" && math.Abs(s.Flow.Loss-s.Flow.IOut*s.Flow.IOut*0.15) > 1e-12 {
+			t.Errorf("BAT loses %g W, I²R = %g W", s.Flow.Loss, s.Flow.IOut*s.Flow.IOut*0.15)
+		}
+	})
+}
+
+// TestRailsWorstFirstAnyOrder: parts under a rail come worst use of a
+// rating first, unrated last, ties by name; the tree, text and JSON do not
+// depend on the order of statements.
+func TestRailsWorstFirstAnyOrder(t *testing.T) {
+	tab := tableOf(t, threeRails)
+	var bat *report.Supply
+	eachSupply(tab.Rails, func(s *report.Supply) {
+		if s.Name == "BAT" {
+			bat = s
+		}
+	})
+	var names []string
+	for _, l := range bat.Loads {
+		names = append(names, l.Name)
+	}
+	// RADIO uses 7.3 V of its 12 V rating (61 %); RH dissipates
+	// 7.3²/47 ≈ 1.13 W of 2 W (57 %); CLK is unrated.
+	if got := strings.Join(names, " "); got != "RADIO RH CLK" {
+		t.Errorf("BAT feeds %s, want RADIO RH CLK", got)
+	}
+	text, js := render(t, tab)
+	if !strings.Contains(rails(text), "BAT (battery) holds vbat") {
+		t.Fatalf("no rails section:\n%s", text)
+	}
+	lines := strings.Split(strings.TrimSpace(threeRails), "\n")
+	rng := rand.New(rand.NewSource(12))
+	for k := 0; k < 5; k++ {
+		body := append([]string(nil), lines[1:]...)
+		rng.Shuffle(len(body), func(i, j int) { body[i], body[j] = body[j], body[i] })
+		src := lines[0] + "\n" + strings.Join(body, "\n") + "\n"
+		t2, j2 := render(t, tableOf(t, src))
+		if rails(t2) != rails(text) {
+			t.Errorf("statements shuffled: rails\n%s\nwant\n%s", rails(t2), rails(text))
+		}
+		var a, b struct{ Rails any }
+		if json.Unmarshal([]byte(js), &a) != nil || json.Unmarshal([]byte(j2), &b) != nil || a.Rails == nil {
+			t.Fatal("JSON without rails")
+		}
+		ja, _ := json.Marshal(a)
+		jb, _ := json.Marshal(b)
+		if string(ja) != string(jb) {
+			t.Errorf("statements shuffled: JSON rails differ\n%s\n%s", ja, jb)
+		}
+	}
+}
+
+func render(t *testing.T, tab *report.Table) (string, string) {
+	t.Helper()
+	var tx, js bytes.Buffer
+	if err := tab.WriteText(&tx, report.TextOptions{}); err != nil {
+		t.Fatal(err)
+	}
+	if err := tab.WriteJSON(&js); err != nil {
+		t.Fatal(err)
+	}
+	return tx.String(), js.String()
+}
+
+// rails cuts the rails section out of the text form.
+func rails(text string) string {
+	i := strings.Index(text, "\nRails:")
+	if i < 0 {
+		return ""
+	}
+	rest := text[i+1:]
+	if j := strings.Index(rest, "\n\n"); j >= 0 {
+		rest = rest[:j]
+	}
+	return rest
+}
+
+// TestRailsShapes: a rail below ground, a rail two batteries share, nets
+// joined to a rail by a wire, a section with no DC path to ground, and a
+// design with no supply.
+func TestRailsShapes(t *testing.T) {
+	// −5 V across 1 kΩ: 5 mA out of ground (Ohm's law).
+	tab := tableOf(t, "ground gnd\nsource VN (pos=gnd, neg=vneg) 5 V\nresistor R (vneg, gnd) 1 kΩ\n")
+	s := tab.Rails[0]
+	if s.Rail != "vneg" || s.Flow.VOut != -5 || math.Abs(s.Flow.IOut+0.005) > 1e-15 || math.Abs(s.Flow.POut-0.025) > 1e-15 {
+		t.Errorf("rail below ground: %s %+v", s.Rail, s.Flow)
+	}
+	if len(s.Loads) != 1 || s.Loads[0].Current != -0.005 {
+		t.Errorf("rail below ground feeds %+v", s.Loads)
+	}
+
+	// Two cells in parallel share one rail: the first by name lists it.
+	tab = tableOf(t, "ground gnd\nbattery B2 (pos=v, neg=gnd) 3.7 V series 100 mΩ\nbattery B1 (pos=v, neg=gnd) 3.6 V series 100 mΩ\nresistor R (v, gnd) 10 Ω\n")
+	if len(tab.Rails) != 2 || tab.Rails[0].Name != "B1" || len(tab.Rails[0].Loads) != 1 || tab.Rails[1].Alongside != "B1" || len(tab.Rails[1].Loads) != 0 {
+		t.Errorf("shared rail: %+v %+v", tab.Rails[0], tab.Rails[1])
+	}
+	// KCL at v: what the two deliver is what R takes (B2 charges B1).
+	if sum := tab.Rails[0].Flow.IOut + tab.Rails[1].Flow.IOut; math.Abs(sum-tab.Rails[0].Loads[0].Current) > 1e-12 {
+		t.Errorf("B1 + B2 deliver %g A, R takes %g A", sum, tab.Rails[0].Loads[0].Current)
+	}
+
+	// A wire extends the rail: the load past it is on the rail, the wire
+	// is not listed, and the resistor across is.
+	tab = tableOf(t, "ground gnd\nsource V (vin, gnd) 5 V\nwire J (vin, far)\nload L (far, gnd) 20 mA\nresistor R (vin, gnd) 1 kΩ\ncapacitor C (vin, gnd) 1 µF\n")
+	var names []string
+	for _, l := range tab.Rails[0].Loads {
+		names = append(names, l.Name)
+	}
+	if strings.Join(names, " ") != "L R" {
+		t.Errorf("rail through a wire feeds %v, want L R (no wire, no capacitor)", names)
+	}
+
+	// A supply on a section with no DC path to ground: its figures are
+	// undetermined, and said so.
+	tab = tableOf(t, "ground gnd\nsource V (vin, gnd) 5 V\nresistor R (vin, gnd) 1 kΩ\nbattery B (pos=a, neg=b) 3 V series 1 Ω\nresistor RB (a, b) 2 Ω\n")
+	text, js := render(t, tab)
+	if !strings.Contains(rails(text), "B (battery) holds a at an undetermined voltage against b: delivers an undetermined current") {
+		t.Errorf("undetermined supply:\n%s", rails(text))
+	}
+	if !strings.Contains(js, `"undetermined": [`) {
+		t.Errorf("JSON lacks undetermined:\n%s", js)
+	}
+
+	// No supply, no section.
+	tab = tableOf(t, "ground gnd\nport sig 2 mA\nresistor R (sig, gnd) 1 kΩ\n")
+	if text, js := render(t, tab); len(tab.Rails) != 0 || rails(text) != "" || strings.Contains(js, `"rails"`) {
+		t.Errorf("a design with no voltage supply has rails:\n%s", text)
+	}
+}
+
+// TestRailsEscaped: names in the tree are escaped for the terminal; the
+// JSON encoder escapes them for JSON.
+func TestRailsEscaped(t *testing.T) {
+	tab := tableOf(t, "ground gnd\nsource V (\"v\x1b[31m\", gnd) 5 V\nresistor R (\"v\x1b[31m\", \"w\u202e\") 1 kΩ\nresistor R2 (\"w\u202e\", gnd) 1 kΩ\n")
+	text, js := render(t, tab)
+	r := rails(text)
+	if strings.ContainsAny(r, "\x1b\u202e") || !strings.Contains(r, `holds v\x1b[31m at`) || !strings.Contains(r, `towards w\u202e`) {
+		t.Errorf("rails not escaped:\n%s", r)
+	}
+	var doc struct {
+		Rails []struct {
+			Rail  string
+			Loads []struct{ Towards []string }
+		}
+	}
+	if err := json.Unmarshal([]byte(js), &doc); err != nil || doc.Rails[0].Rail != "v\x1b[31m" || doc.Rails[0].Loads[0].Towards[0] != "w\u202e" {
+		t.Errorf("JSON names: %v %+v", err, doc)
+	}
+}
