@@ -1,9 +1,9 @@
 package rules
 
 // supply.go: what a supply-like part delivers to its rail, what it takes
-// to do so and what it loses, read from the same quantities the rating
-// function judges. "nodal report" draws the power tree from these figures
-// and never recomputes them.
+// to do so and what it loses, read from the same cleaned operating point
+// the rating function judges (Point). "nodal report" draws the power tree
+// from these figures and never recomputes them.
 
 import (
 	"nodal/circuit"
@@ -36,39 +36,49 @@ type Flow struct {
 	// converts power into its rail (Taken > 0).
 	Efficiency    float64
 	HasEfficiency bool
-	// VoltageUnknown and CurrentUnknown are the quantities' own: the
-	// circuit does not fix the rail's voltage or the part's current. The
-	// figures that need them read 0 and are not to be shown as values.
+	// VoltageUnknown and CurrentUnknown are the part's quantities' own:
+	// the circuit does not fix the rail's voltage or the part's current.
+	// The figures that need them read 0 and are not to be shown as values.
 	VoltageUnknown, CurrentUnknown bool
 }
 
-// SupplyFlow returns the energy balance of p, a part of a supply-like kind
-// (its KindInfo.Supply set), from the quantities q that Point.Part gives
-// for it. ok is false for a part of any other kind, or of a kind whose
-// input rail these quantities do not describe.
-func SupplyFlow(p *circuit.Part, q Quantities) (f Flow, ok bool) {
+// SupplyFlow returns the energy balance of part id, p, of a supply-like
+// kind (its KindInfo.Supply set), at the operating point pt. ok is false
+// for a part of any other kind, or one whose pin currents pt does not
+// know (PinCurrent).
+func (pt *Point) SupplyFlow(p *circuit.Part, id circuit.PartID) (f Flow, ok bool) {
 	s := p.Kind.Info().Supply
-	if s == nil || s.HasInput() {
-		// A kind that draws from another rail needs the current at its
-		// input pin as well, which two-pin quantities do not carry.
+	if s == nil {
 		return Flow{}, false
 	}
+	q := pt.Part(id)
 	f.VoltageUnknown, f.CurrentUnknown = q.VoltageUnknown, q.CurrentUnknown
-	// Quantities run from the first pin to the second: the rail is +V
-	// when Out is the first pin, −V when it is the second. The part
-	// delivers into the rail the current that leaves it at Out.
-	sign := 1.0
-	if s.Out != 0 {
-		sign = -1
+	iOut, ok := pt.PinCurrent(p, id, s.Out)
+	if !ok {
+		return Flow{}, false
 	}
-	f.VOut = sign * q.V
-	f.IOut = 0 - PinCurrent(q, s.Out) // 0 − x: no −0 for a part that delivers nothing
-	f.POut = 0 - q.P                  // VOut·IOut
-	switch dc := p.DC(); dc.Model {
-	case circuit.Conductance:
-		// An EMF behind a resistance, first pin positive: the EMF
-		// converts E·IOut, the resistance takes the rest.
-		f.Taken = sign * dc.E * f.IOut
+	f.VOut = pt.across(p, q, s.Out, s.OutRef)
+	f.IOut = 0 - iOut // 0 − x: no −0 for a part that delivers nothing
+	f.POut = f.VOut * f.IOut
+	switch dc := p.DC(); {
+	case s.HasInput():
+		iIn, ok := pt.PinCurrent(p, id, s.In)
+		if !ok {
+			return Flow{}, false
+		}
+		f.HasInput = true
+		f.VIn, f.IIn = pt.across(p, q, s.In, s.InRef), iIn
+		f.PIn = f.VIn * f.IIn
+		f.Taken = f.PIn
+	case dc.Model == circuit.Conductance:
+		// An EMF behind a resistance, first end positive: the EMF
+		// converts E times the current out of the first end.
+		e := &p.Kind.Info().Ends
+		out := 0 - q.I
+		if int(e[0]) != s.Out {
+			out = q.I
+		}
+		f.Taken = dc.E * out
 	default:
 		f.Taken = f.POut // an ideal voltage loses nothing
 	}
@@ -79,12 +89,38 @@ func SupplyFlow(p *circuit.Part, q Quantities) (f Flow, ok bool) {
 	return f, true
 }
 
-// PinCurrent returns the current flowing into a part at its pin (an index
-// into its kind's Pins) from the net there, in the quantities' sign
-// convention: I into the first pin, −I into the second.
-func PinCurrent(q Quantities, pin int) float64 {
-	if pin == 0 {
-		return q.I
+// across returns V(pin a) − V(pin b) of part p: its own voltage q.V (or
+// its negative) when a and b are its ends, else the difference of the two
+// nets' voltages.
+func (pt *Point) across(p *circuit.Part, q Quantities, a, b int) float64 {
+	e := &p.Kind.Info().Ends
+	switch {
+	case int(e[0]) == a && int(e[1]) == b:
+		return q.V
+	case int(e[0]) == b && int(e[1]) == a:
+		return 0 - q.V
 	}
-	return -q.I
+	return pt.Net(p.Pins[a]) - pt.Net(p.Pins[b])
+}
+
+// PinCurrent returns the current flowing into part id, p, at its pin (an
+// index into its kind's Pins) from the net there, cleaned as Part cleans
+// it: I into the first end and −I into the second, in the sign convention
+// of Quantities. ok is false for a pin whose current the operating point
+// does not give.
+func (pt *Point) PinCurrent(p *circuit.Part, id circuit.PartID, pin int) (float64, bool) {
+	if p.Multi() {
+		// A part with more than two pins: its pins' currents are not
+		// its ends' current, and this operating point does not hold them.
+		return 0, false
+	}
+	q := pt.Part(id)
+	e := &p.Kind.Info().Ends
+	switch pin {
+	case int(e[0]):
+		return q.I, true
+	case int(e[1]):
+		return 0 - q.I, true
+	}
+	return 0, false
 }

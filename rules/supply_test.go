@@ -20,7 +20,7 @@ func supplyFlow(t *testing.T, src, name string) rules.Flow {
 	pt := rules.NewPoint(res.Solved.OP)
 	for i := range d.Parts {
 		if d.Parts[i].Name == name {
-			f, ok := rules.SupplyFlow(&d.Parts[i], pt.Part(circuit.PartID(i)))
+			f, ok := pt.SupplyFlow(&d.Parts[i], circuit.PartID(i))
 			if !ok {
 				t.Fatalf("%s: no flow", name)
 			}
@@ -81,7 +81,8 @@ func TestSupplyFlowIdealAndIdle(t *testing.T) {
 	if f.IOut != 0 || f.HasEfficiency || math.Signbit(f.IOut) {
 		t.Errorf("idle source: %+v", f)
 	}
-	if _, ok := rules.SupplyFlow(&circuit.Part{Kind: circuit.Resistor}, rules.Quantities{V: 1, I: 1, P: 1}); ok {
+	res, _ := check.Source("t.nodal", []byte("ground gnd\nsource V (a, gnd) 10 V\nresistor R (a, gnd) 5 Ω\n"), nil)
+	if _, ok := rules.NewPoint(res.Solved.OP).SupplyFlow(&res.Build.Design.Parts[1], 1); ok {
 		t.Error("a resistor has a supply flow")
 	}
 }

@@ -20,7 +20,8 @@ package report
 // Several supplies on one rail are all shown; the first by name lists the
 // rail's parts, the others say which one does. Supplies that feed each
 // other in a loop are drawn once, and the loop is said where it closes.
-// Every figure comes from package rules (SupplyFlow, PinCurrent, Judge).
+// Every figure comes from package rules (Point.SupplyFlow, Point.PinCurrent,
+// Judge).
 
 import (
 	"sort"
@@ -117,7 +118,7 @@ func buildRails(d *circuit.Design, pt *rules.Point, uses [][]rules.Use) (roots [
 		case q.Kind.Info().Supply != nil:
 			supplies = append(supplies, circuit.PartID(i))
 		case q.IsShort():
-			sets.union(q.Pins[0], q.Pins[1])
+			sets.union(q.Ends())
 		}
 	}
 	if len(supplies) == 0 {
@@ -138,7 +139,7 @@ func buildRails(d *circuit.Design, pt *rules.Point, uses [][]rules.Use) (roots [
 		s := q.Kind.Info().Supply
 		out, ref := q.Pins[s.Out], q.Pins[s.OutRef]
 		railPin[id] = s.Out
-		flow, ok := rules.SupplyFlow(q, pt.Part(id))
+		flow, ok := pt.SupplyFlow(q, id)
 		if sets.find(out) == ground && sets.find(ref) != ground {
 			// A rail below ground: the supply holds its reference net
 			// at −VOut, and delivers its current out of ground.
@@ -197,8 +198,8 @@ func buildRails(d *circuit.Design, pt *rules.Point, uses [][]rules.Use) (roots [
 			}
 		}
 		onRail := false
-		for pin := range q.Pins {
-			r := sets.find(q.Pins[pin])
+		for pin, net := range q.Nets() {
+			r := sets.find(net)
 			p, ok := primary[r]
 			if !ok {
 				continue
@@ -207,15 +208,15 @@ func buildRails(d *circuit.Design, pt *rules.Point, uses [][]rules.Use) (roots [
 			if pin == skip[0] || pin == skip[1] || sameRail(sets, q, r, pin) {
 				continue
 			}
-			c := rules.PinCurrent(qs, pin)
-			if c == 0 && !qs.CurrentUnknown && q.DC().Model == circuit.Open {
+			c, known := pt.PinCurrent(q, id, pin)
+			if known && c == 0 && !qs.CurrentUnknown && q.DC().Model == circuit.Open {
 				continue // a capacitor or an open switch: nothing at DC
 			}
 			l := Load{Name: q.Name, Kind: q.Kind, Current: c, Power: qs.P,
-				CurrentUnknown: qs.CurrentUnknown, VoltageUnknown: qs.VoltageUnknown}
-			for k := range q.Pins {
-				if o := sets.find(q.Pins[k]); k != pin && o != ground && o != refOf[p] {
-					l.Towards = append(l.Towards, d.Nets[q.Pins[k]].Name)
+				CurrentUnknown: qs.CurrentUnknown || !known, VoltageUnknown: qs.VoltageUnknown}
+			for k, n := range q.Nets() {
+				if o := sets.find(n); k != pin && o != ground && o != refOf[p] {
+					l.Towards = append(l.Towards, d.Nets[n].Name)
 				}
 			}
 			if w := rules.Worst(uses[id]); w >= 0 {
@@ -276,8 +277,8 @@ func buildRails(d *circuit.Design, pt *rules.Point, uses [][]rules.Use) (roots [
 // sameRail reports whether the part's other pins are on rail r too: a part
 // inside one rail takes nothing from it.
 func sameRail(sets netSets, q *circuit.Part, r int32, pin int) bool {
-	for k := range q.Pins {
-		if k != pin && sets.find(q.Pins[k]) != r {
+	for k, n := range q.Nets() {
+		if k != pin && sets.find(n) != r {
 			return false
 		}
 	}
