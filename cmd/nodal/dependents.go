@@ -39,53 +39,46 @@ type changed struct {
 // changed nodal.toml. read reads a file of all; a file it cannot read
 // includes nothing (checking it reports why).
 func dependents(ch changed, names, all []string, read reader) []string {
-	checked := map[string]bool{}
-	for _, n := range names {
-		checked[n] = true
-	}
-	var others []string
-	for _, f := range all {
-		if !checked[f] {
-			others = append(others, f)
-		}
-	}
-	targets := append(append([]string(nil), names...), ch.files...)
-	isTarget := map[string]bool{}
-	for _, t := range targets {
-		isTarget[t] = true
-	}
-	// The files check.Dependents asks about (every other file that is not
-	// a target), read and scanned on every core before it asks.
+	// The files the graph asks about (every other file that is not a
+	// target), read and scanned on every core before it asks.
+	others, isTarget := graphFiles(ch, names, all)
 	var toRead []string
 	for _, f := range others {
 		if !isTarget[f] {
 			toRead = append(toRead, f)
 		}
 	}
-	incs := make([][]string, len(toRead))
-	var wg sync.WaitGroup
-	next := make(chan int)
-	for range min(runtime.GOMAXPROCS(0), max(len(toRead), 1)) {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for i := range next {
-				if src, err := read(toRead[i]); err == nil {
-					incs[i] = check.Includes(toRead[i], src)
-				}
-			}
-		}()
+	incs := readIncludes(toRead, read)
+	return graphDependents(ch, names, all, func(f string) []string { return incs[f] })
+}
+
+// graphFiles returns the files of all that are not named (the candidates)
+// and the set of targets: the named files and the changed ones.
+func graphFiles(ch changed, names, all []string) (others []string, isTarget map[string]bool) {
+	checked := map[string]bool{}
+	for _, n := range names {
+		checked[n] = true
 	}
-	for i := range toRead {
-		next <- i
+	for _, f := range all {
+		if !checked[f] {
+			others = append(others, f)
+		}
 	}
-	close(next)
-	wg.Wait()
-	byFile := make(map[string][]string, len(toRead))
-	for i, f := range toRead {
-		byFile[f] = incs[i]
+	isTarget = map[string]bool{}
+	for _, t := range names {
+		isTarget[t] = true
 	}
-	out := check.Dependents(targets, others, func(f string) []string { return byFile[f] })
+	for _, t := range ch.files {
+		isTarget[t] = true
+	}
+	return others, isTarget
+}
+
+// graphDependents is dependents with each file's includes given.
+func graphDependents(ch changed, names, all []string, includes func(string) []string) []string {
+	others, _ := graphFiles(ch, names, all)
+	targets := append(append([]string(nil), names...), ch.files...)
+	out := check.Dependents(targets, others, includes)
 	seen := map[string]bool{}
 	for _, f := range out {
 		seen[f] = true
@@ -101,6 +94,35 @@ func dependents(ch changed, names, all []string, read reader) []string {
 	}
 	sort.Strings(out)
 	return out
+}
+
+// readIncludes reads files on every core and returns what each includes;
+// a file read cannot read includes nothing.
+func readIncludes(files []string, read reader) map[string][]string {
+	incs := make([][]string, len(files))
+	var wg sync.WaitGroup
+	next := make(chan int)
+	for range min(runtime.GOMAXPROCS(0), max(len(files), 1)) {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := range next {
+				if src, err := read(files[i]); err == nil {
+					incs[i] = check.Includes(files[i], src)
+				}
+			}
+		}()
+	}
+	for i := range files {
+		next <- i
+	}
+	close(next)
+	wg.Wait()
+	byFile := make(map[string][]string, len(files))
+	for i, f := range files {
+		byFile[f] = incs[i]
+	}
+	return byFile
 }
 
 // sayDependents notes on standard error which designs were added.
@@ -126,9 +148,18 @@ func isConfigName(p string) bool { return filepath.Base(p) == "nodal.toml" }
 // worktreeDependents adds to names (paths as the user gave them) the
 // designs of the work tree that depend on them, on the named paths
 // (deleted .nodal files and nodal.toml files among them), or on a .nodal
-// file git knows that is gone from the disk.
+// file git knows that is gone from the disk. The files considered are
+// those git tracks or would track; where the work tree and git's index
+// file settle that alone (fastDependents), no git process starts.
 func worktreeDependents(names, paths []string, stderr io.Writer) []string {
-	root, _, err := worktreeRoot()
+	lay, fast, none := fastRoot() // worktreeRoot, keeping the layout
+	root, err := lay.root, error(nil)
+	switch {
+	case none:
+		err = errNoRepository
+	case !fast:
+		root, _, err = gitRoot(".")
+	}
 	if errors.Is(err, errNoRepository) {
 		if loc, lerr := input.Locate("."); lerr == nil && loc.Top != "" {
 			// A .git on the path as written but not above the physical
@@ -153,36 +184,11 @@ func worktreeDependents(names, paths []string, stderr io.Writer) []string {
 	if real, err := filepath.EvalSymlinks(cwd); err == nil {
 		cwd = real
 	}
-	// The files git tracks or would track, then those it knows that are
-	// gone from the disk, deleted in the work tree or with the deletion
-	// staged. The three listings are independent: asked at once, a check
-	// of one small file waits for one git start instead of three.
-	outs, errs := gitOutputs(root,
-		[]string{"ls-files", "-z", "--full-name", "--cached", "--others", "--exclude-standard", "--", "*.nodal"},
-		[]string{"ls-files", "-z", "--full-name", "--deleted", "--", "*.nodal"},
-		[]string{"diff", "--cached", "--name-only", "-z", "--diff-filter=D", "--", "*.nodal"})
-	out, err := outs[0], errs[0]
-	if err != nil {
-		fmt.Fprintf(stderr, "nodal: note: designs that include the named files were not looked for: %s\n", output.TextSafe(err.Error()))
-		return names
-	}
 	abs := func(p string) string {
 		if filepath.IsAbs(p) {
 			return filepath.Clean(p)
 		}
 		return filepath.Join(cwd, p)
-	}
-	seen := map[string]bool{}
-	var all []string
-	for _, p := range strings.Split(string(out), "\x00") {
-		if p == "" {
-			continue
-		}
-		a := filepath.Join(root, filepath.FromSlash(p))
-		if !seen[a] {
-			seen[a] = true
-			all = append(all, a)
-		}
 	}
 	var ch changed
 	var absNames []string
@@ -201,8 +207,56 @@ func worktreeDependents(names, paths []string, stderr io.Writer) []string {
 			}
 		}
 	}
+	deps, ok := []string(nil), false
+	if fast {
+		deps, ok = fastDependents(lay, ch, absNames)
+	}
+	if !ok {
+		if deps, err = listedDependents(root, ch, absNames); err != nil {
+			fmt.Fprintf(stderr, "nodal: note: designs that include the named files were not looked for: %s\n", output.TextSafe(err.Error()))
+			return names
+		}
+	}
+	rel := make([]string, 0, len(deps))
+	for _, d := range deps {
+		if r, err := filepath.Rel(cwd, d); err == nil {
+			d = r
+		}
+		rel = append(rel, d)
+	}
+	sayDependents(stderr, rel)
+	return append(names, rel...)
+}
+
+// listedDependents finds the dependents over git's listings of the work
+// tree at root.
+func listedDependents(root string, ch changed, absNames []string) ([]string, error) {
+	// The files git tracks or would track, then those it knows that are
+	// gone from the disk, deleted in the work tree or with the deletion
+	// staged. The three listings are independent: asked at once, a check
+	// of one small file waits for one git start instead of three.
+	outs, errs := gitOutputs(root,
+		[]string{"ls-files", "-z", "--full-name", "--cached", "--others", "--exclude-standard", "--", "*.nodal"},
+		[]string{"ls-files", "-z", "--full-name", "--deleted", "--", "*.nodal"},
+		[]string{"diff", "--cached", "--name-only", "-z", "--diff-filter=D", "--", "*.nodal"})
+	if errs[0] != nil {
+		return nil, errs[0]
+	}
+	seen := map[string]bool{}
+	var all []string
+	for _, p := range strings.Split(string(outs[0]), "\x00") {
+		if p == "" {
+			continue
+		}
+		a := filepath.Join(root, filepath.FromSlash(p))
+		if !seen[a] {
+			seen[a] = true
+			all = append(all, a)
+		}
+	}
 	// Files git knows that are gone from the disk: their includers change
 	// too, though a hook's file list never names a deleted file.
+	ch.files = append([]string(nil), ch.files...)
 	for k, out := range outs[1:] {
 		if errs[1+k] != nil {
 			continue // a repository without commits has no staged deletions
@@ -213,16 +267,7 @@ func worktreeDependents(names, paths []string, stderr io.Writer) []string {
 			}
 		}
 	}
-	deps := dependents(ch, absNames, all, newDiskReaders().read)
-	rel := make([]string, 0, len(deps))
-	for _, d := range deps {
-		if r, err := filepath.Rel(cwd, d); err == nil {
-			d = r
-		}
-		rel = append(rel, d)
-	}
-	sayDependents(stderr, rel)
-	return append(names, rel...)
+	return dependents(ch, absNames, all, newDiskReaders().read), nil
 }
 
 // stagedDependents adds to names (repository paths of staged files) the

@@ -298,12 +298,19 @@ func TestDependentsNoteEscapesNames(t *testing.T) {
 }
 
 // Inside a repository git cannot be asked about (here: no git on the
-// path), the includers are not looked for, and a note says so.
+// path), the includers are found where the work tree and git's index
+// settle them alone; where they do not (an untracked includer, which git
+// may ignore), the includers are not looked for, and a note says so.
 func TestDependentsWithoutGitSaysSo(t *testing.T) {
 	dir := libRepo(t)
 	t.Setenv("PATH", t.TempDir())
 	code, _, errs := runNodal(t, dir, "", "check", "lib/loads.nodal")
+	if code != 0 || !strings.Contains(errs, "also checking 3 designs") || strings.Contains(errs, "not looked for") {
+		t.Errorf("plain work tree: exit %d, stderr %q", code, errs)
+	}
+	write(t, filepath.Join(dir, "boards", "new.nodal"), boardUsingLib)
+	code, _, errs = runNodal(t, dir, "", "check", "lib/loads.nodal")
 	if code != 0 || !strings.Contains(errs, "note: designs that include the named files were not looked for") {
-		t.Errorf("exit %d, stderr %q", code, errs)
+		t.Errorf("untracked includer: exit %d, stderr %q", code, errs)
 	}
 }

@@ -33,57 +33,71 @@ var gitEnv = []string{"GIT_DIR", "GIT_WORK_TREE", "GIT_COMMON_DIR", "GIT_CEILING
 // .git file, a config with core.worktree, bare or
 // includes, another owner, an unreadable folder) is asked of git.
 func worktreeRoot() (root, prefix string, err error) {
-	if root, prefix, ok, none := fastRoot(); ok {
-		return root, prefix, nil
+	if lay, ok, none := fastRoot(); ok {
+		return lay.root, lay.prefix, nil
 	} else if none {
 		return "", "", errNoRepository
 	}
 	return gitRoot(".")
 }
 
+// gitLayout is where fastRoot found the work tree and its repository.
+type gitLayout struct {
+	root   string // the work tree's top level, links resolved
+	prefix string // the current folder's path inside it ("" or "sub/dir/")
+	gitDir string // the folder of the work tree's own files: its index
+	common string // the repository's folder: its config
+}
+
 // fastRoot finds the root without git: ok when found for certain, none
 // when there is certainly no work tree; neither when git must decide.
-func fastRoot() (root, prefix string, ok, none bool) {
+func fastRoot() (lay gitLayout, ok, none bool) {
 	for _, v := range gitEnv {
 		if _, set := os.LookupEnv(v); set {
-			return "", "", false, false
+			return lay, false, false
 		}
 	}
 	cwd, err := os.Getwd()
 	if err != nil {
-		return "", "", false, false
+		return lay, false, false
 	}
 	// git walks up the physical path of the current folder.
 	real, err := filepath.EvalSymlinks(cwd)
 	if err != nil {
-		return "", "", false, false
+		return lay, false, false
 	}
 	for _, c := range strings.Split(filepath.ToSlash(real), "/") {
 		if c == ".git" {
-			return "", "", false, false // inside a repository's own folder: no work tree there
+			return lay, false, false // inside a repository's own folder: no work tree there
 		}
 	}
 	for d := real; ; {
-		info, err := os.Lstat(filepath.Join(d, ".git"))
+		dotgit := filepath.Join(d, ".git")
+		info, err := os.Lstat(dotgit)
 		switch {
 		case err == nil:
-			if !plainGitDir(filepath.Join(d, ".git"), info) && !linkedWorktree(filepath.Join(d, ".git"), info) {
-				return "", "", false, false
+			lay.gitDir, lay.common = dotgit, dotgit
+			if !plainGitDir(dotgit, info) {
+				var linked bool
+				if lay.gitDir, lay.common, linked = linkedWorktree(dotgit, info); !linked {
+					return gitLayout{}, false, false
+				}
 			}
 			rel, err := filepath.Rel(d, real)
 			if err != nil {
-				return "", "", false, false
+				return gitLayout{}, false, false
 			}
 			if rel != "." {
-				prefix = filepath.ToSlash(rel) + "/"
+				lay.prefix = filepath.ToSlash(rel) + "/"
 			}
-			return d, prefix, true, false
+			lay.root = d
+			return lay, true, false
 		case !errors.Is(err, fs.ErrNotExist):
-			return "", "", false, false
+			return lay, false, false
 		}
 		up := filepath.Dir(d)
 		if up == d {
-			return "", "", false, true
+			return lay, false, true
 		}
 		d = up
 	}
@@ -111,21 +125,21 @@ func plainGitDir(p string, info fs.FileInfo) bool {
 	}
 	c := strings.ToLower(string(cfg))
 	for _, word := range []string{"worktree", "bare", "include"} {
-		if strings.Contains(c, word) && !(word == "bare" && onlyBareFalse(c)) {
+		if strings.Contains(c, word) && !(word == "bare" && onlyFalse(c, "bare")) {
 			return false
 		}
 	}
 	return true
 }
 
-// onlyBareFalse reports whether every line of a lower-cased config that
-// names bare is the "bare = false" git init writes.
-func onlyBareFalse(c string) bool {
+// onlyFalse reports whether every line of a lower-cased config that
+// names key is "key = false", as git init writes "bare = false".
+func onlyFalse(c, key string) bool {
 	for _, line := range strings.Split(c, "\n") {
-		if !strings.Contains(line, "bare") {
+		if !strings.Contains(line, key) {
 			continue
 		}
-		if strings.Join(strings.Fields(line), "") != "bare=false" {
+		if strings.Join(strings.Fields(line), "") != key+"=false" {
 			return false
 		}
 	}
@@ -137,43 +151,44 @@ func onlyBareFalse(c string) bool {
 // repository's worktrees with HEAD and a commondir leading to a plain
 // repository folder (plainGitDir). The work tree is then the folder
 // holding the file. A submodule's .git file names a folder without
-// commondir and is left to git.
-func linkedWorktree(p string, info fs.FileInfo) bool {
+// commondir and is left to git. It returns the work tree's git folder
+// (gitdir) and the repository's (common).
+func linkedWorktree(p string, info fs.FileInfo) (gitdir, common string, ok bool) {
 	if !info.Mode().IsRegular() || info.Size() > 4096 {
-		return false
+		return "", "", false
 	}
 	b, err := os.ReadFile(p)
 	if err != nil {
-		return false
+		return "", "", false
 	}
 	line, ok := strings.CutPrefix(strings.TrimRight(string(b), "\n"), "gitdir: ")
 	if !ok || line == "" || strings.ContainsAny(line, "\n\r") {
-		return false
+		return "", "", false
 	}
 	gd := filepath.FromSlash(line)
 	if !filepath.IsAbs(gd) {
 		gd = filepath.Join(filepath.Dir(p), gd)
 	}
 	if filepath.Base(filepath.Dir(gd)) != "worktrees" {
-		return false
+		return "", "", false
 	}
 	if _, err := os.Lstat(filepath.Join(gd, "HEAD")); err != nil {
-		return false
+		return "", "", false
 	}
 	cd, err := os.ReadFile(filepath.Join(gd, "commondir"))
 	if err != nil || len(cd) > 4096 {
-		return false
+		return "", "", false
 	}
-	common := filepath.FromSlash(strings.TrimRight(string(cd), "\n"))
+	common = filepath.FromSlash(strings.TrimRight(string(cd), "\n"))
 	if common == "" || strings.ContainsAny(common, "\n\r") {
-		return false
+		return "", "", false
 	}
 	if !filepath.IsAbs(common) {
 		common = filepath.Join(gd, common)
 	}
 	ci, err := os.Lstat(common)
-	if err != nil {
-		return false
+	if err != nil || !plainGitDir(common, ci) {
+		return "", "", false
 	}
-	return plainGitDir(common, ci)
+	return gd, common, true
 }

@@ -22,7 +22,8 @@ func TestWorktreeRootAgreesWithGit(t *testing.T) {
 	for _, where := range []string{dir, filepath.Join(dir, "boards", "deep"), link, wt, filepath.Join(wt, "lib")} {
 		t.Run(filepath.Base(where), func(t *testing.T) {
 			t.Chdir(where)
-			root, prefix, ok, none := fastRoot()
+			lay, ok, none := fastRoot()
+			root, prefix := lay.root, lay.prefix
 			if !ok || none {
 				t.Fatalf("fastRoot: ok %v, none %v", ok, none)
 			}
@@ -38,7 +39,7 @@ func TestWorktreeRootAgreesWithGit(t *testing.T) {
 
 	// Inside .git itself there is no work tree: git says so.
 	t.Chdir(filepath.Join(dir, ".git", "refs"))
-	if _, _, ok, none := fastRoot(); ok || none {
+	if _, ok, none := fastRoot(); ok || none {
 		t.Errorf("inside .git: fastRoot ok %v, none %v", ok, none)
 	}
 
@@ -47,7 +48,7 @@ func TestWorktreeRootAgreesWithGit(t *testing.T) {
 	odd := gitRepo(t)
 	git(t, odd, "config", "core.worktree", dir)
 	t.Chdir(odd)
-	if _, _, ok, none := fastRoot(); ok || none {
+	if _, ok, none := fastRoot(); ok || none {
 		t.Errorf("core.worktree: fastRoot ok %v, none %v", ok, none)
 	}
 
@@ -60,7 +61,7 @@ func TestWorktreeRootAgreesWithGit(t *testing.T) {
 		t.Errorf("outside a repository: %v", err)
 	}
 	t.Setenv("GIT_DIR", filepath.Join(dir, ".git"))
-	if _, _, ok, none := fastRoot(); ok || none {
+	if _, ok, none := fastRoot(); ok || none {
 		t.Errorf("GIT_DIR set: fastRoot ok %v, none %v", ok, none)
 	}
 }

@@ -1,0 +1,68 @@
+#!/usr/bin/env bash
+# Times `nodal check` of a small design from process start to exit, the
+# binary of this tree against a baseline revision built in the same run,
+# alternating one run of each, and prints the medians and their ratio.
+#
+#   scripts/bench-start.sh              # baseline: main; 41 runs of each
+#   BASE=eb68036 RUNS=61 scripts/bench-start.sh
+#
+# Three places are timed: inside a git repository (a fresh clone of this
+# repository's HEAD, about a hundred .nodal files, with the design
+# untracked at its top level, named from there), outside any repository
+# (a scratch folder), and `nodal version` outside (the cost of starting the
+# process at all). Each run is one process started and waited for from a
+# Python timer (posix_spawn and perf_counter), output to /dev/null.
+set -euo pipefail
+cd "$(dirname "$0")/.."
+base=${BASE:-main}
+runs=${RUNS:-41}
+parts=${PARTS:-200}
+work=$(mktemp -d "${TMPDIR:-/tmp}/nodal-start.XXXXXX")
+trap 'git worktree remove --force "$work/base-src" >/dev/null 2>&1 || true; rm -rf "$work"' EXIT
+
+git worktree add -q --detach "$work/base-src" "$base"
+(cd "$work/base-src" && go build -o "$work/nodal-base" ./cmd/nodal)
+go build -o "$work/nodal-new" ./cmd/nodal
+go build -o "$work/nodal-gen" ./cmd/nodal-gen
+"$work/nodal-gen" random -parts "$parts" -seed 1 >"$work/design.nodal"
+
+git clone -q "$(pwd)" "$work/repo"
+cp "$work/design.nodal" "$work/repo/design.nodal"
+mkdir "$work/outside"
+cp "$work/design.nodal" "$work/outside/design.nodal"
+if git -C "$work/outside" rev-parse 2>/dev/null; then
+  echo "note: $work is inside a git repository; the 'outside' rows are not" >&2
+fi
+
+echo "base $(git rev-parse --short "$base"), new $(git rev-parse --short HEAD)$(git diff --quiet HEAD || echo ' + changes'); $runs runs each, alternating"
+echo "load average before: $(cut -d' ' -f1-3 /proc/loadavg) on $(nproc) cores"
+python3 - "$work" "$runs" <<'EOF'
+import os, statistics, sys, time
+work, runs = sys.argv[1], int(sys.argv[2])
+devnull = os.open(os.devnull, os.O_WRONLY)
+cases = [
+    ("200-part design, inside a repository", "repo", ["check", "design.nodal"]),
+    ("200-part design, outside any repository", "outside", ["check", "design.nodal"]),
+    ("nodal version", "outside", ["version"]),
+]
+def once(binary, where, args):
+    argv = [binary] + args
+    t0 = time.perf_counter_ns()
+    pid = os.posix_spawn(binary, argv, os.environ,
+                         file_actions=[(os.POSIX_SPAWN_DUP2, devnull, 1), (os.POSIX_SPAWN_DUP2, devnull, 2)])
+    _, status = os.waitpid(pid, 0)
+    if os.waitstatus_to_exitcode(status) not in (0, 1):
+        sys.exit(f"{argv} in {where}: exit {os.waitstatus_to_exitcode(status)}")
+    return (time.perf_counter_ns() - t0) / 1e6
+print("| what | base ms | new ms | new / base |")
+print("|---|---|---|---|")
+for name, where, args in cases:
+    os.chdir(os.path.join(work, where))
+    t = {"base": [], "new": []}
+    for _ in range(runs):
+        for b in ("base", "new"):
+            t[b].append(once(os.path.join(work, "nodal-" + b), where, args))
+    mb, mn = statistics.median(t["base"]), statistics.median(t["new"])
+    print(f"| {name} | {mb:.2f} | {mn:.2f} | {mn / mb:.2f} |")
+EOF
+echo "load average after: $(cut -d' ' -f1-3 /proc/loadavg)"
