@@ -24,7 +24,7 @@ func opOf(t *testing.T, src string) (*circuit.Design, []float64, []float64) {
 func partIndex(t *testing.T, d *circuit.Design, name string) int {
 	t.Helper()
 	for i := range d.Parts {
-		if d.Parts[i].Name == name {
+		if d.PartName(circuit.PartID(i)) == name {
 			return i
 		}
 	}

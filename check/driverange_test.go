@@ -95,7 +95,7 @@ func TestDriveRangeSuperposition(t *testing.T) {
 			res, nv := solvedNets(t, fmt.Sprintf("ground gnd\nport n1 %.6g V series 10 Ω\n", v)+body.String())
 			out := map[string]float64{}
 			for n, net := range res.Build.Design.Nets {
-				out[net.Name] = nv[n]
+				out[net.Local] = nv[n]
 			}
 			return out
 		}
@@ -110,13 +110,13 @@ func TestDriveRangeSuperposition(t *testing.T) {
 		w := res.Worst.R
 		scale := math.Max(math.Abs(l), math.Abs(h))
 		for n, net := range res.Build.Design.Nets {
-			wantLo, wantHi := math.Min(atLo[net.Name], atHi[net.Name]), math.Max(atLo[net.Name], atHi[net.Name])
+			wantLo, wantHi := math.Min(atLo[net.Local], atHi[net.Local]), math.Max(atLo[net.Local], atHi[net.Local])
 			if math.Abs(w.NetLow[n]-wantLo) > 1e-9*scale || math.Abs(w.NetHigh[n]-wantHi) > 1e-9*scale {
-				t.Errorf("trial %d net %s: %.12g … %.12g V, solved at the ends %.12g … %.12g V", trial, res.Build.Design.Nets[n].Name, w.NetLow[n], w.NetHigh[n], wantLo, wantHi)
+				t.Errorf("trial %d net %s: %.12g … %.12g V, solved at the ends %.12g … %.12g V", trial, res.Build.Design.Nets[n].Local, w.NetLow[n], w.NetHigh[n], wantLo, wantHi)
 			}
 			// Affine: the nominal point, at the midpoint, is the mean of the ends.
-			if mid, avg := res.Solved.OP.NetV[n], (atLo[net.Name]+atHi[net.Name])/2; math.Abs(mid-avg) > 1e-9*scale {
-				t.Errorf("trial %d net %s: %.12g V at the midpoint, the ends average %.12g V", trial, net.Name, mid, avg)
+			if mid, avg := res.Solved.OP.NetV[n], (atLo[net.Local]+atHi[net.Local])/2; math.Abs(mid-avg) > 1e-9*scale {
+				t.Errorf("trial %d net %s: %.12g V at the midpoint, the ends average %.12g V", trial, net.Local, mid, avg)
 			}
 		}
 		// First-order ranges: thirteen 1 % resistors on a divider of their
@@ -139,13 +139,13 @@ func TestDriveRangeSuperposition(t *testing.T) {
 		w = res.Worst.R
 		d := res.Build.Design
 		for n := range d.Nets {
-			name := d.Nets[n].Name
+			name := d.Nets[n].Local
 			if !strings.HasPrefix(name, "n") {
 				continue
 			}
 			wantLo, wantHi := math.Min(atLo[name], atHi[name]), math.Max(atLo[name], atHi[name])
 			if math.Abs(w.NetLow[n]-wantLo) > 1e-9*scale || math.Abs(w.NetHigh[n]-wantHi) > 1e-9*scale {
-				t.Errorf("trial %d net %s, first order: %.12g … %.12g V, solved at the ends %.12g … %.12g V", trial, d.Nets[n].Name, w.NetLow[n], w.NetHigh[n], wantLo, wantHi)
+				t.Errorf("trial %d net %s, first order: %.12g … %.12g V, solved at the ends %.12g … %.12g V", trial, d.Nets[n].Local, w.NetLow[n], w.NetHigh[n], wantLo, wantHi)
 			}
 		}
 	}
@@ -306,7 +306,7 @@ func TestDriveRangeOrderFree(t *testing.T) {
 		}
 		sort.Strings(o.msgs)
 		for n, net := range res.Build.Design.Nets {
-			o.ranges[net.Name] = [2]float64{res.Worst.R.NetLow[n], res.Worst.R.NetHigh[n]}
+			o.ranges[net.Local] = [2]float64{res.Worst.R.NetLow[n], res.Worst.R.NetHigh[n]}
 		}
 		if first == nil {
 			first = o

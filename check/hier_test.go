@@ -103,14 +103,14 @@ func TestFlatEquivalent(t *testing.T) {
 			for i := range hd.Parts {
 				hp, fp := hd.Parts[i], fd.Parts[i]
 				hs := fmt.Sprintf("%s %s (%s, %s) tol %g rated %g W %g V %g A vf %g at %g",
-					normal(hp.Name), hp.Kind, normal(hd.Nets[hp.Pins[0]].Name), normal(hd.Nets[hp.Pins[1]].Name), hp.Tol, hp.RatedPower, hp.RatedVoltage, hp.RatedCurrent, hp.VF, hp.VFAt)
+					normal(hd.NameOf(&hp)), hp.Kind, normal(hd.NetName(hp.Pins[0])), normal(hd.NetName(hp.Pins[1])), hp.Tol, hp.RatedPower, hp.RatedVoltage, hp.RatedCurrent, hp.VF, hp.VFAt)
 				fs := fmt.Sprintf("%s %s (%s, %s) tol %g rated %g W %g V %g A vf %g at %g",
-					fp.Name, fp.Kind, fd.Nets[fp.Pins[0]].Name, fd.Nets[fp.Pins[1]].Name, fp.Tol, fp.RatedPower, fp.RatedVoltage, fp.RatedCurrent, fp.VF, fp.VFAt)
+					fp.Local, fp.Kind, fd.Nets[fp.Pins[0]].Local, fd.Nets[fp.Pins[1]].Local, fp.Tol, fp.RatedPower, fp.RatedVoltage, fp.RatedCurrent, fp.VF, fp.VFAt)
 				if hs != fs {
 					t.Errorf("part %d:\nhier %s\nflat %s", i, hs, fs)
 				}
 				if math.Abs(hp.Value-fp.Value) > 1e-12*math.Abs(fp.Value) {
-					t.Errorf("part %s: value %g, flat %g", hp.Name, hp.Value, fp.Value)
+					t.Errorf("part %s: value %g, flat %g", hd.NameOf(&hp), hp.Value, fp.Value)
 				}
 			}
 			key := func(r *Result) []string {
@@ -179,14 +179,14 @@ func sameOperatingPoint(t *testing.T, hr, fr *Result) bool {
 			continue
 		}
 		used++
-		name := normal(hd.Nets[i].Name)
+		name := normal(hd.NetName(circuit.NetID(i)))
 		j := fd.LookupNet(name)
 		if j == circuit.NoNet {
-			t.Errorf("net %s has no counterpart %s in the flat design", hd.Nets[i].Name, name)
+			t.Errorf("net %s has no counterpart %s in the flat design", hd.NetName(circuit.NetID(i)), name)
 			continue
 		}
 		if math.Abs(h.NetV[i]-f.NetV[j]) > solve.KCLTol*vs {
-			t.Errorf("net %s: %.12g V, flat %s %.12g V", hd.Nets[i].Name, h.NetV[i], name, f.NetV[j])
+			t.Errorf("net %s: %.12g V, flat %s %.12g V", hd.NetName(circuit.NetID(i)), h.NetV[i], name, f.NetV[j])
 		}
 	}
 	flatUsed := 0
@@ -200,20 +200,20 @@ func sameOperatingPoint(t *testing.T, hr, fr *Result) bool {
 	}
 	flatPart := map[string]int{}
 	for j := range fd.Parts {
-		flatPart[fd.Parts[j].Name] = j
+		flatPart[fd.Parts[j].Local] = j
 	}
 	for i := range hd.Parts {
-		name := normal(hd.Parts[i].Name)
+		name := normal(hd.PartName(circuit.PartID(i)))
 		j, ok := flatPart[name]
 		if !ok {
-			t.Errorf("part %s has no counterpart %s in the flat design", hd.Parts[i].Name, name)
+			t.Errorf("part %s has no counterpart %s in the flat design", hd.PartName(circuit.PartID(i)), name)
 			continue
 		}
 		if math.Abs(h.V[i]-f.V[j]) > solve.KCLTol*vs {
-			t.Errorf("part %s voltage: %.12g V, flat %.12g V", hd.Parts[i].Name, h.V[i], f.V[j])
+			t.Errorf("part %s voltage: %.12g V, flat %.12g V", hd.PartName(circuit.PartID(i)), h.V[i], f.V[j])
 		}
 		if math.Abs(h.I[i]-f.I[j]) > solve.KCLTol*is {
-			t.Errorf("part %s current: %.12g A, flat %.12g A", hd.Parts[i].Name, h.I[i], f.I[j])
+			t.Errorf("part %s current: %.12g A, flat %.12g A", hd.PartName(circuit.PartID(i)), h.I[i], f.I[j])
 		}
 	}
 	return true
@@ -258,8 +258,8 @@ block outer (p, n) {
 		t.Errorf("related = %+v, want A.B then A", d.Related)
 	}
 	var names []string
-	for _, p := range r.Build.Design.Parts {
-		names = append(names, p.Name)
+	for i := range r.Build.Design.Parts {
+		names = append(names, r.Build.Design.PartName(circuit.PartID(i)))
 	}
 	if got := strings.Join(names, " "); got != "V A.B.R A.B.S A.B.T" {
 		t.Errorf("parts = %s", got)

@@ -54,7 +54,7 @@ func lines(res *check.Result) []string {
 func part(t *testing.T, d *circuit.Design, name string) *circuit.Part {
 	t.Helper()
 	for i := range d.Parts {
-		if d.Parts[i].Name == name {
+		if d.PartName(circuit.PartID(i)) == name {
 			return &d.Parts[i]
 		}
 	}
@@ -89,10 +89,10 @@ func TestGreenhouseExample(t *testing.T) {
 	if len(d.Parts) != 12 {
 		t.Errorf("%d parts; want 12", len(d.Parts))
 	}
-	if d.Ground == circuit.NoNet || d.Nets[d.Ground].Name != "gnd" {
+	if d.Ground == circuit.NoNet || d.Nets[d.Ground].Local != "gnd" {
 		t.Error("ground is not gnd")
 	}
-	net := func(id circuit.NetID) string { return d.Nets[id].Name }
+	net := func(id circuit.NetID) string { return d.NetName(id) }
 	vin := part(t, d, "VIN")
 	if vin.Kind != circuit.VoltageSource || vin.Value != 12 || net(vin.Pins[0]) != "vin" || !near(vin.Tol, 0.05) || !near(vin.RatedCurrent, 0.5) {
 		t.Errorf("VIN: %+v", vin)
@@ -129,8 +129,8 @@ func TestGreenhouseExample(t *testing.T) {
 		t.Errorf("D2: %+v", d2)
 	}
 	for i := range d.Nets {
-		if n := &d.Nets[i]; (n.Name == "probe_out" || n.Name == "ext_12v") && !n.Port {
-			t.Errorf("%s is not a port", n.Name)
+		if n := &d.Nets[i]; (n.Local == "probe_out" || n.Local == "ext_12v") && !n.Port {
+			t.Errorf("%s is not a port", n.Local)
 		}
 	}
 }
@@ -348,11 +348,11 @@ led      D1  (cathode=gnd, anode=led_a) vf 2.0 V at 10 mA
 		t.Fatal("quoted net +3V3 not found")
 	}
 	led := part(t, d, "D1")
-	if d.Nets[led.Pins[0]].Name != "led_a" || d.Nets[led.Pins[1]].Name != "gnd" {
-		t.Errorf("D1 pins: anode %s, cathode %s", d.Nets[led.Pins[0]].Name, d.Nets[led.Pins[1]].Name)
+	if d.Nets[led.Pins[0]].Local != "led_a" || d.Nets[led.Pins[1]].Local != "gnd" {
+		t.Errorf("D1 pins: anode %s, cathode %s", d.Nets[led.Pins[0]].Local, d.Nets[led.Pins[1]].Local)
 	}
-	if r := part(t, d, "R1"); d.Nets[r.Pins[0]].Name != "led_a" {
-		t.Errorf("R1 pin a is %s", d.Nets[r.Pins[0]].Name)
+	if r := part(t, d, "R1"); d.Nets[r.Pins[0]].Local != "led_a" {
+		t.Errorf("R1 pin a is %s", d.Nets[r.Pins[0]].Local)
 	}
 	bad := []struct{ line, want string }{
 		{"led DX (anode=a, drain=gnd) vf 2 V at 1 mA", `no pin named "drain"`},

@@ -5,6 +5,8 @@ import (
 	"math/rand/v2"
 	"strings"
 	"testing"
+
+	"nodal/circuit"
 )
 
 // TestNewKindsOrderFree: a design with batteries in parallel, constant-power
@@ -32,7 +34,7 @@ func TestNewKindsOrderFree(t *testing.T) {
 		d, v, i := opOf(t, src)
 		got := map[string]pt{}
 		for k := range d.Parts {
-			got[d.Parts[k].Name] = pt{v[k], i[k]}
+			got[d.PartName(circuit.PartID(k))] = pt{v[k], i[k]}
 		}
 		if want == nil {
 			want = got

@@ -155,7 +155,7 @@ func values(res *check.Result) map[string]float64 {
 		out[m] = math.Max(out[m], math.Abs(v))
 	}
 	for i := range d.Parts {
-		n := d.Parts[i].Name
+		n := d.Parts[i].Local
 		q := pt.Part(circuit.PartID(i))
 		put("V "+n, q.V)
 		put("I "+n, q.I)
@@ -169,7 +169,7 @@ func values(res *check.Result) map[string]float64 {
 		// runs from the first member's first pin.
 		var names []string
 		for _, id := range g.Parts {
-			names = append(names, d.Parts[id].Name)
+			names = append(names, d.Parts[id].Local)
 		}
 		// Cleaned of rounding noise as the parts' currents are (a group
 		// that carries nothing reads 1e-34 A in one order, 0 in another).

@@ -40,7 +40,7 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo, needs bool) b
 	seen := map[string]bool{}
 	apos, aend := p.Pos, p.End // the attribute being read
 	bad := func(rule Code, format string, args ...any) {
-		b.report(rule, apos, aend, "%s %s: %s", word, p.Name, fmt.Sprintf(format, args...))
+		b.report(rule, apos, aend, "%s %s: %s", word, b.nameOf(p), fmt.Sprintf(format, args...))
 		ok = false
 	}
 	attrs := pt.Attrs

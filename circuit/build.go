@@ -7,7 +7,6 @@ package circuit
 import (
 	"fmt"
 	"path/filepath"
-	"strings"
 
 	"nodal/diag"
 	"nodal/grammar"
@@ -98,12 +97,12 @@ type builder struct {
 	top       *blockDef       // the top level, as a block without pins
 
 	sc *scope // the scope being elaborated
-	// subject is the instance path of the part or instance whose
-	// statement is being elaborated, in two pieces (the instance's prefix
-	// and the name), joined only when a finding is made about it.
-	subject [2]string
+	// subject is the part or instance whose statement is being
+	// elaborated: its instance and its own name, joined into its path only
+	// when a finding is made about it.
+	subject subject
 	count   int64 // parts and instances made so far
-	text    int64 // bytes of the instance-path names made so far
+	text    int64 // bytes of the names made so far
 	refused bool  // an instance was refused for the size limit
 
 	// Findings inside blocks are made once per instance; the collector
@@ -112,6 +111,16 @@ type builder struct {
 	probing bool
 	failed  []string // includes that could not be read, for later messages
 }
+
+// subject is a name being elaborated, inside instance inst (-1: the top
+// level, or a block's text).
+type subject struct {
+	inst int32
+	name string
+}
+
+// nameOf is part p's name with its instance path, for a message.
+func (b *builder) nameOf(p *Part) string { return b.r.Design.NameOf(p) }
 
 // pos returns the diag.Pos of an offset the grammar gave for the file
 // being read.
@@ -129,10 +138,10 @@ func (b *builder) report(code Code, pos, end diag.Pos, format string, args ...an
 // repeats across instances.
 func (b *builder) reportSev(code Code, sev diag.Severity, pos, end diag.Pos, format string, args ...any) {
 	f := Finding{Diagnostic: diag.Diagnostic{Pos: pos, End: end, Rule: code.String(), Severity: sev,
-		Message: fmt.Sprintf(format, args...), Subject: b.subject[0] + b.subject[1], Fixes: b.fixes}, Code: code, Inst: -1}
+		Message: fmt.Sprintf(format, args...), Subject: b.r.Design.Qualified(b.subject.inst, b.subject.name), Fixes: b.fixes}, Code: code, Inst: -1}
 	b.fixes = nil
 	if sc := b.sc; sc != nil && (sc.inst >= 0 || b.probing) {
-		f.Path = strings.TrimSuffix(sc.prefix, ".")
+		f.Path = b.r.Design.InstancePath(sc.inst)
 		if !b.probing {
 			f.Inst = sc.inst // the scratch design's instances are not kept
 		}
@@ -242,10 +251,10 @@ func (b *builder) run(ast *grammar.File) {
 			n := st.Ground.Net
 			name := netName(n.Text)
 			if d.Ground != NoNet {
-				if d.Nets[d.Ground].Name == name {
+				if d.Nets[d.Ground].Local == name {
 					b.reportSev(CodeExtraGround, diag.Warning, pos, end, "ground %s is already declared (line %d)", name, b.file.Position(b.groundStmt).Line)
 				} else {
-					b.report(CodeExtraGround, pos, end, "second ground %s: the design already takes %s (line %d) as its 0 V reference; join the two with a wire if they are the same net", name, d.Nets[d.Ground].Name, b.file.Position(b.groundStmt).Line)
+					b.report(CodeExtraGround, pos, end, "second ground %s: the design already takes %s (line %d) as its 0 V reference; join the two with a wire if they are the same net", name, d.Nets[d.Ground].Local, b.file.Position(b.groundStmt).Line)
 				}
 				continue
 			}

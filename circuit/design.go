@@ -45,11 +45,13 @@ const NoNet NetID = -1
 
 // Net is a set of pins joined together.
 type Net struct {
-	Name string
-	Pos  diag.Pos // first use
-	End  diag.Pos
-	Port bool
-	Pins int32 // how many pins touch the net
+	// Local is the net's name as written: the whole name at the top
+	// level, its name in the block inside an instance (see NetName).
+	Local string
+	Pos   diag.Pos // first use
+	End   diag.Pos
+	Port  bool
+	Pins  int32 // how many pins touch the net
 	// Inst is the instance the net is local to (an index into
 	// Design.Instances), or -1 for a net of the top level, a block pin's
 	// net or the ground.
@@ -65,8 +67,11 @@ const MaxPins = 3
 // made.
 type Part struct {
 	Kind Kind
-	Name string
-	Pins [MaxPins]NetID
+	// Local is the part's name as written in its statement; inside an
+	// instance Design.PartName (or NameOf) puts the instance path in
+	// front.
+	Local string
+	Pins  [MaxPins]NetID
 
 	// Value is the part's main value in SI units: Ω, F, H, V or A; for a
 	// fuse its rated current.
@@ -106,8 +111,10 @@ type Part struct {
 }
 
 // Instance is one use of a block, for naming paths and related locations.
+// Instances form a tree through Parent; InstancePath gives the dotted
+// path.
 type Instance struct {
-	Path   string   // "CH2" or "BOARD.CH2"
+	Local  string   // its own name, "CH2" in BOARD.CH2
 	Block  string   // the block it instantiates
 	Pos    diag.Pos // the instance statement
 	End    diag.Pos
@@ -115,8 +122,9 @@ type Instance struct {
 }
 
 // Design is one checked file (with its includes flattened in). Parts and
-// nets inside block instances are named by their instance path: CH2.R,
-// REF.tap, A.B.R.
+// nets inside block instances keep their own names and their instance;
+// they are named by their instance path (CH2.R, REF.tap, A.B.R) through
+// PartName, NetName and Qualified (names.go).
 type Design struct {
 	File      string
 	Name      string
@@ -134,12 +142,13 @@ type Design struct {
 	// Value is its range's midpoint.
 	DriveRanges []DriveRange
 
-	netIndex map[string]NetID
+	netIndex map[string]NetID // nets outside instances, by name
+	index    *nameIndex       // the rest, built when first asked (names.go)
 }
 
 // NewDesign returns an empty design for the named file.
 func NewDesign(file string) *Design {
-	return &Design{File: file, Ground: NoNet, netIndex: make(map[string]NetID)}
+	return &Design{File: file, Ground: NoNet, netIndex: make(map[string]NetID), index: &nameIndex{}}
 }
 
 // Reserve makes room for about parts parts and nets nets, so that building
@@ -163,21 +172,18 @@ func (d *Design) Net(name string, pos, end diag.Pos) NetID {
 		return id
 	}
 	id := NetID(len(d.Nets))
-	d.Nets = append(d.Nets, Net{Name: name, Pos: pos, End: end, Inst: -1})
+	d.Nets = append(d.Nets, Net{Local: name, Pos: pos, End: end, Inst: -1})
 	d.netIndex[name] = id
 	return id
 }
 
-// localNet adds a net local to instance inst. Its name is the instance path
-// and the net's name in the block, so it cannot meet a top-level net unless
-// a quoted top-level name spells the same path; then the two stay apart
-// and only the first is found by name.
+// localNet adds a net local to instance inst, named name in its block. Its
+// full name is the instance path and that name, so it cannot meet a
+// top-level net unless a quoted top-level name spells the same path; then
+// the two stay apart and only the first is found by name.
 func (d *Design) localNet(name string, pos, end diag.Pos, inst int32) NetID {
 	id := NetID(len(d.Nets))
-	d.Nets = append(d.Nets, Net{Name: name, Pos: pos, End: end, Inst: inst})
-	if _, taken := d.netIndex[name]; !taken {
-		d.netIndex[name] = id
-	}
+	d.Nets = append(d.Nets, Net{Local: name, Pos: pos, End: end, Inst: inst})
 	return id
 }
 
@@ -188,18 +194,33 @@ func (d *Design) InstanceRelated(inst int32) []diag.Related {
 	var out []diag.Related
 	for inst >= 0 && int(inst) < len(d.Instances) {
 		in := &d.Instances[inst]
-		out = append(out, diag.Related{Pos: in.Pos, End: in.End, Message: "in " + in.Path + " (block " + in.Block + ")"})
+		out = append(out, diag.Related{Pos: in.Pos, End: in.End, Message: "in " + d.InstancePath(inst) + " (block " + in.Block + ")"})
 		inst = in.Parent
 	}
 	return out
 }
 
-// LookupNet returns the id of the named net, or NoNet.
+// LookupNet returns the id of the net of that name (with its instance
+// path), or NoNet. When a quoted top-level name spells the path of a net
+// inside an instance, the one made first is found.
 func (d *Design) LookupNet(name string) NetID {
+	best := NoNet
 	if id, ok := d.netIndex[name]; ok {
-		return id
+		best = id
 	}
-	return NoNet
+	if len(d.Instances) == 0 {
+		return best
+	}
+	x := d.names()
+	d.splits(name, func(inst int32, local string) bool {
+		if inst >= 0 {
+			if id, ok := x.nets[localKey{inst, local}]; ok && (best == NoNet || id < best) {
+				best = id
+			}
+		}
+		return true
+	})
+	return best
 }
 
 // AddPart appends p, counts its pins on their nets, and returns its id.

@@ -72,7 +72,7 @@ func (b *builder) drives(ports []pendingDrive) {
 			b.r.Invalid = true
 			continue
 		}
-		gname := d.Nets[d.Ground].Name
+		gname := d.Nets[d.Ground].Local
 		if name == gname {
 			b.report(CodeBadValue, b.pos(first.Start()), b.nameEnd(first), "port %s is the ground net: a drive between ground and itself drives nothing; name the net the outside world connects to", name)
 			b.r.Invalid = true
@@ -114,7 +114,7 @@ func (b *builder) drives(ports []pendingDrive) {
 // partNamed returns where the top-level part called name is, if any.
 func partNamed(d *Design, name string) (diag.Pos, bool) {
 	for i := range d.Parts {
-		if p := &d.Parts[i]; p.Inst < 0 && p.Name == name {
+		if p := &d.Parts[i]; p.Inst < 0 && p.Local == name {
 			return p.Pos, true
 		}
 	}

@@ -17,7 +17,7 @@ import (
 func (b *builder) stmt(sc *scope, st *bodyStmt) {
 	b.sc = sc
 	savedSubject := b.subject
-	b.subject = [2]string{sc.prefix, st.pt.Name.Text}
+	b.subject = subject{sc.inst, st.pt.Name.Text}
 	defer func() { b.sc, b.subject = nil, savedSubject }()
 	nets := make([]NetID, len(st.nets))
 	for i := range st.nets {
@@ -47,7 +47,7 @@ func (b *builder) net(sc *scope, st *bodyStmt, i int) NetID {
 	case refLocal:
 		id := sc.local[r.idx]
 		if id == NoNet {
-			id = d.localNet(sc.prefix+sc.blk.locals[r.idx], b.pos(n.Start()), b.nameEnd(n), sc.inst)
+			id = d.localNet(sc.blk.locals[r.idx], b.pos(n.Start()), b.nameEnd(n), sc.inst)
 			sc.local[r.idx] = id
 		}
 		return id
@@ -59,9 +59,9 @@ func (b *builder) net(sc *scope, st *bodyStmt, i int) NetID {
 func (b *builder) instance(parent *scope, st *bodyStmt, nets []NetID) {
 	d := b.r.Design
 	c := st.blk
-	path := parent.prefix + st.pt.Name.Text
+	name := st.pt.Name.Text
 	if parent.depth+c.depth > b.opt.MaxDepth {
-		b.report(CodeExpansionLimit, st.pos, st.end, "instance %s of block %s nests blocks %d deep, over the limit of %d (--max-depth)", path, c.name, parent.depth+c.depth, b.opt.MaxDepth)
+		b.report(CodeExpansionLimit, st.pos, st.end, "instance %s of block %s nests blocks %d deep, over the limit of %d (--max-depth)", d.Qualified(parent.inst, name), c.name, parent.depth+c.depth, b.opt.MaxDepth)
 		b.countOnly(nets)
 		return
 	}
@@ -71,27 +71,27 @@ func (b *builder) instance(parent *scope, st *bodyStmt, nets []NetID) {
 	}
 	if addSat(b.count, c.size) > b.opt.MaxParts {
 		b.refused = true
-		b.report(CodeExpansionLimit, st.pos, st.end, "instance %s of block %s expands to %s parts and instances; with the %s before it that is over the limit of %s (--max-parts)", path, c.name, count(c.size), count(b.count), count(b.opt.MaxParts))
+		b.report(CodeExpansionLimit, st.pos, st.end, "instance %s of block %s expands to %s parts and instances; with the %s before it that is over the limit of %s (--max-parts)", d.Qualified(parent.inst, name), c.name, count(c.size), count(b.count), count(b.opt.MaxParts))
 		b.countOnly(nets)
 		return
 	}
 	// An instance at the top level accounts for every name below it (see
 	// measure); nested ones are counted there.
-	if text := pathText(int64(len(path)), c); parent.blk.isTop && addSat(b.text, text) > b.opt.MaxNameBytes {
-		// Every part keeps its whole instance path, so long names nested
-		// deep multiply: the names are bounded as the parts are.
+	if text := pathText(int64(len(name)), c); parent.blk.isTop && addSat(b.text, text) > b.opt.MaxNameBytes {
+		// Each name is kept once, as written (names.go), so the names
+		// grow with the parts; a long name used often is bounded here.
 		b.refused = true
-		b.report(CodeExpansionLimit, st.pos, st.end, "instance %s of block %s makes %s of part, net and instance names; with the %s before it that is over the limit of %s on the names of one design (nest fewer levels or use shorter names)", path, c.name, byteCount(text), byteCount(b.text), byteCount(b.opt.MaxNameBytes))
+		b.report(CodeExpansionLimit, st.pos, st.end, "instance %s of block %s makes %s of part, net and instance names; with the %s before it that is over the limit of %s on the names of one design (use shorter names or fewer instances)", name, c.name, byteCount(text), byteCount(b.text), byteCount(b.opt.MaxNameBytes))
 		b.countOnly(nets)
 		return
 	}
 	if parent.blk.isTop {
-		b.text = addSat(b.text, pathText(int64(len(path)), c))
+		b.text = addSat(b.text, pathText(int64(len(name)), c))
 	}
 	b.count++
 	c.expanded = true
-	sc := &scope{blk: c, prefix: path + ".", inst: int32(len(d.Instances)), depth: parent.depth + 1}
-	d.Instances = append(d.Instances, Instance{Path: path, Block: c.name, Pos: st.pos, End: st.end, Parent: parent.inst})
+	sc := &scope{blk: c, inst: int32(len(d.Instances)), depth: parent.depth + 1}
+	d.Instances = append(d.Instances, Instance{Local: name, Block: c.name, Pos: st.pos, End: st.end, Parent: parent.inst})
 	sc.pins = make([]NetID, len(c.pins))
 	for j, i := range st.bind {
 		sc.pins[j] = nets[i]
@@ -124,7 +124,7 @@ func (b *builder) params(parent *scope, st *bodyStmt, c *blockDef) []binding {
 			b.sc = parent
 			q, ok := b.paramValue(a.Value, b.pos(a.Start()), b.pos(a.End()), st.pt.Name.Text, pd)
 			if ok && pd.dimKnown && (q.Dim != pd.dim || q.Percent != pd.percent) {
-				b.report(CodeParamUnit, b.pos(a.Start()), b.pos(a.End()), "instance %s: parameter %s of block %s is a %s (default %s), but is given %s, a %s", parent.prefix+st.pt.Name.Text, pd.name, c.name, nounOf(pd.dim, pd.percent), b.describe(pd.def), b.describe(a.Value), nounOf(q.Dim, q.Percent))
+				b.report(CodeParamUnit, b.pos(a.Start()), b.pos(a.End()), "instance %s: parameter %s of block %s is a %s (default %s), but is given %s, a %s", b.r.Design.Qualified(parent.inst, st.pt.Name.Text), pd.name, c.name, nounOf(pd.dim, pd.percent), b.describe(pd.def), b.describe(a.Value), nounOf(q.Dim, q.Percent))
 				ok = false
 			}
 			env[j] = binding{q, ok}

@@ -60,16 +60,15 @@ type Findings struct {
 	// ending the chain.
 	index map[mergeKey]int32
 	next  []int32
-	// paths returns the path of an instance of the design the findings
-	// are about; nil until Use names the design.
-	paths func(int32) string
+	// design is the design the findings are about; nil until Use names
+	// it.
+	design *Design
 }
 
 // Use names the design whose instances the findings' Inst fields index,
-// so that the other instances of a merged finding can be listed.
-func (fs *Findings) Use(d *Design) {
-	fs.paths = func(in int32) string { return d.Instances[in].Path }
-}
+// so that the other instances of a merged finding can be listed and a
+// finding added Unresolved is resolved as it comes.
+func (fs *Findings) Use(d *Design) { fs.design = d }
 
 type mergeKey struct {
 	pos  diag.Pos
@@ -87,6 +86,9 @@ func (fs *Findings) All() []Finding { return fs.list }
 // Add adds a finding, merging it with an earlier one made at the same
 // place in another instance.
 func (fs *Findings) Add(f Finding) {
+	if f.Inst == Unresolved && fs.design != nil {
+		fs.design.resolve(&f)
+	}
 	if f.Path == "" || f.Inst == Unresolved {
 		fs.push(f, -1)
 		return
@@ -117,9 +119,9 @@ func (fs *Findings) Add(f Finding) {
 	// The others: those already listed, the one not kept, and those
 	// that came merged with f.
 	kept.Also = prev.Also
-	kept.addAlso(loser.Inst, fs.paths)
+	kept.addAlso(loser.Inst, fs.design)
 	for _, in := range f.Also {
-		kept.addAlso(in, fs.paths)
+		kept.addAlso(in, fs.design)
 	}
 	kept.More = prev.More + f.More + 1
 }
@@ -158,14 +160,14 @@ func skipPath(s string, i int, path string) int {
 }
 
 // addAlso records instance in among the other instances of a merged
-// finding, keeping the maxAlso whose paths sort first.
-func (f *Finding) addAlso(in int32, path func(int32) string) {
-	if in < 0 || path == nil {
+// finding, keeping the maxAlso whose paths sort first (compared without
+// building them).
+func (f *Finding) addAlso(in int32, d *Design) {
+	if in < 0 || d == nil {
 		return
 	}
-	p := path(in)
 	i := 0
-	for i < len(f.Also) && path(f.Also[i]) < p {
+	for i < len(f.Also) && d.ComparePaths(f.Also[i], in) < 0 {
 		i++
 	}
 	if i == maxAlso {
@@ -192,17 +194,10 @@ func (fs *Findings) Finish(d *Design) diag.List {
 	}
 	fs.Use(d)
 	if len(late) > 0 {
-		insts := d.instancesOf(fs.list, late)
 		all := fs.list
 		fs.list, fs.next, fs.index = make([]Finding, 0, len(all)), nil, nil
 		for _, f := range all {
-			if f.Inst == Unresolved {
-				f.Inst = -1
-				if in, ok := insts[f.Subject]; ok && in >= 0 {
-					f.Inst, f.Path = in, d.Instances[in].Path
-				}
-			}
-			fs.Add(f)
+			fs.Add(f) // resolved on the way in
 		}
 	}
 	out := make(diag.List, len(fs.list))
@@ -220,7 +215,7 @@ func (fs *Findings) Finish(d *Design) diag.List {
 			dg.Related = append(dg.Related[:len(dg.Related):len(dg.Related)], d.InstanceRelated(f.Inst)...)
 			for _, in := range f.Also {
 				i := &d.Instances[in]
-				dg.Related = append(dg.Related, diag.Related{Pos: i.Pos, End: i.End, Message: "also in " + i.Path + " (block " + i.Block + ")"})
+				dg.Related = append(dg.Related, diag.Related{Pos: i.Pos, End: i.End, Message: "also in " + d.InstancePath(in) + " (block " + i.Block + ")"})
 			}
 		}
 		out[i] = dg
@@ -228,34 +223,12 @@ func (fs *Findings) Finish(d *Design) diag.List {
 	return out
 }
 
-// instancesOf finds, for the Subject of each listed finding, the instance
-// of the part or net of that name (a part first, when both exist). It
-// walks the design once, looking names up in a table of the few subjects
-// asked for.
-func (d *Design) instancesOf(fs []Finding, which []int) map[string]int32 {
-	want := make(map[string]int32, len(which))
-	for _, i := range which {
-		if s := fs[i].Subject; s != "" {
-			want[s] = -1
-		}
+// resolve finds the instance of a finding added Unresolved from its
+// Subject (the part or net of that name), without building any name but
+// the instance's path.
+func (d *Design) resolve(f *Finding) {
+	f.Inst = -1
+	if in := d.InstanceOf(f.Subject); in >= 0 {
+		f.Inst, f.Path = in, d.InstancePath(in)
 	}
-	if len(want) == 0 || len(d.Instances) == 0 {
-		return want
-	}
-	found := make(map[string]bool, len(want))
-	for i := range d.Parts {
-		p := &d.Parts[i]
-		if _, ok := want[p.Name]; ok && !found[p.Name] {
-			want[p.Name], found[p.Name] = p.Inst, true
-		}
-	}
-	for name := range want {
-		if found[name] {
-			continue
-		}
-		if id := d.LookupNet(name); id != NoNet {
-			want[name] = d.Nets[id].Inst
-		}
-	}
-	return want
 }

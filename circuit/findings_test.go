@@ -31,10 +31,10 @@ func TestSameBut(t *testing.T) {
 func TestFindingsMerge(t *testing.T) {
 	d := NewDesign("t.nodal")
 	for _, p := range []string{"A", "B", "C"} {
-		d.Instances = append(d.Instances, Instance{Path: p, Block: "lamp", Parent: -1})
+		d.Instances = append(d.Instances, Instance{Local: p, Block: "lamp", Parent: -1})
 	}
 	mk := func(in int32) Finding {
-		p := d.Instances[in].Path
+		p := d.InstancePath(in)
 		return Finding{Diagnostic: diag.Diagnostic{Pos: 7, Rule: "bad-value", Severity: diag.Error,
 			Message: "resistor " + p + ".R is 0 Ω", Subject: p + ".R"}, Code: CodeBadValue, Inst: in, Path: p}
 	}

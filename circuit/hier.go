@@ -15,9 +15,11 @@ package circuit
 //     before anything is expanded.
 //  4. expand (expand.go): top-level statements in order, each instance walking its
 //     block's prepared statements with its pin nets and parameter values.
-//     Per instance this allocates its path, its pin, local-net and
-//     parameter slices, and the parts themselves: nothing is re-parsed and
-//     no name is built more than once. Values are read by part.go,
+//     Per instance this allocates its pin, local-net and parameter
+//     slices, and the parts themselves: nothing is re-parsed, and no name
+//     is built at all. Parts, nets and instances keep their own names
+//     and their instance; the dotted paths are built only for messages
+//     (names.go). Values are read by part.go,
 //     value.go and attrs.go; expressions in a scope by scopeeval.go.
 //
 // Then probe.go elaborates, into a scratch design, the blocks no statement
@@ -33,8 +35,9 @@ import (
 const (
 	DefaultMaxDepth = 64
 	DefaultMaxParts = 10_000_000
-	// DefaultMaxNameBytes bounds the instance-path text of one design:
-	// 256 MiB, some 25 bytes a name at the part limit.
+	// DefaultMaxNameBytes bounds the names that instances make, each
+	// counted once at the length written: 256 MiB, some 25 bytes a name
+	// at the part limit.
 	DefaultMaxNameBytes = 256 << 20
 )
 
@@ -53,8 +56,9 @@ type Options struct {
 	// MaxParts bounds the parts and instances the design expands to; 0
 	// means DefaultMaxParts.
 	MaxParts int64
-	// MaxNameBytes bounds the bytes of the dotted names (parts, local
-	// nets, instances) that instances make; 0 means DefaultMaxNameBytes.
+	// MaxNameBytes bounds the bytes of the names (parts, local nets,
+	// instances) that instances make, each counted once as written, since
+	// each is kept once; 0 means DefaultMaxNameBytes.
 	MaxNameBytes int64
 }
 
@@ -81,8 +85,7 @@ type blockDef struct {
 	state     uint8 // measure: 0 new, 1 on the stack, 2 done
 	recursive bool
 	size      int64 // parts and instances one instance makes, itself included
-	names     int64 // names one instance makes below its own path: parts, instances, local nets
-	text      int64 // bytes of those names, without the instance's own path in front
+	text      int64 // bytes of the names one instance makes below it (parts, instances, local nets), each as written
 	parts     int64 // built-in parts one instance makes
 	depth     int   // 1 for a block that instantiates no block
 	used      bool  // named by some instance statement
@@ -128,13 +131,12 @@ type bodyStmt struct {
 
 // scope is one block instance being expanded (or the top level).
 type scope struct {
-	blk    *blockDef
-	prefix string // "CH2." inside instance CH2; "" at the top
-	pins   []NetID
-	local  []NetID
-	env    []binding
-	inst   int32
-	depth  int
+	blk   *blockDef
+	pins  []NetID
+	local []NetID
+	env   []binding
+	inst  int32 // the instance, -1 at the top (and for a block probed alone)
+	depth int
 }
 
 type binding struct {

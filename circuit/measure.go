@@ -9,17 +9,11 @@ import (
 	"strings"
 )
 
-// pathText is the bytes of the names an instance of c makes, its own path
-// of n bytes included: every name below it carries that path and a dot.
+// pathText is the bytes of the names an instance of c makes, its own name
+// of n bytes included, each name counted once as written: the names below
+// it share its path (names.go).
 func pathText(n int64, c *blockDef) int64 {
-	return addSat(addSat(n, mulSat(n+1, c.names)), c.text)
-}
-
-func mulSat(a, b int64) int64 {
-	if a != 0 && b > math.MaxInt64/a {
-		return math.MaxInt64
-	}
-	return a * b
+	return addSat(n, c.text)
 }
 
 func addSat(a, b int64) int64 {
@@ -38,7 +32,6 @@ func (b *builder) measure(bd *blockDef, stack []*blockDef) {
 	bd.state = 1
 	stack = append(stack, bd)
 	size, parts, depth := int64(1), int64(0), 0
-	names := int64(len(bd.locals))
 	var text int64
 	for _, l := range bd.locals {
 		text = addSat(text, int64(len(l)))
@@ -51,7 +44,6 @@ func (b *builder) measure(bd *blockDef, stack []*blockDef) {
 		if c == nil {
 			size = addSat(size, 1)
 			parts = addSat(parts, 1)
-			names = addSat(names, 1)
 			text = addSat(text, int64(len(st.pt.Name.Text)))
 			continue
 		}
@@ -88,11 +80,10 @@ func (b *builder) measure(bd *blockDef, stack []*blockDef) {
 		size = addSat(size, c.size)
 		parts = addSat(parts, c.parts)
 		depth = max(depth, c.depth)
-		names = addSat(names, addSat(1, c.names))
 		text = addSat(text, pathText(int64(len(st.pt.Name.Text)), c))
 	}
 	bd.size, bd.parts, bd.depth = size, parts, depth+1
-	bd.names, bd.text = names, text
+	bd.text = text
 	bd.state = 2
 }
 

@@ -16,14 +16,10 @@ func (b *builder) part(sc *scope, st *bodyStmt, nets []NetID) {
 	d := b.r.Design
 	pt := st.pt
 	pos, end := st.pos, st.end
-	name := pt.Name.Text
-	if sc.prefix != "" {
-		name = sc.prefix + name
-	}
 	word := pt.Kind.Text
 	kind := st.kind
 	if len(pt.Params) > 0 {
-		b.report(CodeSyntax, b.pos(pt.Params[0].Start()), end, "%s %s: parameters in [ ] are for block instances, not built-in parts", word, name)
+		b.report(CodeSyntax, b.pos(pt.Params[0].Start()), end, "%s %s: parameters in [ ] are for block instances, not built-in parts", word, d.Qualified(sc.inst, pt.Name.Text))
 		b.countOnly(nets)
 		return
 	}
@@ -31,7 +27,7 @@ func (b *builder) part(sc *scope, st *bodyStmt, nets []NetID) {
 	// table (reserved for the whole design), and taken back if it cannot
 	// be placed: a Part built on the side would be a heap object per part,
 	// as the attribute table's setters take its address.
-	d.Parts = append(d.Parts, Part{Kind: kind, Name: name, Pos: pos, End: end, Inst: sc.inst})
+	d.Parts = append(d.Parts, Part{Kind: kind, Local: pt.Name.Text, Pos: pos, End: end, Inst: sc.inst})
 	p := &d.Parts[len(d.Parts)-1]
 	drop := func() {
 		d.Parts = d.Parts[:len(d.Parts)-1]
@@ -77,7 +73,7 @@ func (b *builder) countOnly(nets []NetID) {
 			if b.r.Unsure == nil {
 				b.r.Unsure = map[string]bool{}
 			}
-			b.r.Unsure[net.Name] = true
+			b.r.Unsure[b.r.Design.NetName(n)] = true
 		}
 	}
 	b.r.Incomplete = true
@@ -99,7 +95,7 @@ func (b *builder) pins(p *Part, pt *grammar.Part, nets []NetID, info *KindInfo) 
 	word := pt.Kind.Text
 	n := len(info.Pins)
 	if len(pt.Pins) != n {
-		b.report(CodePinCount, p.Pos, p.End, "%s %s has %s; %s has %s: (%s)", word, p.Name, plural(len(pt.Pins), "pin"), article(p.Kind.String()), countWord(n), strings.Join(info.Pins, ", "))
+		b.report(CodePinCount, p.Pos, p.End, "%s %s has %s; %s has %s: (%s)", word, b.nameOf(p), plural(len(pt.Pins), "pin"), article(p.Kind.String()), countWord(n), strings.Join(info.Pins, ", "))
 		return false
 	}
 	var set [MaxPins]bool
@@ -113,15 +109,15 @@ func (b *builder) pins(p *Part, pt *grammar.Part, nets []NetID, info *KindInfo) 
 				}
 			}
 			if slot < 0 {
-				b.report(CodePinCount, p.Pos, p.End, "%s %s has no pin named %q; its pins are %s", word, p.Name, pin.Label.Text, andList(info.Pins))
+				b.report(CodePinCount, p.Pos, p.End, "%s %s has no pin named %q; its pins are %s", word, b.nameOf(p), pin.Label.Text, andList(info.Pins))
 				return false
 			}
 		} else if i > 0 && pt.Pins[0].Label != nil {
-			b.report(CodePinCount, p.Pos, p.End, "%s %s mixes named and positional pins; name %s (%s=…) or %s", word, p.Name, allOf(n), strings.Join(info.Pins, "=…, "), noneOf(n))
+			b.report(CodePinCount, p.Pos, p.End, "%s %s mixes named and positional pins; name %s (%s=…) or %s", word, b.nameOf(p), allOf(n), strings.Join(info.Pins, "=…, "), noneOf(n))
 			return false
 		}
 		if set[slot] {
-			b.report(CodePinCount, p.Pos, p.End, "%s %s binds pin %s twice", word, p.Name, info.Pins[slot])
+			b.report(CodePinCount, p.Pos, p.End, "%s %s binds pin %s twice", word, b.nameOf(p), info.Pins[slot])
 			return false
 		}
 		set[slot] = true

@@ -89,13 +89,13 @@ func (b *builder) prepare(bd *blockDef) {
 	localIndex := map[string]int{}
 	names := make(map[string]*bodyStmt, len(bd.body))
 	pinUsed := make([]bool, len(bd.pins))
-	defer func() { b.subject = [2]string{} }()
+	defer func() { b.subject = subject{inst: -1} }()
 	for _, st := range bd.body {
 		pt := st.pt
 		st.ok = true
-		b.subject = [2]string{}
+		b.subject = subject{inst: -1}
 		if bd.isTop {
-			b.subject[1] = pt.Name.Text // a block's text has no instance path
+			b.subject.name = pt.Name.Text // a block's text has no instance path
 		}
 		if len(pt.Pins) <= len(st.pinNets) {
 			st.nets = st.pinNets[:len(pt.Pins)]

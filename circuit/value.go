@@ -90,9 +90,9 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 		states := strings.Join(info.States, " or ")
 		if v == nil || v.Word == "" {
 			if v == nil {
-				b.report(CodeMissingValue, p.Pos, p.End, "%s %s needs its state: %s", word, p.Name, states)
+				b.report(CodeMissingValue, p.Pos, p.End, "%s %s needs its state: %s", word, b.nameOf(p), states)
 			} else {
-				b.report(CodeBadValue, vpos, vend, "%s %s: %s is not a %s state; write %s", word, p.Name, b.describe(v), word, states)
+				b.report(CodeBadValue, vpos, vend, "%s %s: %s is not a %s state; write %s", word, b.nameOf(p), b.describe(v), word, states)
 			}
 			return false
 		}
@@ -101,7 +101,7 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 		return true
 	case info.Value == units.None:
 		if v != nil {
-			b.report(CodeBadValue, vpos, vend, "%s %s takes %s", word, p.Name, b.noValueHint(p, v))
+			b.report(CodeBadValue, vpos, vend, "%s %s takes %s", word, b.nameOf(p), b.noValueHint(p, v))
 			return false
 		}
 		return true
@@ -111,15 +111,15 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 		if hint == "" {
 			hint = " in " + info.Value.Symbol()
 		}
-		b.report(CodeMissingValue, p.Pos, p.End, "%s %s needs a value%s", word, p.Name, hint)
+		b.report(CodeMissingValue, p.Pos, p.End, "%s %s needs a value%s", word, b.nameOf(p), hint)
 		return false
 	}
 	if b.notANumber(v) {
-		b.report(CodeBadValue, vpos, b.unitWordEnd(pt, vend), "%s %s: %s is not a number; write a finite value with its unit, e.g. %s", word, p.Name, v.Param.Text, b.example(p.Kind))
+		b.report(CodeBadValue, vpos, b.unitWordEnd(pt, vend), "%s %s: %s is not a number; write a finite value with its unit, e.g. %s", word, b.nameOf(p), v.Param.Text, b.example(p.Kind))
 		return false
 	}
 	if v.Word != "" {
-		b.report(CodeBadValue, vpos, vend, "%s %s: %s is a switch state, not a %s", word, p.Name, v.Word, info.Value.Noun())
+		b.report(CodeBadValue, vpos, vend, "%s %s: %s is a switch state, not a %s", word, b.nameOf(p), v.Word, info.Value.Noun())
 		return false
 	}
 	if w := unitWord(pt); w != "" {
@@ -129,20 +129,20 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 		if err == nil {
 			err = &units.Error{Msg: fmt.Sprintf("%q is not a unit", v.Num+" "+w)}
 		}
-		b.reportFix(b.megWordFix(pt, info.Value), CodeUnitMismatch, vpos, b.unitWordEnd(pt, vend), "%s %s: %s", word, p.Name, b.unitHint(p.Kind, err))
+		b.reportFix(b.megWordFix(pt, info.Value), CodeUnitMismatch, vpos, b.unitWordEnd(pt, vend), "%s %s: %s", word, b.nameOf(p), b.unitHint(p.Kind, err))
 		return false
 	}
 	q, err := b.quantity(v)
 	if err != nil {
 		rule, silent := errRule(err)
 		if !silent {
-			b.reportFix(b.megFix(v, info.Value), rule, vpos, vend, "%s %s: %s", word, p.Name, b.unitHint(p.Kind, err))
+			b.reportFix(b.megFix(v, info.Value), rule, vpos, vend, "%s %s: %s", word, b.nameOf(p), b.unitHint(p.Kind, err))
 		}
 		return false
 	}
 	um := b.unitRule(v)
 	if q.Percent {
-		b.report(um, vpos, vend, "%s %s: %s is a percentage; %% belongs to tol", word, p.Name, b.describe(v))
+		b.report(um, vpos, vend, "%s %s: %s is a percentage; %% belongs to tol", word, b.nameOf(p), b.describe(v))
 		return false
 	}
 	if p.Kind.shared() {
@@ -152,10 +152,10 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 		case found:
 			p.Kind = k
 		case q.Dim == units.None:
-			b.report(um, vpos, vend, "%s %s: %s has no unit; write %s", word, p.Name, b.describe(v), p.Kind.siblings(func(sym, name string) string { return b.describe(v) + " " + sym + " for " + article(name) }))
+			b.report(um, vpos, vend, "%s %s: %s has no unit; write %s", word, b.nameOf(p), b.describe(v), p.Kind.siblings(func(sym, name string) string { return b.describe(v) + " " + sym + " for " + article(name) }))
 			return false
 		default:
-			b.report(um, vpos, vend, "%s %s: %s is a %s; %s is given in %s", word, p.Name, b.describe(v), q.Dim.Noun(), article(word), p.Kind.siblings(func(sym, name string) string { return sym + " (" + name + ")" }))
+			b.report(um, vpos, vend, "%s %s: %s is a %s; %s is given in %s", word, b.nameOf(p), b.describe(v), q.Dim.Noun(), article(word), p.Kind.siblings(func(sym, name string) string { return sym + " (" + name + ")" }))
 			return false
 		}
 		p.Value = q.Value
@@ -163,9 +163,9 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 	}
 	if q.Dim != info.Value {
 		if q.Dim == units.None {
-			b.reportFix(unitFix(vend, info.Value), um, vpos, vend, "%s %s: %s has no unit; write %s %s", word, p.Name, b.describe(v), b.describe(v), info.Value.Symbol())
+			b.reportFix(unitFix(vend, info.Value), um, vpos, vend, "%s %s: %s has no unit; write %s %s", word, b.nameOf(p), b.describe(v), b.describe(v), info.Value.Symbol())
 		} else {
-			b.report(um, vpos, vend, "%s %s is given as a %s (%s); %s takes a %s in %s", word, p.Name, q.Dim.Noun(), b.describeQ(v, q), article(word), info.Value.Noun(), info.Value.Symbol())
+			b.report(um, vpos, vend, "%s %s is given as a %s (%s); %s takes a %s in %s", word, b.nameOf(p), q.Dim.Noun(), b.describeQ(v, q), article(word), info.Value.Noun(), info.Value.Symbol())
 		}
 		return false
 	}
@@ -173,9 +173,9 @@ func (b *builder) value(p *Part, pt *grammar.Part) bool {
 	if q.Value <= 0 {
 		switch {
 		case p.Kind == Resistor && q.Value == 0:
-			b.report(CodeBadValue, vpos, vend, "resistor %s is 0 Ω; use a wire for a zero-ohm link", p.Name)
+			b.report(CodeBadValue, vpos, vend, "resistor %s is 0 Ω; use a wire for a zero-ohm link", b.nameOf(p))
 		default:
-			b.report(CodeBadValue, vpos, vend, "%s %s: %s %s must be positive", word, p.Name, info.Value.Noun(), units.Format(q.Value, q.Dim))
+			b.report(CodeBadValue, vpos, vend, "%s %s: %s %s must be positive", word, b.nameOf(p), info.Value.Noun(), units.Format(q.Value, q.Dim))
 		}
 		return false
 	}

@@ -67,7 +67,7 @@ func (b *builder) quantityRange(lo, hi *grammar.Value, what string) (low, high u
 func toAttr(p *Part, a *grammar.Attr, bad func(rule Code, format string, args ...any)) {
 	switch {
 	case p.Kind.Info().OnPort && len(a.Values) == 0:
-		bad(CodeMissingValue, "\"to\" needs the top of the range after it, as in port %s 4.5 V to 5.5 V", p.Name)
+		bad(CodeMissingValue, "\"to\" needs the top of the range after it, as in port %s 4.5 V to 5.5 V", p.Local) // a drive is at the top level
 	case p.Kind.Info().OnPort:
 		bad(CodeBadValue, "a range has two ends, LOW to HIGH; this one goes on past its top")
 	default:

@@ -109,7 +109,7 @@ func (s *Server) hoverPart(b *strings.Builder, doc indexed, ref *partRef, last *
 		part := &d.Parts[id]
 		b.WriteString("\n")
 		if len(copies) > 1 || part.Inst >= 0 {
-			fmt.Fprintf(b, "**%s**: ", md(part.Name))
+			fmt.Fprintf(b, "**%s**: ", md(d.NameOf(part)))
 		}
 		if dim := part.Kind.Info().Value; dim != units.None {
 			fmt.Fprintf(b, "%s %s", md(part.Kind.String()), md(units.Format(part.Value, dim)))
@@ -135,7 +135,7 @@ func (s *Server) hoverPart(b *strings.Builder, doc indexed, ref *partRef, last *
 			case u.Derated():
 				mark = " (past the derating limit)"
 			}
-			fmt.Fprintf(b, "- %s%s\n", md(rules.Describe(part, u)), mark)
+			fmt.Fprintf(b, "- %s%s\n", md(rules.Describe(d, part, u)), mark)
 			if int(id) < len(worst) && j < len(worst[id]) {
 				c := worst[id][j]
 				how := "first-order estimate"

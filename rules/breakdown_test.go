@@ -13,7 +13,7 @@ import (
 // power, both by reverse-voltage; forward, and without breakdown, the
 // ratings are judged as before.
 func TestJudgeBreakdown(t *testing.T) {
-	clamp := circuit.Part{Name: "D1", Kind: circuit.Diode, VF: 0.7, VFAt: 10e-3, Breakdown: 5.1, BreakdownAt: 5e-3,
+	clamp := circuit.Part{Local: "D1", Kind: circuit.Diode, VF: 0.7, VFAt: 10e-3, Breakdown: 5.1, BreakdownAt: 5e-3,
 		RatedCurrent: 10e-3, RatedPower: 50e-3}
 	plain := clamp
 	plain.Breakdown, plain.BreakdownAt = 0, 0
@@ -36,7 +36,7 @@ func TestJudgeBreakdown(t *testing.T) {
 	if math.Abs(cu.Frac-1.2) > 1e-12 || !cu.Over() || math.Abs(pu.Frac-1.248) > 1e-12 || !pu.Over() {
 		t.Errorf("in breakdown: current %g, power %g of their ratings; want 1.2 and 1.248", cu.Frac, pu.Frac)
 	}
-	if got := rules.Describe(&clamp, cu); got != "D1 carries 12.0 mA in reverse breakdown, 120 % of its 10.0 mA rating" {
+	if got := rules.Describe(nil, &clamp, cu); got != "D1 carries 12.0 mA in reverse breakdown, 120 % of its 10.0 mA rating" {
 		t.Errorf("described as %q", got)
 	}
 	// The same quantities on a diode without breakdown: forward current 0,

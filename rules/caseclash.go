@@ -5,6 +5,7 @@ import (
 	"unicode"
 	"unicode/utf8"
 
+	"nodal/circuit"
 	"nodal/diag"
 )
 
@@ -36,35 +37,69 @@ is rarely meant.`,
 		d := p.Design
 		n := max(len(d.Nets), len(d.Parts))
 		keys, tmp := make([]uint64, 0, n), make([]uint64, n)
+		prefix := instanceHashes(d)
 		for i := range d.Nets {
 			if net := &d.Nets[i]; net.Pins > 0 || net.Port {
-				keys = append(keys, foldHash(net.Name)<<32|uint64(i))
+				keys = append(keys, fullHash(prefix, net.Inst, net.Local)<<32|uint64(i))
 			}
 		}
-		foldGroups(keys, tmp, func(i int) string { return d.Nets[i].Name }, func(first, i int) {
+		foldGroups(keys, tmp, func(i int) string { return d.NetName(i32(i)) }, func(first, i int) {
 			f, net := &d.Nets[first], &d.Nets[i]
-			p.Report(diag.Diagnostic{Pos: net.Pos, End: net.End, Subject: net.Name, Message: "net " + netName(d, i32(i)) + " differs from net " + f.Name + " only in letter case; names are case-sensitive, so they are two nets",
-				Related: []diag.Related{{Pos: f.Pos, Message: "net " + f.Name + " is first used here"}}})
+			fname := d.NetName(i32(first))
+			p.Report(diag.Diagnostic{Pos: net.Pos, End: net.End, Subject: d.NetName(i32(i)), Message: "net " + netName(d, i32(i)) + " differs from net " + fname + " only in letter case; names are case-sensitive, so they are two nets",
+				Related: []diag.Related{{Pos: f.Pos, Message: "net " + fname + " is first used here"}}})
 		})
 		keys = keys[:0]
 		for i := range d.Parts {
-			keys = append(keys, foldHash(d.Parts[i].Name)<<32|uint64(i))
+			q := &d.Parts[i]
+			keys = append(keys, fullHash(prefix, q.Inst, q.Local)<<32|uint64(i))
 		}
-		foldGroups(keys, tmp, func(i int) string { return d.Parts[i].Name }, func(first, i int) {
+		foldGroups(keys, tmp, func(i int) string { return d.PartName(circuit.PartID(i)) }, func(first, i int) {
 			f, q := &d.Parts[first], &d.Parts[i]
-			p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: q.Name, Message: "part " + q.Name + " differs from part " + f.Name + " only in letter case",
-				Related: []diag.Related{{Pos: f.Pos, Message: f.Name + " is here"}}})
+			fname, qname := d.NameOf(f), d.NameOf(q)
+			p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: qname, Message: "part " + qname + " differs from part " + fname + " only in letter case",
+				Related: []diag.Related{{Pos: f.Pos, Message: fname + " is here"}}})
 		})
 		return nil, nil
 	},
 }
 
+const fnvOffset, fnvPrime = 14695981039346656037, 1099511628211
+
 // foldHash is the upper 32 bits of the 64-bit FNV-1a hash of the
 // lower-cased runes of s (each rune as its UTF-8 bytes; an invalid byte as
 // U+FFFD, as strings.ToLower writes it).
-func foldHash(s string) uint64 {
-	const offset, prime = 14695981039346656037, 1099511628211
-	h := uint64(offset)
+func foldHash(s string) uint64 { return foldFrom(fnvOffset, s) >> 32 }
+
+// instanceHashes returns, for each instance, the FNV-1a state after the
+// lower-cased runes of its path and a dot: FNV-1a reads its input in
+// order, so a name inside the instance hashes on from there, and no
+// dotted name is built. A dot is ASCII, so a name's runes decode the same
+// alone as in the path.
+func instanceHashes(d *circuit.Design) []uint64 {
+	hs := make([]uint64, len(d.Instances))
+	for i := range d.Instances {
+		in := &d.Instances[i]
+		h := uint64(fnvOffset)
+		if in.Parent >= 0 && int(in.Parent) < i {
+			h = hs[in.Parent] // a parent is made before its instances
+		}
+		hs[i] = foldFrom(foldFrom(h, in.Local), ".")
+	}
+	return hs
+}
+
+// fullHash is foldHash of local with instance inst's path in front.
+func fullHash(prefix []uint64, inst int32, local string) uint64 {
+	if inst < 0 || int(inst) >= len(prefix) {
+		return foldHash(local)
+	}
+	return foldFrom(prefix[inst], local) >> 32
+}
+
+// foldFrom continues the FNV-1a hash h over the lower-cased runes of s.
+func foldFrom(h uint64, s string) uint64 {
+	const prime = fnvPrime
 	for i := 0; i < len(s); {
 		c := s[i]
 		if c < utf8.RuneSelf {
@@ -82,7 +117,7 @@ func foldHash(s string) uint64 {
 			h = (h ^ uint64(b)) * prime
 		}
 	}
-	return h >> 32
+	return h
 }
 
 // foldCompare compares a and b as strings.ToLower(a) and strings.ToLower(b)
@@ -130,18 +165,24 @@ func foldGroups(keys, tmp []uint64, name func(int) string, clash func(first, i i
 			hi++
 		}
 		if hi-lo > 1 {
+			// The names of a run are built once each (inside instances
+			// name builds the dotted path).
 			run := keys[lo:hi]
+			names := make(map[int]string, len(run))
+			for _, k := range run {
+				names[int(uint32(k))] = name(int(uint32(k)))
+			}
 			slices.SortStableFunc(run, func(x, y uint64) int {
-				return foldCompare(name(int(uint32(x))), name(int(uint32(y))))
+				return foldCompare(names[int(uint32(x))], names[int(uint32(y))])
 			})
 			first := int(uint32(run[0]))
 			for k := 1; k < len(run); k++ {
 				i := int(uint32(run[k]))
-				if foldCompare(name(first), name(i)) != 0 {
+				if foldCompare(names[first], names[i]) != 0 {
 					first = i
 					continue
 				}
-				if name(i) != name(first) {
+				if names[i] != names[first] {
 					clash(first, i)
 				}
 			}

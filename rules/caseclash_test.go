@@ -23,9 +23,9 @@ func clashReference(d *circuit.Design) []string {
 		if n.Pins == 0 && !n.Port {
 			continue
 		}
-		k := strings.ToLower(n.Name)
+		k := strings.ToLower(d.NetNameOf(&n))
 		if j, ok := nets[k]; ok {
-			if d.Nets[j].Name != n.Name {
+			if d.NetNameOf(&d.Nets[j]) != d.NetNameOf(&n) {
 				out = append(out, fmt.Sprint("net ", i, " ", j))
 			}
 			continue
@@ -34,9 +34,9 @@ func clashReference(d *circuit.Design) []string {
 	}
 	parts := map[string]int{}
 	for i, q := range d.Parts {
-		k := strings.ToLower(q.Name)
+		k := strings.ToLower(d.NameOf(&q))
 		if j, ok := parts[k]; ok {
-			if d.Parts[j].Name != q.Name {
+			if d.NameOf(&d.Parts[j]) != d.NameOf(&q) {
 				out = append(out, fmt.Sprint("part ", i, " ", j))
 			}
 			continue
@@ -91,11 +91,11 @@ func TestCaseClashMatchesReference(t *testing.T) {
 		nets := 2 + r.IntN(60)
 		for i := range nets {
 			pos := diag.Pos(i + 1)
-			d.Nets = append(d.Nets, circuit.Net{Name: name(), Pos: pos, End: pos, Inst: -1, Pins: int32(r.IntN(3)), Port: r.IntN(8) == 0})
+			d.Nets = append(d.Nets, circuit.Net{Local: name(), Pos: pos, End: pos, Inst: -1, Pins: int32(r.IntN(3)), Port: r.IntN(8) == 0})
 		}
 		for i := range r.IntN(60) {
 			pos := diag.Pos(nets + i + 1)
-			d.Parts = append(d.Parts, circuit.Part{Name: name(), Pos: pos, End: pos, Inst: -1})
+			d.Parts = append(d.Parts, circuit.Part{Local: name(), Pos: pos, End: pos, Inst: -1})
 		}
 		want, got := clashReference(d), runClash(t, d)
 		if !slices.Equal(got, want) {
@@ -111,11 +111,11 @@ func TestCaseClashLarge(t *testing.T) {
 	d := circuit.NewDesign("t.nodal")
 	for i := range 50_000 {
 		pos := diag.Pos(i + 1)
-		d.Parts = append(d.Parts, circuit.Part{Name: fmt.Sprintf("r%d", i), Pos: pos, End: pos, Inst: -1})
+		d.Parts = append(d.Parts, circuit.Part{Local: fmt.Sprintf("r%d", i), Pos: pos, End: pos, Inst: -1})
 	}
 	for i := 0; i < 50_000; i += 250 {
 		pos := diag.Pos(len(d.Parts) + 1)
-		d.Parts = append(d.Parts, circuit.Part{Name: fmt.Sprintf("R%d", i), Pos: pos, End: pos, Inst: -1})
+		d.Parts = append(d.Parts, circuit.Part{Local: fmt.Sprintf("R%d", i), Pos: pos, End: pos, Inst: -1})
 	}
 	want, got := clashReference(d), runClash(t, d)
 	if len(want) != 200 || !slices.Equal(got, want) {

@@ -30,7 +30,7 @@ capacitors touch.`,
 		for _, c := range t.Cutsets {
 			first := &d.Nets[c.Nets[0]]
 			var srcs []string
-			dg := diag.Diagnostic{Pos: first.Pos, End: first.End, Subject: first.Name}
+			dg := diag.Diagnostic{Pos: first.Pos, End: first.End, Subject: d.NetNameOf(first)}
 			inSet := map[int32]bool{}
 			for _, n := range c.Nets {
 				inSet[int32(n)] = true
@@ -41,8 +41,8 @@ capacitors touch.`,
 				if _, to := q.Ends(); inSet[int32(to)] {
 					dir = "in"
 				}
-				srcs = append(srcs, fmt.Sprintf("%s %s %s", q.Name, units.Format(q.Value, units.Current), dir))
-				dg.Related = append(dg.Related, diag.Related{Pos: q.Pos, End: q.End, Message: q.Name + " crosses the cut"})
+				srcs = append(srcs, fmt.Sprintf("%s %s %s", d.NameOf(q), units.Format(q.Value, units.Current), dir))
+				dg.Related = append(dg.Related, diag.Related{Pos: q.Pos, End: q.End, Message: d.NameOf(q) + " crosses the cut"})
 			}
 			which, it := "net "+netList(d, c.Nets, 8)+" is", "it"
 			if len(c.Nets) > 1 {

@@ -37,7 +37,7 @@ operating point cannot be solved. Each island is listed once.`,
 			if len(is.Nets) > 1 {
 				what, them, their = "nets "+netList(d, is.Nets, 8)+" have", "them", "their"
 			}
-			p.Report(diag.Diagnostic{Pos: first.Pos, End: first.End, Subject: first.Name,
+			p.Report(diag.Diagnostic{Pos: first.Pos, End: first.End, Subject: d.NetNameOf(first),
 				Message: fmt.Sprintf("%s no DC path to ground %s: only capacitors, current sources or open switches reach %s, so %s DC voltage is undefined", what, netName(d, d.Ground), them, their)})
 		}
 		return nil, nil

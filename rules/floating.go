@@ -21,15 +21,15 @@ mean".`,
 	Run: func(p *Pass) (any, error) {
 		t := topo(p)
 		d := p.Design
-		var names []string
+		var names suggestNames
 		if len(t.Floating) > 0 {
-			names = make([]string, 0, len(d.Nets))
+			names.d = d
 			for i := range d.Nets {
 				// A candidate is a net that something touches: a "did
 				// you mean" for a port or ground left unused would point
 				// at another dangling name.
 				if n := &d.Nets[i]; n.Pins > 1 || n.Pins > 0 && (n.Port || circuit.NetID(i) == d.Ground) {
-					names = append(names, d.Nets[i].Name)
+					names.ids = append(names.ids, circuit.NetID(i))
 				}
 			}
 		}
@@ -42,17 +42,18 @@ mean".`,
 		k := 0
 		for _, n := range t.Floating {
 			net := &d.Nets[n]
-			if p.Build.Unsure[net.Name] {
+			name := d.NetName(n)
+			if p.Build.Unsure[name] {
 				continue // a line that did not parse may use it too
 			}
 			msg := "net " + netName(d, n) + " touches only one pin"
 			if o, ok := owner[n]; ok {
 				part := &d.Parts[o.part]
-				msg += " (pin " + part.Kind.Info().Pins[o.pin] + " of " + part.Name + ")"
+				msg += " (pin " + part.Kind.Info().Pins[o.pin] + " of " + d.NameOf(part) + ")"
 			}
 			path := ""
 			if net.Inst >= 0 {
-				path = d.Instances[net.Inst].Path + "."
+				path = d.InstancePath(net.Inst) + "."
 			}
 			s := ""
 			if h, ok := hints[net.Pos]; ok && net.Inst >= 0 {
@@ -62,7 +63,7 @@ mean".`,
 				}
 			} else if k < 100 { // suggestions compare against every net: keep that bounded
 				k++
-				s = diag.Suggest(net.Name, names)
+				s = names.suggest(name)
 				if net.Inst >= 0 {
 					h := hint{s: s}
 					if path != "" && strings.HasPrefix(s, path) {
@@ -80,7 +81,7 @@ mean".`,
 			default:
 				msg += "; connect it, or declare it with port if it leaves the file"
 			}
-			p.Report(diag.Diagnostic{Pos: net.Pos, End: net.End, Message: msg, Subject: net.Name, Fixes: floatingFixes(p, net, s)})
+			p.Report(diag.Diagnostic{Pos: net.Pos, End: net.End, Message: msg, Subject: name, Fixes: floatingFixes(p, net, s)})
 		}
 		return nil, nil
 	},
@@ -123,10 +124,10 @@ func floatingFixes(p *Pass, net *circuit.Net, suggestion string) []diag.Fix {
 		fixes = append(fixes, diag.Fix{Message: "write " + suggestion,
 			Edits: []diag.Edit{{Pos: net.Pos, End: net.End, NewText: writtenName(suggestion)}}})
 	}
-	if pos := p.Fset.Position(net.Pos); pos.IsValid() && !strings.Contains(net.Name, "\"") {
+	if pos := p.Fset.Position(net.Pos); pos.IsValid() && !strings.Contains(net.Local, "\"") {
 		lineStart := net.Pos - diag.Pos(pos.Column-1)
-		fixes = append(fixes, diag.Fix{Message: "declare " + netNameText(net.Name) + " a port (a net that leaves the file)",
-			Edits: []diag.Edit{{Pos: lineStart, End: lineStart, NewText: "port " + writtenName(net.Name) + "\n"}}})
+		fixes = append(fixes, diag.Fix{Message: "declare " + netNameText(net.Local) + " a port (a net that leaves the file)",
+			Edits: []diag.Edit{{Pos: lineStart, End: lineStart, NewText: "port " + writtenName(net.Local) + "\n"}}})
 	}
 	return fixes
 }
@@ -149,4 +150,51 @@ func netNameText(s string) string {
 		}
 	}
 	return s
+}
+
+// suggestNames are the nets a floating net's name is compared with. Their
+// names are built only for nets whose name is within the edit distance in
+// length (diag.Suggest), each once, and within a budget of bytes, so that
+// nets deep in long-named instances cost no more than their count.
+type suggestNames struct {
+	d     *circuit.Design
+	ids   []circuit.NetID
+	built map[circuit.NetID]string
+	bytes int
+}
+
+// maxSuggestBytes bounds the bytes of names built for suggestions in one
+// design; past it no more names are built and the nets left get no "did
+// you mean".
+const maxSuggestBytes = 16 << 20
+
+// suggest is diag.Suggest of name against the candidates, in their order.
+func (sn *suggestNames) suggest(name string) string {
+	const maxDist = 2 // diag.Suggest's largest distance
+	var near []string
+	for _, id := range sn.ids {
+		net := &sn.d.Nets[id]
+		n := len(net.Local)
+		if net.Inst >= 0 {
+			n += sn.d.PathLen(net.Inst) + 1
+		}
+		if n < len(name)-maxDist || n > len(name)+maxDist {
+			continue
+		}
+		s, ok := sn.built[id]
+		if !ok {
+			if net.Inst >= 0 && sn.bytes+n > maxSuggestBytes {
+				continue
+			}
+			s = sn.d.NetName(id)
+			if net.Inst >= 0 {
+				if sn.built == nil {
+					sn.built = map[circuit.NetID]string{}
+				}
+				sn.built[id], sn.bytes = s, sn.bytes+n
+			}
+		}
+		near = append(near, s)
+	}
+	return diag.Suggest(name, near)
 }

@@ -18,7 +18,7 @@ func TestLastPass(t *testing.T) {
 	b := circuit.BuildFile(fset, file, src, grammar.Parse("t.nodal", src), nil)
 	r1 := &b.Design.Parts[1]
 	probe := &Analyzer{Name: "probe-rule", Severity: diag.Warning, Doc: "test\n", Run: func(p *Pass) (any, error) {
-		p.Report(diag.Diagnostic{Pos: r1.End, End: r1.End, Subject: r1.Name, Message: "late"})
+		p.Report(diag.Diagnostic{Pos: r1.End, End: r1.End, Subject: b.Design.NameOf(r1), Message: "late"})
 		p.Report(diag.Diagnostic{Pos: r1.Pos, End: r1.End, Severity: diag.Note, Message: "early, a note"})
 		return nil, nil
 	}}

@@ -28,7 +28,7 @@ the sources.`,
 		for i := range t.Loops {
 			l := &t.Loops[i]
 			closing := &d.Parts[l.Steps[0].Part]
-			diagn := diag.Diagnostic{Pos: closing.Pos, End: closing.End, Subject: closing.Name}
+			diagn := diag.Diagnostic{Pos: closing.Pos, End: closing.End, Subject: d.NameOf(closing)}
 			path := loopPath(d, l)
 			if l.Balanced() {
 				diagn.Severity = diag.Warning
@@ -39,13 +39,13 @@ the sources.`,
 			}
 			for _, s := range l.Steps[1:] {
 				q := &d.Parts[s.Part]
-				diagn.Related = append(diagn.Related, diag.Related{Pos: q.Pos, End: q.End, Message: q.Name + " is in the loop"})
+				diagn.Related = append(diagn.Related, diag.Related{Pos: q.Pos, End: q.End, Message: d.NameOf(q) + " is in the loop"})
 			}
 			p.Report(diagn)
 		}
 		if t.LoopsLeft > 0 {
 			first := &d.Parts[t.Loops[0].Steps[0].Part]
-			p.Report(diag.Diagnostic{Pos: first.Pos, End: first.End, Severity: diag.Error, Subject: first.Name,
+			p.Report(diag.Diagnostic{Pos: first.Pos, End: first.End, Severity: diag.Error, Subject: d.NameOf(first),
 				Message: fmt.Sprintf("%d more loops of voltage sources and shorts were found and not listed", t.LoopsLeft)})
 		}
 		return nil, nil
@@ -60,7 +60,7 @@ func loopPath(d *circuit.Design, l *topology.Loop) string {
 			b.WriteString(" → ")
 		}
 		q := &d.Parts[s.Part]
-		b.WriteString(q.Name)
+		b.WriteString(d.NameOf(q))
 		if q.DC().Model == circuit.VoltageDrop {
 			b.WriteString(" (" + units.Format(q.Value, units.Voltage) + ")")
 		}

@@ -86,7 +86,7 @@ func ratingRule(name, doc string) *Analyzer {
 				q := &d.Parts[i]
 				for _, u := range Judge(q, pt.Part(circuit.PartID(i)), p.Config.Derating) {
 					if u.Rule == name && u.Over() {
-						p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: q.Name, Message: Describe(q, u)})
+						p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: p.Design.NameOf(q), Message: Describe(p.Design, q, u)})
 					}
 				}
 			}
@@ -153,7 +153,7 @@ ambient temperature gets the warning too, naming the corner.`,
 			nominal := Judge(q, pt.Part(circuit.PartID(i)), p.Config.Derating)
 			for _, u := range nominal {
 				if u.Derated() {
-					p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: q.Name, Message: Describe(q, u) + ", past the " + units.FormatPercent(u.Limit) + " derating limit"})
+					p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: p.Design.NameOf(q), Message: Describe(p.Design, q, u) + ", past the " + units.FormatPercent(u.Limit) + " derating limit"})
 				}
 			}
 			// The worst case too: within the limit at nominal, past it (but
@@ -161,7 +161,7 @@ ambient temperature gets the warning too, naming the corner.`,
 			_, worstUse, cases := worstUses(p, i)
 			for k, u := range worstUse {
 				if u.Derated() && !nominal[k].Derated() && !nominal[k].Over() {
-					p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: q.Name, Message: Describe(q, u) + ", past the " + units.FormatPercent(u.Limit) + " derating limit," + cornerText(p, cases[k])})
+					p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: p.Design.NameOf(q), Message: Describe(p.Design, q, u) + ", past the " + units.FormatPercent(u.Limit) + " derating limit," + cornerText(p, cases[k])})
 				}
 			}
 		}

@@ -21,12 +21,12 @@ shorted across itself is an error: no current can make its voltage hold.`,
 			a, _ := q.Ends()
 			net := netName(d, a)
 			if q.DC().Model == circuit.VoltageDrop {
-				p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Severity: diag.Error, Subject: q.Name,
-					Message: q.Kind.String() + " " + q.Name + " (" + units.Format(q.Value, units.Voltage) + ") has both pins on net " + net + ": it is shorted across itself"})
+				p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Severity: diag.Error, Subject: d.NameOf(q),
+					Message: q.Kind.String() + " " + d.NameOf(q) + " (" + units.Format(q.Value, units.Voltage) + ") has both pins on net " + net + ": it is shorted across itself"})
 				continue
 			}
-			p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: q.Name,
-				Message: q.Kind.String() + " " + q.Name + " has both pins on net " + net + ", so it does nothing"})
+			p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: d.NameOf(q),
+				Message: q.Kind.String() + " " + d.NameOf(q) + " has both pins on net " + net + ", so it does nothing"})
 		}
 		return nil, nil
 	},

@@ -133,15 +133,15 @@ func failure(p *Pass, e *solve.Error, msg string) {
 	for _, id := range e.Parts {
 		q := &d.Parts[id]
 		if !dg.Pos.IsValid() {
-			dg.Pos, dg.End, dg.Subject = q.Pos, q.End, q.Name
+			dg.Pos, dg.End, dg.Subject = q.Pos, q.End, d.NameOf(q)
 			continue
 		}
-		dg.Related = append(dg.Related, diag.Related{Pos: q.Pos, End: q.End, Message: q.Name + " is involved"})
+		dg.Related = append(dg.Related, diag.Related{Pos: q.Pos, End: q.End, Message: d.NameOf(q) + " is involved"})
 	}
 	for _, n := range e.Nets {
 		net := &d.Nets[n]
 		if !dg.Pos.IsValid() {
-			dg.Pos, dg.End, dg.Subject = net.Pos, net.End, net.Name
+			dg.Pos, dg.End, dg.Subject = net.Pos, net.End, d.NetNameOf(net)
 			continue
 		}
 		if len(dg.Related) < 10 {
@@ -164,7 +164,7 @@ func partNames(d *circuit.Design, ids []circuit.PartID, max int) string {
 		if i > 0 {
 			s += ", "
 		}
-		s += d.Parts[id].Name
+		s += d.NameOf(&d.Parts[id])
 	}
 	return s
 }
@@ -246,9 +246,9 @@ Designs solved iteratively (the largest) get no estimate and no finding.`,
 			return nil, nil
 		}
 		a, b := &d.Parts[lo], &d.Parts[hi]
-		p.Report(diag.Diagnostic{Pos: a.Pos, End: a.End, Subject: a.Name,
-			Message: fmt.Sprintf("%s; resistances span %s (%s) to %s (%s)", msg, units.Format(rlo, units.Resistance), a.Name, units.Format(rhi, units.Resistance), b.Name),
-			Related: []diag.Related{{Pos: b.Pos, End: b.End, Message: b.Name + " is the largest resistance"}}})
+		p.Report(diag.Diagnostic{Pos: a.Pos, End: a.End, Subject: d.NameOf(a),
+			Message: fmt.Sprintf("%s; resistances span %s (%s) to %s (%s)", msg, units.Format(rlo, units.Resistance), d.NameOf(a), units.Format(rhi, units.Resistance), d.NameOf(b)),
+			Related: []diag.Related{{Pos: b.Pos, End: b.End, Message: d.NameOf(b) + " is the largest resistance"}}})
 		return nil, nil
 	},
 }

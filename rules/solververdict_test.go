@@ -19,13 +19,13 @@ func TestSolverVerdictsReachJudge(t *testing.T) {
 	a := d.Net("a", diag.NoPos, diag.NoPos)
 	g := d.Net("gnd", diag.NoPos, diag.NoPos)
 	d.Ground = g
-	d.AddPart(circuit.Part{Name: "R1", Kind: circuit.Resistor, Value: 10, RatedPower: 1, Pins: [circuit.MaxPins]circuit.NetID{a, g}, Inst: -1})
-	d.AddPart(circuit.Part{Name: "W1", Kind: circuit.Wire, RatedCurrent: 0.1, Pins: [circuit.MaxPins]circuit.NetID{a, g}, Inst: -1})
+	d.AddPart(circuit.Part{Local: "R1", Kind: circuit.Resistor, Value: 10, RatedPower: 1, Pins: [circuit.MaxPins]circuit.NetID{a, g}, Inst: -1})
+	d.AddPart(circuit.Part{Local: "W1", Kind: circuit.Wire, RatedCurrent: 0.1, Pins: [circuit.MaxPins]circuit.NetID{a, g}, Inst: -1})
 	r := &solve.Result{NetV: []float64{10, 0}, V: []float64{10, 0}, I: []float64{1, 0}, P: []float64{10, 0},
 		Uncertified: []bool{true, false}, Undetermined: []solve.Unknown{0, solve.UnknownCurrent}}
 	pt := NewPoint(r)
 	us := Judge(&d.Parts[0], pt.Part(0), Derating{})
-	if len(us) != 1 || !us[0].Over() || !strings.Contains(Describe(&d.Parts[0], us[0]), "could not certify") {
+	if len(us) != 1 || !us[0].Over() || !strings.Contains(Describe(nil, &d.Parts[0], us[0]), "could not certify") {
 		t.Fatalf("R1: %+v; want one power use past its rating that says it is not certified", us)
 	}
 	q := pt.Part(1)

@@ -19,7 +19,7 @@ func supplyFlow(t *testing.T, src, name string) rules.Flow {
 	d := res.Build.Design
 	pt := rules.NewPoint(res.Solved.OP)
 	for i := range d.Parts {
-		if d.Parts[i].Name == name {
+		if d.NameOf(&d.Parts[i]) == name {
 			f, ok := pt.SupplyFlow(&d.Parts[i], circuit.PartID(i))
 			if !ok {
 				t.Fatalf("%s: no flow", name)

@@ -112,10 +112,10 @@ func junctionUse(p *circuit.Part, q Quantities) (Use, bool) {
 }
 
 // describeJunction says what a junction-temperature use is.
-func describeJunction(p *circuit.Part, u Use) string {
+func describeJunction(d *circuit.Design, p *circuit.Part, u Use) string {
 	h := p.Heat
 	rise := u.Value - u.At
-	s := fmt.Sprintf("%s's junction reaches %s (%s ambient + %s × %s)", p.Name, units.FormatCelsius(u.Value),
+	s := fmt.Sprintf("%s's junction reaches %s (%s ambient + %s × %s)", d.NameOf(p), units.FormatCelsius(u.Value),
 		units.FormatCelsius(u.At), units.Format(h.Theta, units.ThermalResistance), units.Format(rise/h.Theta, units.Power))
 	if u.Frac > overLimit {
 		return s + fmt.Sprintf(", past its %s maximum", units.FormatCelsius(u.Rating))

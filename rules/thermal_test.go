@@ -31,7 +31,7 @@ func TestDeratingCurve(t *testing.T) {
 // TestJunctionTemperature checks Tj = Ta + θJA·P (JEDEC JESD51-2's
 // junction-to-ambient thermal resistance, from memory) through Judge.
 func TestJunctionTemperature(t *testing.T) {
-	p := &circuit.Part{Kind: circuit.Diode, Name: "D1", Heat: &circuit.Thermal{Theta: 60, TjMax: 125, HasTjMax: true}}
+	p := &circuit.Part{Kind: circuit.Diode, Local: "D1", Heat: &circuit.Thermal{Theta: 60, TjMax: 125, HasTjMax: true}}
 	q := Quantities{V: 0.9, I: 1.5, P: 1.35, Ambient: 40, HasAmbient: true}
 	var u Use
 	for _, x := range Judge(p, q, Derating{}) {
@@ -48,8 +48,8 @@ func TestJunctionTemperature(t *testing.T) {
 	}
 	q.Ambient = 50 // 131 °C: past tjmax
 	for _, x := range Judge(p, q, Derating{}) {
-		if x.What == "junction temperature" && (!x.Over() || !strings.Contains(Describe(p, x), "past its 125 °C maximum")) {
-			t.Errorf("at 50 °C: %s", Describe(p, x))
+		if x.What == "junction temperature" && (!x.Over() || !strings.Contains(Describe(nil, p, x), "past its 125 °C maximum")) {
+			t.Errorf("at 50 °C: %s", Describe(nil, p, x))
 		}
 	}
 }
@@ -58,13 +58,13 @@ func TestJunctionTemperature(t *testing.T) {
 // its rating derated for the ambient temperature, with its own knee or the
 // configured one.
 func TestDeratedPowerRating(t *testing.T) {
-	r := &circuit.Part{Kind: circuit.Resistor, Name: "R1", Value: 100, RatedPower: 0.25}
+	r := &circuit.Part{Kind: circuit.Resistor, Local: "R1", Value: 100, RatedPower: 0.25}
 	q := Quantities{P: 0.2, Ambient: 112.5, HasAmbient: true} // halfway down the default curve
 	u := Judge(r, q, Derating{})[0]
 	if math.Abs(u.Rating-0.125) > 1e-12 || !u.Over() || u.Nameplate != 0.25 {
 		t.Fatalf("derated rating %v (nameplate %v), over %v", u.Rating, u.Nameplate, u.Over())
 	}
-	if s := Describe(r, u); !strings.Contains(s, "250 mW rating derated to 125 mW at 112 °C") {
+	if s := Describe(nil, r, u); !strings.Contains(s, "250 mW rating derated to 125 mW at 112 °C") {
 		t.Errorf("message %q", s)
 	}
 	// At 25 °C nothing is derated and the message says nothing of it.

@@ -41,7 +41,7 @@ func netList(d *circuit.Design, nets []circuit.NetID, max int) string {
 
 // netName quotes a net name that is not a plain word.
 func netName(d *circuit.Design, n circuit.NetID) string {
-	s := d.Nets[n].Name
+	s := d.NetNameOf(&d.Nets[n])
 	for i := 0; i < len(s); i++ {
 		c := s[i]
 		if !(c == '_' || c == '.' || c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z' || c >= '0' && c <= '9') {

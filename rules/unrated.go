@@ -70,8 +70,8 @@ a clean check never hides a rating that was not judged.`,
 			if len(missed) == 0 {
 				continue
 			}
-			p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: q.Name,
-				Message: fmt.Sprintf("%s's %s %s not judged: %s", q.Name, joinWords(missed), ratingWord(len(missed)), whyUnknown(p, s.OP, id))})
+			p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: d.NameOf(q),
+				Message: fmt.Sprintf("%s's %s %s not judged: %s", d.NameOf(q), joinWords(missed), ratingWord(len(missed)), whyUnknown(p, s.OP, id))})
 		}
 		return nil, nil
 	},
@@ -104,23 +104,23 @@ func whyUnknown(p *Pass, r *solve.Result, id circuit.PartID) string {
 		if r.Floating == nil || !r.Floating[n] {
 			n = nb
 		}
-		return fmt.Sprintf("net %s has no DC path to ground, so the voltage across %s is not determined", netName(d, n), q.Name)
+		return fmt.Sprintf("net %s has no DC path to ground, so the voltage across %s is not determined", netName(d, n), d.NameOf(q))
 	}
 	for _, g := range r.Groups {
 		for _, m := range g.Parts {
 			if m == id {
-				return fmt.Sprintf("%s is an ideal short in parallel with %s, and how their current divides is not determined; give every one a current rating to have the group judged on its total", q.Name, otherNames(d, g.Parts, id))
+				return fmt.Sprintf("%s is an ideal short in parallel with %s, and how their current divides is not determined; give every one a current rating to have the group judged on its total", d.NameOf(q), otherNames(d, g.Parts, id))
 			}
 		}
 	}
-	return fmt.Sprintf("%s is on a loop of ideal shorts and voltage sources, around which any current may circulate, so its current is not determined", q.Name)
+	return fmt.Sprintf("%s is on a loop of ideal shorts and voltage sources, around which any current may circulate, so its current is not determined", d.NameOf(q))
 }
 
 func otherNames(d *circuit.Design, ids []circuit.PartID, skip circuit.PartID) string {
 	var names []string
 	for _, id := range ids {
 		if id != skip {
-			names = append(names, d.Parts[id].Name)
+			names = append(names, d.NameOf(&d.Parts[id]))
 		}
 	}
 	return joinWords(names)
@@ -140,7 +140,7 @@ func reportUnsolved(p *Pass, s *SolveResult) {
 	if len(rated) == 0 {
 		return
 	}
-	sort.Slice(rated, func(a, b int) bool { return d.Parts[rated[a]].Name < d.Parts[rated[b]].Name })
+	sort.Slice(rated, func(a, b int) bool { return d.NameOf(&d.Parts[rated[a]]) < d.NameOf(&d.Parts[rated[b]]) })
 	why := s.NotRun
 	switch {
 	case s.Skipped != nil:
@@ -151,14 +151,14 @@ func reportUnsolved(p *Pass, s *SolveResult) {
 		why = "the operating point was not solved"
 	}
 	first := &d.Parts[rated[0]]
-	dg := diag.Diagnostic{Pos: first.Pos, End: first.End, Subject: first.Name,
+	dg := diag.Diagnostic{Pos: first.Pos, End: first.End, Subject: d.NameOf(first),
 		Message: fmt.Sprintf("ratings not checked on %s: %s", plural(len(rated), "part"), why) + "; not judged: " + partNames(d, rated, 8)}
 	for _, id := range rated[1:] {
 		if len(dg.Related) == 10 {
 			break
 		}
 		q := &d.Parts[id]
-		dg.Related = append(dg.Related, diag.Related{Pos: q.Pos, End: q.End, Message: q.Name + "'s ratings were not checked"})
+		dg.Related = append(dg.Related, diag.Related{Pos: q.Pos, End: q.End, Message: d.NameOf(q) + "'s ratings were not checked"})
 	}
 	p.Report(dg)
 }
@@ -217,17 +217,17 @@ func reportGroups(p *Pass, derated bool) {
 		first := &d.Parts[g.Parts[0]]
 		names := make([]string, len(g.Parts))
 		for i, id := range g.Parts {
-			names[i] = d.Parts[id].Name
+			names[i] = d.NameOf(&d.Parts[id])
 		}
 		msg := fmt.Sprintf("%s in parallel carry %s together, %s of their combined %s rating; how it divides between them is not determined (ideal shorts)",
 			joinWords(names), units.Format(u.Value, units.Current), FormatUse(u.Frac, u.Limit), units.Format(u.Rating, units.Current))
 		if derated {
 			msg += ", past the " + units.FormatPercent(u.Limit) + " derating limit"
 		}
-		dg := diag.Diagnostic{Pos: first.Pos, End: first.End, Subject: first.Name, Message: msg}
+		dg := diag.Diagnostic{Pos: first.Pos, End: first.End, Subject: d.NameOf(first), Message: msg}
 		for _, id := range g.Parts[1:] {
 			q := &d.Parts[id]
-			dg.Related = append(dg.Related, diag.Related{Pos: q.Pos, End: q.End, Message: q.Name + " is in the group"})
+			dg.Related = append(dg.Related, diag.Related{Pos: q.Pos, End: q.End, Message: d.NameOf(q) + " is in the group"})
 		}
 		p.Report(dg)
 	}

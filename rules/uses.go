@@ -265,7 +265,7 @@ func faithful(s string, f, limit float64) bool {
 
 // Describe says what a use is, e.g. "R3 dissipates 312 mW, 125 % of its
 // 250 mW rating", in the wording the kind table gives the rating.
-func Describe(p *circuit.Part, u Use) string {
+func Describe(d *circuit.Design, p *circuit.Part, u Use) string {
 	val, rating, frac := units.Format(u.Value, u.Dim), units.Format(u.Rating, u.Dim), FormatUse(u.Frac, u.Limit)
 	uncertified := ""
 	if u.Uncertified {
@@ -273,9 +273,9 @@ func Describe(p *circuit.Part, u Use) string {
 	}
 	switch {
 	case u.What == "junction temperature":
-		return describeJunction(p, u) + uncertified
+		return describeJunction(d, p, u) + uncertified
 	case u.What == "power" && u.Nameplate > 0:
-		return fmt.Sprintf("%s dissipates %s, %s of its %s rating derated to %s at %s", p.Name, val, frac, units.Format(u.Nameplate, u.Dim), rating, units.FormatCelsius(u.At)) + uncertified
+		return fmt.Sprintf("%s dissipates %s, %s of its %s rating derated to %s at %s", d.NameOf(p), val, frac, units.Format(u.Nameplate, u.Dim), rating, units.FormatCelsius(u.At)) + uncertified
 	}
 	says, of := "", "rating"
 	for _, r := range p.Kind.Info().Ratings {
@@ -301,7 +301,7 @@ func Describe(p *circuit.Part, u Use) string {
 			says = "has %s across it"
 		}
 	}
-	s := fmt.Sprintf("%s "+says+", %s of its %s %s", p.Name, val, frac, rating, of)
+	s := fmt.Sprintf("%s "+says+", %s of its %s %s", d.NameOf(p), val, frac, rating, of)
 	if u.Uncertified {
 		s += " (the solver could not certify the accuracy of this operating point)"
 	}

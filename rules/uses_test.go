@@ -70,18 +70,18 @@ func TestDeratingKeysMatchConfig(t *testing.T) {
 // is still judged, and its finding says that its accuracy is not
 // certified.
 func TestUncertifiedSaysSo(t *testing.T) {
-	p := &circuit.Part{Kind: circuit.Resistor, Name: "R1", Value: 100, RatedPower: 0.25}
+	p := &circuit.Part{Kind: circuit.Resistor, Local: "R1", Value: 100, RatedPower: 0.25}
 	r := &solve.Result{NetV: []float64{10, 0}, V: []float64{10}, I: []float64{0.1}, P: []float64{1}, Uncertified: []bool{true}}
 	q := NewPoint(r).Part(0)
 	if !q.Uncertified {
 		t.Fatal("Point.Part drops the solver's uncertified mark")
 	}
 	us := Judge(p, q, Derating{})
-	if len(us) != 1 || !us[0].Over() || !strings.Contains(Describe(p, us[0]), "could not certify") {
-		t.Errorf("uses %+v: %q", us, Describe(p, us[0]))
+	if len(us) != 1 || !us[0].Over() || !strings.Contains(Describe(nil, p, us[0]), "could not certify") {
+		t.Errorf("uses %+v: %q", us, Describe(nil, p, us[0]))
 	}
 	r.Uncertified = nil
-	if q := NewPoint(r).Part(0); q.Uncertified || strings.Contains(Describe(p, Judge(p, q, Derating{})[0]), "certify") {
+	if q := NewPoint(r).Part(0); q.Uncertified || strings.Contains(Describe(nil, p, Judge(p, q, Derating{})[0]), "certify") {
 		t.Error("a certified solve marked uncertified")
 	}
 }

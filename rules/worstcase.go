@@ -146,8 +146,8 @@ finding instead.`,
 				if nominal[k].Over() || !u.Over() {
 					continue
 				}
-				p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: q.Name,
-					Message: Describe(q, u) + cornerText(p, cases[k]) + fmt.Sprintf("; %s at nominal", FormatUse(nominal[k].Frac, nominal[k].Limit))})
+				p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: d.NameOf(q),
+					Message: Describe(d, q, u) + cornerText(p, cases[k]) + fmt.Sprintf("; %s at nominal", FormatUse(nominal[k].Frac, nominal[k].Limit))})
 			}
 		}
 		return nil, nil

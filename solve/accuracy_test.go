@@ -71,7 +71,7 @@ func TestExtremeRangeSeriesExact(t *testing.T) {
 		}
 		for _, p := range parts {
 			if e := relErr(res.I[p], i); !(e <= 1e-9) {
-				t.Errorf("%+v: I(%s) = %.6g, relative error %.2g", opt, b.d.Parts[p].Name, res.I[p], e)
+				t.Errorf("%+v: I(%s) = %.6g, relative error %.2g", opt, b.d.Parts[p].Local, res.I[p], e)
 			}
 		}
 		if res.Uncertified != nil {
@@ -128,12 +128,12 @@ func TestSeriesChainsExactOrUncertified(t *testing.T) {
 		for k, p := range parts {
 			if res.Uncertified != nil && res.Uncertified[p] {
 				if n <= ddDenseMax {
-					t.Fatalf("%s uncertified in a chain of %d", b.d.Parts[p].Name, n)
+					t.Fatalf("%s uncertified in a chain of %d", b.d.Parts[p].Local, n)
 				}
 				continue
 			}
 			if e := relErr(res.I[p], i); !(e <= 1e-9) {
-				t.Fatalf("%+v: I(%s) = %.6g, relative error %.2g", opt, b.d.Parts[p].Name, res.I[p], e)
+				t.Fatalf("%+v: I(%s) = %.6g, relative error %.2g", opt, b.d.Parts[p].Local, res.I[p], e)
 			}
 			if e := relErr(b.volts(res, nets[k]), want[k]); !(e <= 1e-9) {
 				t.Fatalf("%+v: V(%s) = %.12g, relative error %.2g", opt, nets[k], b.volts(res, nets[k]), e)

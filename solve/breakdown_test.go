@@ -17,7 +17,7 @@ func clamp(vs, r, bv, it, series float64) (*builder, circuit.PartID, circuit.Par
 	b := newBuilder()
 	b.v("vin", "gnd", vs)
 	rp := b.r("vin", "ref", r)
-	d := b.add(circuit.Part{Name: "D1", Kind: circuit.Diode, VF: 0.7, VFAt: 10e-3, Series: series, Breakdown: bv, BreakdownAt: it}, "gnd", "ref")
+	d := b.add(circuit.Part{Local: "D1", Kind: circuit.Diode, VF: 0.7, VFAt: 10e-3, Series: series, Breakdown: bv, BreakdownAt: it}, "gnd", "ref")
 	return b, rp, d
 }
 
@@ -124,7 +124,7 @@ func TestRandomBreakdown(t *testing.T) {
 			if p.Breakdown-p.BreakdownAt*p.Series <= 0.05 {
 				continue
 			}
-			js = append(js, b.add(p, b.d.Nets[x].Name, b.d.Nets[y].Name))
+			js = append(js, b.add(p, b.d.Nets[x].Local, b.d.Nets[y].Local))
 		}
 		runs++
 		r, err := Solve(b.d, nil)
@@ -151,7 +151,7 @@ func TestRandomBreakdown(t *testing.T) {
 			ib, _ := br.Eval(vj)
 			want := is*math.Expm1(vj/nvt) + ib + Leakage*vj
 			if math.Abs(r.I[j]-want) > 1e-9*math.Max(math.Abs(want), r.KCLScale)+1e-15 {
-				t.Fatalf("diode %s: %g A at %g V, its curve gives %g A", p.Name, r.I[j], vj, want)
+				t.Fatalf("diode %s: %g A at %g V, its curve gives %g A", p.Local, r.I[j], vj, want)
 			}
 		}
 		assertKirchhoff(t, b.d, r)

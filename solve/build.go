@@ -81,13 +81,13 @@ func build(d *circuit.Design, vt float64, mna bool) (*model, error) {
 		is, vref, ok := SaturationCurrentAt(p, vt*Charge/Boltzmann)
 		if !ok {
 			badParts = append(badParts, circuit.PartID(i))
-			msgs = append(msgs, fmt.Sprintf("%s %s: its series resistance drops %s at %s, at least its vf", p.Kind, p.Name, fmtV(p.VFAt*p.Series), fmtA(p.VFAt)))
+			msgs = append(msgs, fmt.Sprintf("%s %s: its series resistance drops %s at %s, at least its vf", p.Kind, d.NameOf(p), fmtV(p.VFAt*p.Series), fmtA(p.VFAt)))
 			continue
 		}
 		br, _, brOK := BreakdownOf(p)
 		if !brOK {
 			badParts = append(badParts, circuit.PartID(i))
-			msgs = append(msgs, fmt.Sprintf("%s %s: its series resistance drops %s at %s, at least its breakdown voltage", p.Kind, p.Name, fmtV(p.BreakdownAt*p.Series), fmtA(p.BreakdownAt)))
+			msgs = append(msgs, fmt.Sprintf("%s %s: its series resistance drops %s at %s, at least its breakdown voltage", p.Kind, d.NameOf(p), fmtV(p.BreakdownAt*p.Series), fmtA(p.BreakdownAt)))
 			continue
 		}
 		a, oa := m.node[p.Pins[0]], m.off[p.Pins[0]]
@@ -108,7 +108,7 @@ func build(d *circuit.Design, vt float64, mna bool) (*model, error) {
 		}
 		if m.node[p.Pins[0]] == m.node[p.Pins[1]] {
 			badParts = append(badParts, circuit.PartID(i))
-			msgs = append(msgs, fmt.Sprintf("voltage source %s has both pins on the same net", p.Name))
+			msgs = append(msgs, fmt.Sprintf("voltage source %s has both pins on the same net", d.NameOf(p)))
 			continue
 		}
 		m.branch[i] = int32(m.n)

@@ -59,7 +59,7 @@ func findClosing(d *circuit.Design) ([]bool, error) {
 		if ok, sum, scale := uf.union(int32(p.Pins[0]), int32(p.Pins[1]), v); !ok {
 			if math.Abs(sum) > loopTol*scale {
 				return nil, &Error{Kind: Singular, Parts: []circuit.PartID{circuit.PartID(i)},
-					Msg: fmt.Sprintf("%s closes a loop of voltage sources and ideal shorts whose voltages sum to %s, not zero, so no operating point exists", p.Name, units.Format(sum, units.Voltage))}
+					Msg: fmt.Sprintf("%s closes a loop of voltage sources and ideal shorts whose voltages sum to %s, not zero, so no operating point exists", d.NameOf(p), units.Format(sum, units.Voltage))}
 			}
 			if closing == nil {
 				closing = make([]bool, len(d.Parts))
@@ -196,7 +196,7 @@ func (m *model) markUndetermined(r *Result) {
 				r.Groups = append(r.Groups, g)
 			}
 		}
-		sort.Slice(r.Groups, func(a, b int) bool { return d.Parts[r.Groups[a].Parts[0]].Name < d.Parts[r.Groups[b].Parts[0]].Name })
+		sort.Slice(r.Groups, func(a, b int) bool { return d.CompareParts(r.Groups[a].Parts[0], r.Groups[b].Parts[0]) < 0 })
 		for i, in := range inLoop {
 			if in {
 				mark(i, UnknownCurrent)
@@ -220,7 +220,7 @@ func (m *model) markUndetermined(r *Result) {
 // all ideal shorts between the same two nets, with its total current.
 func (m *model) parallelGroup(r *Result, parts []circuit.PartID) (ShortGroup, bool) {
 	d := m.d
-	sort.Slice(parts, func(a, b int) bool { return d.Parts[parts[a]].Name < d.Parts[parts[b]].Name })
+	sort.Slice(parts, func(a, b int) bool { return d.CompareParts(parts[a], parts[b]) < 0 })
 	first := &d.Parts[parts[0]]
 	g := ShortGroup{Parts: parts, From: first.Pins[0], To: first.Pins[1]}
 	if g.From == g.To {

@@ -21,7 +21,7 @@ func TestParallelShortsGroup(t *testing.T) {
 			names = []string{"W2", "W1"}
 		}
 		for _, n := range names {
-			b.add(circuit.Part{Name: n, Kind: circuit.Wire}, "in", "mid")
+			b.add(circuit.Part{Local: n, Kind: circuit.Wire}, "in", "mid")
 		}
 		load := b.r("mid", "gnd", 100)
 		r := b.solve(t, nil)
@@ -34,10 +34,10 @@ func TestParallelShortsGroup(t *testing.T) {
 				continue
 			}
 			if r.Undetermined == nil || r.Undetermined[i] != UnknownCurrent || r.I[i] != 0 {
-				t.Fatalf("swap %v: %s: undetermined %v, I %g; want its current marked and 0", swap, p.Name, r.Undetermined, r.I[i])
+				t.Fatalf("swap %v: %s: undetermined %v, I %g; want its current marked and 0", swap, p.Local, r.Undetermined, r.I[i])
 			}
 		}
-		if len(r.Groups) != 1 || len(r.Groups[0].Parts) != 2 || b.d.Parts[r.Groups[0].Parts[0]].Name != "W1" || !near(r.Groups[0].I, 0.1, 1e-12) {
+		if len(r.Groups) != 1 || len(r.Groups[0].Parts) != 2 || b.d.Parts[r.Groups[0].Parts[0]].Local != "W1" || !near(r.Groups[0].I, 0.1, 1e-12) {
 			t.Fatalf("swap %v: groups %+v, want W1 and W2 carrying 0.1 A", swap, r.Groups)
 		}
 	}

@@ -68,7 +68,7 @@ func TestRandomNetworkFallbacksMatchDense(t *testing.T) {
 			for i := range ref.NetV {
 				worst = math.Max(worst, math.Abs(r.NetV[i]-ref.NetV[i])/vmax)
 				if math.Abs(r.NetV[i]-ref.NetV[i]) > tol*vmax {
-					t.Fatalf("seed %d, %v: net %s: %.12g V, dense %.12g V", seed, kind, d.Nets[i].Name, r.NetV[i], ref.NetV[i])
+					t.Fatalf("seed %d, %v: net %s: %.12g V, dense %.12g V", seed, kind, d.Nets[i].Local, r.NetV[i], ref.NetV[i])
 				}
 			}
 			t.Logf("seed %d, %v: %d PCG iterations, largest difference %.2g of the largest voltage", seed, kind, r.PCGIterations, worst)

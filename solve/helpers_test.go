@@ -25,8 +25,8 @@ func (b *builder) net(name string) circuit.NetID { return b.d.Net(name, diag.NoP
 
 func (b *builder) add(p circuit.Part, a, c string) circuit.PartID {
 	b.n++
-	if p.Name == "" {
-		p.Name = fmt.Sprintf("X%d", b.n)
+	if p.Local == "" {
+		p.Local = fmt.Sprintf("X%d", b.n)
 	}
 	p.Pins = [circuit.MaxPins]circuit.NetID{b.net(a), b.net(c)}
 	p.Inst = -1

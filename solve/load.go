@@ -144,11 +144,11 @@ func (m *model) starvedError() error {
 		parts = append(parts, l.part)
 		if !(l.vth > 0) {
 			msgs = append(msgs, fmt.Sprintf("%s %s demands %s, more power than the rail can deliver: the circuit puts %s across it, pos not above neg",
-				p.Kind, p.Name, fmtW(l.p), fmtV(l.vth)))
+				p.Kind, m.d.NameOf(p), fmtW(l.p), fmtV(l.vth)))
 			continue
 		}
 		msgs = append(msgs, fmt.Sprintf("%s %s demands %s, more power than the rail can deliver: at most %s, from %s behind %s (maximum power transfer)",
-			p.Kind, p.Name, fmtW(l.p), fmtW(l.vth*l.vth/(4*l.rth)), fmtV(l.vth), fmtR(l.rth)))
+			p.Kind, m.d.NameOf(p), fmtW(l.p), fmtW(l.vth*l.vth/(4*l.rth)), fmtV(l.vth), fmtR(l.rth)))
 	}
 	if len(parts) == 0 {
 		return nil

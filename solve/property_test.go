@@ -217,7 +217,7 @@ func TestAgainstDenseReference(t *testing.T) {
 			// when an ampere flows through a wire branch beside millivolt
 			// nets (its branch-current unknowns are in amperes).
 			if math.Abs(r.NetV[i]-wantV[i]) > 1e-9*vs+1e-11 {
-				t.Fatalf("net %s: %.12g V, reference %.12g V", b.d.Nets[i].Name, r.NetV[i], wantV[i])
+				t.Fatalf("net %s: %.12g V, reference %.12g V", b.d.Nets[i].Local, r.NetV[i], wantV[i])
 			}
 		}
 		for i := range wantI {
@@ -260,7 +260,7 @@ func assertKirchhoff(t *rapid.T, d *circuit.Design, r *Result) {
 		// of the larger and the rounding of the difference.
 		va, vb := r.NetV[p.Pins[0]], r.NetV[p.Pins[1]]
 		if v := va - vb; math.Abs(v-r.V[i]) > 0x1p-51*(math.Abs(va)+math.Abs(vb)) {
-			t.Fatalf("part %s: voltage %g is not V(pin 1) − V(pin 2) = %g", p.Name, r.V[i], v)
+			t.Fatalf("part %s: voltage %g is not V(pin 1) − V(pin 2) = %g", p.Local, r.V[i], v)
 		}
 		psum += r.V[i] * r.I[i]
 		pabs += math.Abs(r.V[i] * r.I[i])
@@ -269,7 +269,7 @@ func assertKirchhoff(t *rapid.T, d *circuit.Design, r *Result) {
 	for i, x := range res {
 		vmax = math.Max(vmax, math.Abs(r.NetV[i]))
 		if math.Abs(x) > 1e-9*scale+1e-18 { // 1 aA floor, as in the solver
-			t.Fatalf("KCL at net %s: residual %g A (scale %g A)", d.Nets[i].Name, x, scale)
+			t.Fatalf("KCL at net %s: residual %g A (scale %g A)", d.Nets[i].Local, x, scale)
 		}
 	}
 	if math.Abs(psum) > 1e-9*math.Max(pabs, vmax*scale)+1e-24 { // 1 yW floor
@@ -376,7 +376,7 @@ func TestRandomJunctions(t *testing.T) {
 			if p.VF-p.VFAt*p.Series <= 0.05 {
 				continue
 			}
-			js = append(js, b.add(p, b.d.Nets[x].Name, b.d.Nets[y].Name))
+			js = append(js, b.add(p, b.d.Nets[x].Local, b.d.Nets[y].Local))
 		}
 		runs++
 		r, err := Solve(b.d, nil)
@@ -401,7 +401,7 @@ func TestRandomJunctions(t *testing.T) {
 			}
 			want := is*math.Expm1(vj/(Ideality(p)*vt)) + Leakage*vj
 			if math.Abs(r.I[j]-want) > 1e-9*math.Max(math.Abs(want), r.KCLScale)+1e-15 { // 1 fA: below any current that matters
-				t.Fatalf("%v %s: %g A at %g V, Shockley gives %g A", p.Kind, p.Name, r.I[j], vj, want)
+				t.Fatalf("%v %s: %g A at %g V, Shockley gives %g A", p.Kind, p.Local, r.I[j], vj, want)
 			}
 		}
 		assertKirchhoff(t, b.d, r)

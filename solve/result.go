@@ -191,7 +191,7 @@ func (r *Result) selfCheck(d *circuit.Design) error {
 	if len(bad) > 0 {
 		sort.Slice(bad, func(a, b int) bool { return math.Abs(res[bad[a]]) > math.Abs(res[bad[b]]) })
 		return &Error{Kind: SelfCheck, Nets: bad,
-			Msg: fmt.Sprintf("the solution breaks Kirchhoff's current law: %s does not balance at net %s (largest part current %s)", fmtA(res[bad[0]]), d.Nets[bad[0]].Name, fmtA(r.KCLScale))}
+			Msg: fmt.Sprintf("the solution breaks Kirchhoff's current law: %s does not balance at net %s (largest part current %s)", fmtA(res[bad[0]]), d.NetName(bad[0]), fmtA(r.KCLScale))}
 	}
 	vmax := 0.0
 	for _, v := range r.NetV {

@@ -52,7 +52,7 @@ func TestSolversAgree(t *testing.T) {
 				x, y := rapid.IntRange(0, nets-1).Draw(t, "anode"), rapid.IntRange(0, nets-1).Draw(t, "cathode")
 				if x != y {
 					b.add(circuit.Part{Kind: circuit.Diode, VF: 0.7, VFAt: 0.01, Series: rapid.SampledFrom([]float64{0, 1}).Draw(t, "series")},
-						b.d.Nets[x].Name, b.d.Nets[y].Name)
+						b.d.Nets[x].Local, b.d.Nets[y].Local)
 				}
 			}
 		}
@@ -96,12 +96,12 @@ func TestSolversAgree(t *testing.T) {
 			}
 			for i := range ref.NetV {
 				if math.Abs(r.NetV[i]-ref.NetV[i]) > tol*vs+1e-12 {
-					t.Fatalf("%s: net %s at %.12g V, reference %.12g V", f.name, b.d.Nets[i].Name, r.NetV[i], ref.NetV[i])
+					t.Fatalf("%s: net %s at %.12g V, reference %.12g V", f.name, b.d.Nets[i].Local, r.NetV[i], ref.NetV[i])
 				}
 			}
 			for i := range ref.I {
 				if math.Abs(r.I[i]-ref.I[i]) > tol*is+1e-15 {
-					t.Fatalf("%s: part %s carries %.12g A, reference %.12g A", f.name, b.d.Parts[i].Name, r.I[i], ref.I[i])
+					t.Fatalf("%s: part %s carries %.12g A, reference %.12g A", f.name, b.d.Parts[i].Local, r.I[i], ref.I[i])
 				}
 			}
 			assertKirchhoff(t, b.d, r)
@@ -153,7 +153,7 @@ func TestMeshSolversAgree(t *testing.T) {
 			}
 			for i := range ref.NetV {
 				if math.Abs(r.NetV[i]-ref.NetV[i]) > 1e-9 {
-					t.Fatalf("LEDs %v, %v: net %s at %.12g V, dense %.12g V", led, kind, b.d.Nets[i].Name, r.NetV[i], ref.NetV[i])
+					t.Fatalf("LEDs %v, %v: net %s at %.12g V, dense %.12g V", led, kind, b.d.Nets[i].Local, r.NetV[i], ref.NetV[i])
 				}
 			}
 			if !(r.KCL <= KCLTol*r.KCLScale) {

@@ -36,8 +36,8 @@ func TestForwardVoltageDrift(t *testing.T) {
 	d := circuit.NewDesign("drift")
 	d.Ground = d.Net("gnd", 0, 0)
 	a := d.Net("a", 0, 0)
-	d.AddPart(circuit.Part{Kind: circuit.CurrentSource, Name: "I1", Pins: [circuit.MaxPins]circuit.NetID{d.Ground, a}, Value: 10e-3, Inst: -1})
-	d.AddPart(circuit.Part{Kind: circuit.Diode, Name: "D1", Pins: [circuit.MaxPins]circuit.NetID{a, d.Ground}, VF: 0.65, VFAt: 10e-3, Inst: -1})
+	d.AddPart(circuit.Part{Kind: circuit.CurrentSource, Local: "I1", Pins: [circuit.MaxPins]circuit.NetID{d.Ground, a}, Value: 10e-3, Inst: -1})
+	d.AddPart(circuit.Part{Kind: circuit.Diode, Local: "D1", Pins: [circuit.MaxPins]circuit.NetID{a, d.Ground}, VF: 0.65, VFAt: 10e-3, Inst: -1})
 	vf := func(celsius float64) float64 {
 		r, err := Solve(d, &Options{Temperature: celsius + 273.15})
 		if err != nil {

@@ -46,7 +46,7 @@ func findLoops(d *circuit.Design, r *Result) {
 			order = append(order, circuit.PartID(i))
 		}
 	}
-	sort.Slice(order, func(x, y int) bool { return d.Parts[order[x]].Name < d.Parts[order[y]].Name })
+	sort.Slice(order, func(x, y int) bool { return d.CompareParts(order[x], order[y]) < 0 })
 	for _, i := range order {
 		na, nb := d.Parts[i].Ends()
 		a, b := int32(na), int32(nb)

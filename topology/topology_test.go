@@ -34,7 +34,7 @@ func design(n int, branches []br) *circuit.Design {
 		if v == 0 && e.kind == circuit.Resistor {
 			v = 1
 		}
-		d.AddPart(circuit.Part{Kind: e.kind, Name: fmt.Sprintf("P%d", i), Pins: [circuit.MaxPins]circuit.NetID{circuit.NetID(e.a), circuit.NetID(e.b)}, Value: v, Closed: e.closed, Inst: -1})
+		d.AddPart(circuit.Part{Kind: e.kind, Local: fmt.Sprintf("P%d", i), Pins: [circuit.MaxPins]circuit.NetID{circuit.NetID(e.a), circuit.NetID(e.b)}, Value: v, Closed: e.closed, Inst: -1})
 	}
 	return d
 }
@@ -188,10 +188,10 @@ func checkLoop(t *testing.T, name string, d *circuit.Design, l Loop) {
 	for i, s := range l.Steps {
 		p := &d.Parts[s.Part]
 		if !p.IsVoltageDefining() {
-			t.Errorf("%s: loop goes through %s %s", name, p.Kind, p.Name)
+			t.Errorf("%s: loop goes through %s %s", name, p.Kind, p.Local)
 		}
 		if !(s.From == p.Pins[0] && s.To == p.Pins[1] || s.From == p.Pins[1] && s.To == p.Pins[0]) {
-			t.Errorf("%s: step %d does not follow %s", name, i, p.Name)
+			t.Errorf("%s: step %d does not follow %s", name, i, p.Local)
 		}
 		next := l.Steps[(i+1)%len(l.Steps)]
 		if s.To != next.From {

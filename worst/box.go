@@ -122,8 +122,9 @@ func Describe(d *circuit.Design, ps []Param, c Corner, rangeT bool, max int) str
 			continue
 		}
 		q := &d.Parts[p.Part]
+		name := d.NameOf(q)
 		if !p.isRange() {
-			items = append(items, item{q.Name, q.Name + " " + signedPercent(c.S[k]*p.Tol)})
+			items = append(items, item{name, name + " " + signedPercent(c.S[k]*p.Tol)})
 			continue
 		}
 		where := ""
@@ -134,7 +135,7 @@ func Describe(d *circuit.Design, ps []Param, c Corner, rangeT bool, max int) str
 			where = " (top of its range)"
 		}
 		v := p.valueAt(q.Value, c.S[k])
-		items = append(items, item{q.Name, "port " + q.Name + " at " + units.Format(v, q.Kind.Info().Value) + where})
+		items = append(items, item{name, "port " + name + " at " + units.Format(v, q.Kind.Info().Value) + where})
 	}
 	sort.Slice(items, func(a, b int) bool { return items[a].name < items[b].name })
 	var parts []string

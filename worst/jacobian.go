@@ -113,7 +113,7 @@ func newJacobian(d *circuit.Design, r *solve.Result, tK float64, maxUnknowns int
 				cond(a, b, 1/p.DCR)
 			}
 		case circuit.Diode, circuit.LED:
-			g, err := junctionSlope(p, r.Junction[i], tK)
+			g, err := junctionSlope(d, p, r.Junction[i], tK)
 			if err != nil {
 				return nil, err
 			}
@@ -167,11 +167,11 @@ func (j *jacobian) fill() int {
 // temperature tK: Is·exp(v/(n·Vt))/(n·Vt), continued by its tangent past
 // solve.MaxOverdrive as the solver does, plus the slope of its breakdown
 // (solve.Breakdown) when it has one.
-func junctionSlope(p *circuit.Part, v, tK float64) (float64, error) {
+func junctionSlope(d *circuit.Design, p *circuit.Part, v, tK float64) (float64, error) {
 	is, vref, ok := solve.SaturationCurrentAt(p, tK)
 	br, _, brOK := solve.BreakdownOf(p)
 	if !ok || !brOK {
-		return 0, &Skipped{Reason: p.Name + " cannot be modelled"}
+		return 0, &Skipped{Reason: d.NameOf(p) + " cannot be modelled"}
 	}
 	nvt := solve.Ideality(p) * solve.ThermalVoltage(tK)
 	arg := math.Min(v/nvt, vref/nvt+solve.MaxOverdrive)

@@ -21,7 +21,7 @@ func newBuilder() *builder {
 }
 
 func (b *builder) add(k circuit.Kind, name, a, c string, v, tol float64) circuit.PartID {
-	return b.d.AddPart(circuit.Part{Kind: k, Name: name, Pins: [circuit.MaxPins]circuit.NetID{b.d.Net(a, 0, 0), b.d.Net(c, 0, 0)}, Value: v, Tol: tol, Inst: -1})
+	return b.d.AddPart(circuit.Part{Kind: k, Local: name, Pins: [circuit.MaxPins]circuit.NetID{b.d.Net(a, 0, 0), b.d.Net(c, 0, 0)}, Value: v, Tol: tol, Inst: -1})
 }
 
 func analyze(t *testing.T, d *circuit.Design, amb Ambient, j Judge, opt Options) *Result {
@@ -170,7 +170,7 @@ func TestSensitivityMatchesCorners(t *testing.T) {
 			for m := range all.Worst[i] {
 				s, e := sens.Worst[i][m].Frac, all.Worst[i][m].Frac
 				if !sens.Worst[i][m].Confirmed || s < e*(1-sum*sum)-1e-15 || s > e*(1+1e-9)+1e-15 {
-					rt.Fatalf("%s quantity %d: sensitivities %.12g (confirmed %v), every corner %.12g", d.Parts[i].Name, m, s, sens.Worst[i][m].Confirmed, e)
+					rt.Fatalf("%s quantity %d: sensitivities %.12g (confirmed %v), every corner %.12g", d.Parts[i].Local, m, s, sens.Worst[i][m].Confirmed, e)
 				}
 			}
 		}
@@ -212,7 +212,7 @@ func TestTemperatureRangeMatchesCorners(t *testing.T) {
 			for m := range all.Worst[i] {
 				s, e := sens.Worst[i][m].Frac, all.Worst[i][m].Frac
 				if s < e*(1-sum*sum)-1e-15 || s > e*(1+1e-9)+1e-15 {
-					rt.Fatalf("%s quantity %d: sensitivities %.12g, every corner %.12g", b.d.Parts[i].Name, m, s, e)
+					rt.Fatalf("%s quantity %d: sensitivities %.12g, every corner %.12g", b.d.Parts[i].Local, m, s, e)
 				}
 			}
 		}

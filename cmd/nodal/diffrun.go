@@ -16,6 +16,7 @@ import (
 	"sync"
 
 	"nodal/check"
+	"nodal/circuit"
 	"nodal/output"
 	"nodal/output/report"
 	"nodal/output/review"
@@ -324,16 +325,20 @@ func worstOf(res *check.Result) (uses map[string]float64, ranges map[string][2]f
 		if i >= len(d.Parts) {
 			break
 		}
+		name := ""
 		for _, c := range cases {
-			if c.Frac > uses[d.Parts[i].Name] {
-				uses[d.Parts[i].Name] = c.Frac
+			if name == "" {
+				name = d.PartName(circuit.PartID(i))
+			}
+			if c.Frac > uses[name] {
+				uses[name] = c.Frac
 			}
 		}
 	}
 	ranges = map[string][2]float64{}
 	for i := range d.Nets {
 		if i < len(r.NetLow) && i < len(r.NetHigh) && d.Nets[i].Pins > 0 {
-			ranges[d.Nets[i].Name] = [2]float64{r.NetLow[i], r.NetHigh[i]}
+			ranges[d.NetName(circuit.NetID(i))] = [2]float64{r.NetLow[i], r.NetHigh[i]}
 		}
 	}
 	return uses, ranges

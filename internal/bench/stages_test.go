@@ -173,7 +173,7 @@ func BenchmarkOutput(b *testing.B) {
 		base := make(diag.List, len(parts)/10)
 		for i := range base {
 			p := &parts[rnd.IntN(len(parts))]
-			base[i] = diag.Diagnostic{Pos: p.Pos, End: p.End, Rule: "floating-net", Severity: diag.Warning, Message: "net " + p.Name + " touches only one pin; connect it"}
+			base[i] = diag.Diagnostic{Pos: p.Pos, End: p.End, Rule: "floating-net", Severity: diag.Warning, Message: "net " + p.Local + " touches only one pin; connect it"}
 		}
 		l := make(diag.List, len(base))
 		b.ReportAllocs()

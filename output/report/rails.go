@@ -147,19 +147,19 @@ func buildRails(d *circuit.Design, pt *rules.Point, uses [][]rules.Use) (roots [
 			railPin[id] = s.OutRef
 			flow.VOut, flow.IOut = 0-flow.VOut, 0-flow.IOut
 		}
-		n := &Supply{Name: q.Name, Kind: q.Kind, Rail: d.Nets[out].Name, Ref: d.Nets[ref].Name,
+		n := &Supply{Name: d.NameOf(q), Kind: q.Kind, Rail: d.NetNameOf(&d.Nets[out]), Ref: d.NetNameOf(&d.Nets[ref]),
 			RefGround: sets.find(ref) == ground, Flow: flow, Judged: ok}
 		if w := rules.Worst(uses[id]); w >= 0 {
 			n.Use, n.HasUse = uses[id][w], true
 		}
 		if s.HasInput() {
-			n.Input = d.Nets[q.Pins[s.In]].Name
+			n.Input = d.NetNameOf(&d.Nets[q.Pins[s.In]])
 		}
 		nodes[id] = n
 		refOf[id] = sets.find(ref)
 		r := sets.find(out)
 		railOf = append(railOf, r)
-		if p, seen := primary[r]; !seen || q.Name < d.Parts[p].Name {
+		if p, seen := primary[r]; !seen || d.CompareParts(id, p) < 0 {
 			primary[r] = id
 		}
 	}
@@ -168,7 +168,7 @@ func buildRails(d *circuit.Design, pt *rules.Point, uses [][]rules.Use) (roots [
 	for k, id := range supplies {
 		q, n := &d.Parts[id], nodes[id]
 		if p := primary[railOf[k]]; p != id {
-			n.Alongside = d.Parts[p].Name
+			n.Alongside = d.NameOf(&d.Parts[p])
 		}
 		s := q.Kind.Info().Supply
 		if !s.HasInput() {
@@ -212,11 +212,11 @@ func buildRails(d *circuit.Design, pt *rules.Point, uses [][]rules.Use) (roots [
 			if known && c == 0 && !qs.CurrentUnknown && q.DC().Model == circuit.Open {
 				continue // a capacitor or an open switch: nothing at DC
 			}
-			l := Load{Name: q.Name, Kind: q.Kind, Current: c, Power: qs.P,
+			l := Load{Name: d.NameOf(q), Kind: q.Kind, Current: c, Power: qs.P,
 				CurrentUnknown: qs.CurrentUnknown || !known, VoltageUnknown: qs.VoltageUnknown}
 			for k, n := range q.Nets() {
 				if o := sets.find(n); k != pin && o != ground && o != refOf[p] {
-					l.Towards = append(l.Towards, d.Nets[n].Name)
+					l.Towards = append(l.Towards, d.NetNameOf(&d.Nets[n]))
 				}
 			}
 			if w := rules.Worst(uses[id]); w >= 0 {
@@ -244,7 +244,7 @@ func buildRails(d *circuit.Design, pt *rules.Point, uses [][]rules.Use) (roots [
 	// walking down from them feed each other in a loop; each loop is
 	// drawn from its first supply by name.
 	byName := append([]circuit.PartID(nil), supplies...)
-	sort.Slice(byName, func(a, b int) bool { return d.Parts[byName[a]].Name < d.Parts[byName[b]].Name })
+	sort.Slice(byName, func(a, b int) bool { return d.CompareParts(byName[a], byName[b]) < 0 })
 	seen := map[*Supply]bool{}
 	for _, id := range byName {
 		if _, fed := parent[id]; !fed {
@@ -263,7 +263,7 @@ func buildRails(d *circuit.Design, pt *rules.Point, uses [][]rules.Use) (roots [
 		}
 		first := x
 		for y := parent[x]; y != x; y = parent[y] {
-			if d.Parts[y].Name < d.Parts[first].Name {
+			if d.CompareParts(y, first) < 0 {
 				first = y
 			}
 		}

@@ -133,7 +133,7 @@ func quantities(t *testing.T, src string) (q rules.Quantities, ok bool) {
 	}
 	pt := rules.NewPoint(res.Solved.OP)
 	for i, p := range res.Build.Design.Parts {
-		if p.Name == "X" {
+		if p.Local == "X" {
 			return pt.Part(circuit.PartID(i)), true
 		}
 	}

@@ -171,7 +171,7 @@ func NewAt(file string, d *circuit.Design, r *solve.Result, der rules.Derating, 
 		if d.Nets[i].Pins == 0 {
 			continue // declared but never used: it has no voltage
 		}
-		t.Nets = append(t.Nets, Net{Name: d.Nets[i].Name, Voltage: pt.Net(circuit.NetID(i)),
+		t.Nets = append(t.Nets, Net{Name: d.NetName(circuit.NetID(i)), Voltage: pt.Net(circuit.NetID(i)),
 			Undetermined: r.Floating != nil && r.Floating[i]})
 	}
 	t.Undriven = true
@@ -184,7 +184,7 @@ func NewAt(file string, d *circuit.Design, r *solve.Result, der rules.Derating, 
 		}
 		// The values the rating rules judge, by the same function.
 		qs := pt.Part(circuit.PartID(i))
-		p := Part{Name: q.Name, Kind: q.Kind, Voltage: qs.V, Current: qs.I, Power: qs.P,
+		p := Part{Name: d.NameOf(q), Kind: q.Kind, Voltage: qs.V, Current: qs.I, Power: qs.P,
 			VoltageUnknown: qs.VoltageUnknown, CurrentUnknown: qs.CurrentUnknown}
 		p.Ratings = rules.Judge(q, qs, der)
 		if p.Capacity = q.Capacity; p.Capacity > 0 && qs.I < 0 {
@@ -197,7 +197,7 @@ func NewAt(file string, d *circuit.Design, r *solve.Result, der rules.Derating, 
 	for _, g := range r.Groups {
 		var names []string
 		for _, id := range g.Parts {
-			names = append(names, d.Parts[id].Name)
+			names = append(names, d.PartName(id))
 		}
 		t.Groups = append(t.Groups, Group{Parts: names, Current: rules.Clean(g.I, 0, rules.FloorI)})
 	}

@@ -41,10 +41,10 @@ func design() *circuit.Design {
 	d.Ground = gnd
 	a, b := d.Net("a", 0, 0), d.Net("b", 0, 0)
 	d.Net("spare", 0, 0) // no pin: left out
-	d.AddPart(circuit.Part{Kind: circuit.VoltageSource, Name: "V", Value: 10, Pins: [circuit.MaxPins]circuit.NetID{a, gnd}, Inst: -1})
-	d.AddPart(circuit.Part{Kind: circuit.Resistor, Name: "RU", Value: 4000, Pins: [circuit.MaxPins]circuit.NetID{a, b}, Inst: -1})
-	d.AddPart(circuit.Part{Kind: circuit.Resistor, Name: "R", Value: 1000, RatedPower: 0.25, Pins: [circuit.MaxPins]circuit.NetID{b, gnd}, Inst: -1})
-	d.AddPart(circuit.Part{Kind: circuit.Capacitor, Name: "C", Value: 1e-6, RatedVoltage: 2.5, Pins: [circuit.MaxPins]circuit.NetID{b, gnd}, Inst: -1})
+	d.AddPart(circuit.Part{Kind: circuit.VoltageSource, Local: "V", Value: 10, Pins: [circuit.MaxPins]circuit.NetID{a, gnd}, Inst: -1})
+	d.AddPart(circuit.Part{Kind: circuit.Resistor, Local: "RU", Value: 4000, Pins: [circuit.MaxPins]circuit.NetID{a, b}, Inst: -1})
+	d.AddPart(circuit.Part{Kind: circuit.Resistor, Local: "R", Value: 1000, RatedPower: 0.25, Pins: [circuit.MaxPins]circuit.NetID{b, gnd}, Inst: -1})
+	d.AddPart(circuit.Part{Kind: circuit.Capacitor, Local: "C", Value: 1e-6, RatedVoltage: 2.5, Pins: [circuit.MaxPins]circuit.NetID{b, gnd}, Inst: -1})
 	return d
 }
 

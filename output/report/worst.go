@@ -26,7 +26,7 @@ func (t *Table) AddWorst(d *circuit.Design, w *worst.Result, der rules.Derating)
 	t.DriveRanges = len(d.DriveRanges) > 0
 	byName := make(map[string]circuit.NetID, len(d.Nets))
 	for i := range d.Nets {
-		byName[d.Nets[i].Name] = circuit.NetID(i)
+		byName[d.NetName(circuit.NetID(i))] = circuit.NetID(i)
 	}
 	scale := 0.0
 	for i := range w.NetHigh {
@@ -43,7 +43,7 @@ func (t *Table) AddWorst(d *circuit.Design, w *worst.Result, der rules.Derating)
 	}
 	parts := make(map[string]circuit.PartID, len(d.Parts))
 	for i := range d.Parts {
-		parts[d.Parts[i].Name] = circuit.PartID(i)
+		parts[d.PartName(circuit.PartID(i))] = circuit.PartID(i)
 	}
 	for k := range t.Parts {
 		p := &t.Parts[k]
