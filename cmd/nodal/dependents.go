@@ -238,7 +238,7 @@ func listedDependents(root string, ch changed, absNames []string) ([]string, err
 	outs, errs := gitOutputs(root,
 		[]string{"ls-files", "-z", "--full-name", "--cached", "--others", "--exclude-standard", "--", "*.nodal"},
 		[]string{"ls-files", "-z", "--full-name", "--deleted", "--", "*.nodal"},
-		[]string{"diff", "--cached", "--name-only", "-z", "--diff-filter=D", "--", "*.nodal"})
+		[]string{"diff", "--cached", "--name-only", "-z", "--no-renames", "--diff-filter=D", "--", "*.nodal"})
 	if errs[0] != nil {
 		return nil, errs[0]
 	}
@@ -314,7 +314,7 @@ func stagedDependents(root, prefix string, names, paths []string, stderr io.Writ
 			}
 		}
 		// Staged deletions, named or not: their includers change.
-		out, err := gitOutput(root, "diff", "--cached", "--name-only", "-z", "--diff-filter=D", "--", "*.nodal")
+		out, err := gitOutput(root, "diff", "--cached", "--name-only", "-z", "--no-renames", "--diff-filter=D", "--", "*.nodal")
 		if err != nil {
 			return names, err
 		}

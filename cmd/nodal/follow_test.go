@@ -100,6 +100,15 @@ func TestStagedLibraryDeletionChecksIncluders(t *testing.T) {
 			t.Errorf("%v: exit %d\n%s%s", args, code, out, errs)
 		}
 	}
+	// A staged rename takes the old name away the same way.
+	git(t, dir, "reset", "-q", "--hard")
+	git(t, dir, "mv", "lib/loads.nodal", "lib/renamed.nodal")
+	for _, args := range [][]string{{"check", "--staged"}, {"check", "--staged", "boards/other.nodal"}} {
+		code, out, errs := runNodal(t, dir, "", args...)
+		if code != 1 || !strings.Contains(out, "boards/direct.nodal:1:1: error: ") {
+			t.Errorf("rename, %v: exit %d\n%s%s", args, code, out, errs)
+		}
+	}
 }
 
 // A staged nodal.toml brings in the designs below its folder.
@@ -134,6 +143,13 @@ func TestDeletedLibraryChecksIncluders(t *testing.T) {
 	code, out, errs = runNodal(t, dir, "", "check", "boards/other.nodal")
 	if code != 0 || !strings.Contains(errs, "in 1 file") {
 		t.Errorf("nothing deleted: exit %d\n%s%s", code, out, errs)
+	}
+	// A staged rename takes the old name away as a deletion does, though
+	// git's diff shows it as a rename.
+	git(t, dir, "mv", "lib/loads.nodal", "lib/renamed.nodal")
+	code, out, errs = runNodal(t, dir, "", "check", "boards/other.nodal")
+	if code != 1 || !strings.Contains(out, "boards/direct.nodal:1:1: error: ") || !strings.Contains(out, "boards/deep/top.nodal") {
+		t.Errorf("staged rename: exit %d\n%s%s", code, out, errs)
 	}
 }
 
