@@ -97,3 +97,52 @@ func TestParallelShortsJudgedAsGroup(t *testing.T) {
 		}
 	}
 }
+
+// A design that cannot be modelled because of an error shows that error,
+// which fails the check, and not unrated-parts as well on a part that is
+// not at fault. Once the error no longer fails the check (accepted,
+// switched off or made a warning), unrated-parts says that the ratings
+// were not judged and why, so that a passing check never hides it.
+func TestUnratedPartsBesideBuildErrors(t *testing.T) {
+	const body = "ground gnd\nsource V1 (vin, gnd) 5 V\nresistor R1 (vin, a) 1 kΩ rated 1 W\ncapacitor C1 (a, gnd) 1 µF rated 10 V\n"
+	const bad = "resistor R2 (a, gnd) 2 meg rated 1 W"
+	rulesOf := func(res *check.Result) (ids []string, errs int) {
+		for _, d := range res.Diags {
+			ids = append(ids, d.Rule)
+			if d.Severity == diag.Error {
+				errs++
+			}
+		}
+		return ids, errs
+	}
+	res, err := check.Source("t.nodal", []byte(body+bad+"\n"), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if ids, errs := rulesOf(res); len(ids) != 1 || ids[0] != "unit-mismatch" || errs != 1 {
+		t.Errorf("shown error: findings %v, want unit-mismatch alone, as an error", ids)
+	}
+	for _, c := range []struct {
+		name, src string
+		cfg       *rules.Config
+	}{
+		{"accepted", body + bad + " # nodal: accept unit-mismatch because the value is fixed on the bench\n", nil},
+		{"switched off", body + bad + "\n", &rules.Config{Severity: map[string]diag.Severity{"unit-mismatch": diag.Off}}},
+		{"a warning", body + bad + "\n", &rules.Config{Severity: map[string]diag.Severity{"unit-mismatch": diag.Warning}}},
+	} {
+		res, err := check.Source("t.nodal", []byte(c.src), &check.Options{Config: c.cfg})
+		if err != nil {
+			t.Fatal(err)
+		}
+		found := false
+		for _, d := range res.Diags {
+			if d.Rule == "unrated-parts" {
+				found = strings.Contains(d.Message, "ratings not checked on 3 parts: the design has errors that stop it from being modelled") &&
+					strings.Contains(d.Message, "not judged: C1, R1, R2")
+			}
+		}
+		if ids, errs := rulesOf(res); !found || errs != 0 {
+			t.Errorf("%s: findings %v (%d errors), want unrated-parts naming C1, R1 and R2 and no error", c.name, ids, errs)
+		}
+	}
+}

@@ -129,6 +129,10 @@ func Run(fset *diag.FileSet, b *circuit.Result, analyzers []*Analyzer, cfg *Conf
 //     cfg.NoSuppress;
 //  3. each finding takes its rule's severity: the one it was reported
 //     with, else the rule's default, overridden by cfg; Off drops it;
+//     and on a design that was not solved, unrated-parts (which then
+//     says that no rating was judged, and why) is left out while another
+//     finding at error severity already fails the check (see
+//     unsolvedNoise);
 //  4. the list is sorted and exact repeats dropped, once.
 //
 // It also returns the result of every analyzer that ran, such as the
@@ -186,13 +190,16 @@ func RunResults(fset *diag.FileSet, b *circuit.Result, analyzers []*Analyzer, cf
 			found.Add(f)
 		}
 	}
-	return lastPass(fset, b, found.Finish(b.Design), done, cfg), results, err
+	sr, _ := results[Solve].(*SolveResult)
+	unsolved := sr != nil && sr.OP == nil
+	return lastPass(fset, b, found.Finish(b.Design), done, cfg, unsolved), results, err
 }
 
 // lastPass suppresses, sets severities, sorts and de-duplicates: steps 2
 // to 4 of RunResults. ran holds the analyzers that ran; their severities,
-// and those of the registered rules, are known.
-func lastPass(fset *diag.FileSet, b *circuit.Result, diags diag.List, ran map[*Analyzer]bool, cfg *Config) diag.List {
+// and those of the registered rules, are known. unsolved says the design
+// has no operating point.
+func lastPass(fset *diag.FileSet, b *circuit.Result, diags diag.List, ran map[*Analyzer]bool, cfg *Config, unsolved bool) diag.List {
 	if !cfg.NoSuppress {
 		diags = Suppress(fset, b.Files, diags, cfg, nil)
 	}
@@ -224,6 +231,37 @@ func lastPass(fset *diag.FileSet, b *circuit.Result, diags diag.List, ran map[*A
 		}
 		out = append(out, d)
 	}
+	if unsolved {
+		out = unsolvedNoise(out)
+	}
 	out.Sort(fset)
 	return out.Dedup()
+}
+
+// unsolvedNoise leaves out the unrated-parts finding of a design that was
+// not solved while another finding at error severity is shown: that error
+// already fails the check and says where (a value that cannot be read, no
+// ground, sources that contradict each other, a load no rail can feed),
+// and repeating on the first rated part that nothing was rated points at
+// a line that is not at fault. Once no error is shown (the causes fixed,
+// accepted, switched off or made warnings) the finding stays, so that a
+// check that passes always says that its ratings were not judged.
+func unsolvedNoise(diags diag.List) diag.List {
+	failed := false
+	for _, d := range diags {
+		if d.Severity == diag.Error && d.Rule != UnratedParts.Name {
+			failed = true
+			break
+		}
+	}
+	if !failed {
+		return diags
+	}
+	out := diags[:0]
+	for _, d := range diags {
+		if d.Rule != UnratedParts.Name {
+			out = append(out, d)
+		}
+	}
+	return out
 }

@@ -30,7 +30,9 @@ modelled, no ground, contradictory sources, or is too large) has none of its
 ratings checked; a part on a section with no DC path to ground has an
 undetermined voltage, and an ideal short or voltage source on a loop of
 them an undetermined current. The finding names the parts and why, so that
-a clean check never hides a rating that was not judged.`,
+a clean check never hides a rating that was not judged. On a design that
+cannot be solved it is left out while another error already fails the
+check, and shown once none does.`,
 	Run: func(p *Pass) (any, error) {
 		s := solved(p)
 		d := p.Design
