@@ -47,7 +47,12 @@
 // its budget, and only then is the design TooLarge. Result.Linear names the
 // solver that produced the solution. In a Newton loop every factorisation keeps its
 // symbolic analysis and refactors numerically; PCG keeps its multigrid
-// hierarchy while it stays effective and starts from the previous solution.
+// hierarchy while it stays effective (a plain-aggregation one keeps its
+// aggregates and has its coarse matrices recomputed for each new matrix)
+// and starts from the previous solution. Each Newton step's iterative
+// solve stops at an Eisenstat–Walker forcing term, loose while the
+// iterates move far and tighter as the nonlinear residual falls; the
+// step that ends the Newton run is solved tightly.
 // A PCG solution is accepted when, beyond its residual norm, every unknown
 // is settled against its own equation (see pcgSolver.settled), and Solve
 // tightens the tolerance and solves again if the result misses the KCL

@@ -57,9 +57,14 @@ func (m *model) newton(lambda, gmin float64) (bool, error) {
 	// Inexact Newton (Dembo, Eisenstat & Steihaug, "Inexact Newton
 	// methods", SIAM J. Numer. Anal. 19(2), 1982): while the iterates are
 	// still moving far, an iterative linear solver stops at a loose
-	// residual; convergence is only declared on a step solved tightly.
+	// residual, a forcing term of the residual it starts from
+	// (pcgSolver.forcing); convergence is only declared on a step solved
+	// tightly.
 	pcg, _ := m.lin.(*pcgSolver)
 	loose := pcg != nil && m.nonlinear()
+	if pcg != nil {
+		pcg.startNewton()
+	}
 	for it := 0; it < maxNewton && m.iters < maxTotal; it++ {
 		m.iters++
 		m.assemble(lambda, gmin)

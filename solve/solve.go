@@ -139,7 +139,8 @@ const (
 	gminEnd    = 1e-12
 	nodeFloor  = 1e-3
 	// looseStep: a Newton step larger than this fraction of the largest
-	// voltage lets the next iterative solve stop loosely (looseTol).
+	// voltage lets the next iterative solve stop loosely (at its forcing
+	// term, or looseTol with the Jacobi preconditioner).
 	looseStep = 1e-4
 )
 

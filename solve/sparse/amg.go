@@ -43,6 +43,9 @@ type amgLevel struct {
 	diag    []float64
 	p, pt   *CSC // prolongator n×nc and its transpose
 	x, b, r []float64
+	// galerkin maps each entry of a to the entry of the next level's
+	// matrix it is summed into (plain aggregation only; see Refresh).
+	galerkin []int32
 }
 
 // AMG is a smoothed-aggregation algebraic multigrid preconditioner for a
@@ -60,6 +63,7 @@ type amgLevel struct {
 type AMG struct {
 	levels []amgLevel
 	coarse Cholesky
+	plain  bool
 }
 
 // NewAMG builds the multigrid hierarchy for the symmetric positive-definite
@@ -81,7 +85,7 @@ func NewAMG(a *CSC, opt *AMGOptions) (*AMG, error) {
 	if o.MaxLevels == 0 {
 		o.MaxLevels = 25
 	}
-	m := &AMG{}
+	m := &AMG{plain: o.Unsmoothed}
 	cur := a
 	eps := o.Eps
 	// budget is how many entries all levels together may hold (−1: any).
@@ -137,6 +141,9 @@ func NewAMG(a *CSC, opt *AMGOptions) (*AMG, error) {
 		}
 		if !ok {
 			return nil, &ComplexityExceeded{Level: len(m.levels), Max: o.MaxComplexity}
+		}
+		if o.Unsmoothed {
+			m.levels[len(m.levels)-1].galerkin = galerkinMap(m.levels[len(m.levels)-1].a, agg, cur)
 		}
 		eps /= 2
 	}

@@ -75,7 +75,9 @@
 // preconditioner (Vaněk, Mandel & Brezina 1996) whose V-cycle is used as
 // the preconditioner; AMGOptions.Unsmoothed builds plain aggregation
 // instead, and AMGOptions.MaxComplexity bounds the hierarchy level by
-// level. Jacobi and SymGaussSeidel are the point preconditioners.
+// level. AMG.Refresh recomputes a plain-aggregation hierarchy's coarse
+// matrices for new values of A on the same pattern, keeping its
+// aggregates. Jacobi and SymGaussSeidel are the point preconditioners.
 // Cholesky.AnalyzeBudget stops the symbolic analysis once nnz(L) passes a
 // budget.
 //
