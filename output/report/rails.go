@@ -259,7 +259,11 @@ func buildRails(d *circuit.Design, pt *rules.Point, uses [][]rules.Use) (roots [
 		// the loop above id; it is drawn from its first supply by name.
 		x := id
 		for range supplies {
-			x = parent[x]
+			p, ok := parent[x]
+			if !ok {
+				break // cannot happen: a chain that ends is walked from its root
+			}
+			x = p
 		}
 		first := x
 		for y := parent[x]; y != x; y = parent[y] {
