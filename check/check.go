@@ -111,7 +111,7 @@ func Source(name string, src []byte, opt *Options) (*Result, error) {
 	}
 	fset := diag.NewFileSet()
 	file := fset.AddFile(name, src)
-	ast := grammar.ParseShared(name, src)
+	ast := grammar.ParsePlain(name, src)
 	read, identify := opt.files(name)
 	b := circuit.BuildFile(fset, file, src, ast, &circuit.Options{
 		ReadFile: read, Identify: identify, MaxDepth: opt.MaxDepth, MaxParts: opt.MaxParts, MaxNameBytes: opt.MaxNameBytes,

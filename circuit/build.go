@@ -110,6 +110,35 @@ type builder struct {
 	found   Findings
 	probing bool
 	failed  []string // includes that could not be read, for later messages
+
+	// plain is the checked file's tree, whose plain lines (see topStmt)
+	// are made into nodes, one at a time, in nodes (see lend).
+	plain *grammar.File
+	nodes grammar.PlainNodes
+}
+
+// lend gives st, when it is a plain line, its statement's nodes for as
+// long as it is looked at; giveBack takes them back. The nodes are reused
+// for the next plain line lent, so nothing may keep them.
+func (b *builder) lend(st *bodyStmt) {
+	if st.plain > 0 {
+		st.pt = b.plain.PlainStatement(int(st.plain-1), &b.nodes).Part
+	}
+}
+
+// partName is st's part or instance name, without lending a plain line
+// its nodes.
+func (b *builder) partName(st *bodyStmt) string {
+	if st.plain > 0 {
+		return b.plain.PlainName(int(st.plain - 1))
+	}
+	return st.pt.Name.Text
+}
+
+func (st *bodyStmt) giveBack() {
+	if st.plain > 0 {
+		st.pt = nil
+	}
 }
 
 // subject is a name being elaborated, inside instance inst (-1: the top
@@ -183,7 +212,7 @@ func (b *builder) run(ast *grammar.File) {
 	d := b.r.Design
 	// Size the net table once (reserve sizes the parts): a mesh has about
 	// one net per two parts.
-	d.Reserve(0, len(ast.Stmts)/2+1)
+	d.Reserve(0, (len(ast.Stmts)+ast.PlainLines())/2+1)
 	b.syntaxErrors(ast)
 	topFile := b.file
 	topID, err := b.identify(topFile.Name())
@@ -192,31 +221,37 @@ func (b *builder) run(ast *grammar.File) {
 	}
 	b.included[topID] = true
 	b.active[topID] = 0
+	b.plain = ast
 	top := b.collect(ast, []string{filepath.Clean(topFile.Name())})
 	delete(b.active, topID)
 	b.file = topFile
-	for _, st := range top {
-		if st.Ground != nil {
+	for _, ts := range top {
+		if st := ts.st; st != nil && st.Ground != nil {
 			b.groundName = netName(st.Ground.Net.Text)
 			break
 		}
 	}
 	b.top = &blockDef{file: topFile, isTop: true}
 	n := 0
-	for _, st := range top {
-		if st.Part != nil {
+	for _, ts := range top {
+		if ts.st == nil || ts.st.Part != nil {
 			n++
 		}
 	}
 	// The top level's statements, in one allocation.
 	slab := make([]bodyStmt, n)
 	b.top.body = make([]*bodyStmt, 0, n)
-	for _, st := range top {
-		if st.Part != nil {
-			bs := &slab[len(b.top.body)]
-			*bs = bodyStmt{pt: st.Part, pos: b.pos(st.Start()), end: b.pos(st.End())}
-			b.top.body = append(b.top.body, bs)
+	for _, ts := range top {
+		switch st := ts.st; {
+		case st == nil:
+			start, end := ast.PlainSpan(ts.plain)
+			slab[len(b.top.body)] = bodyStmt{plain: int32(ts.plain) + 1, pos: b.pos(start), end: b.pos(end)}
+		case st.Part != nil:
+			slab[len(b.top.body)] = bodyStmt{pt: st.Part, pos: b.pos(st.Start()), end: b.pos(st.End())}
+		default:
+			continue
 		}
+		b.top.body = append(b.top.body, &slab[len(b.top.body)])
 	}
 	for _, bd := range b.blockList {
 		b.prepareHeader(bd)
@@ -234,7 +269,16 @@ func (b *builder) run(ast *grammar.File) {
 	topScope := &scope{blk: b.top, inst: -1}
 	next := 0
 	var ports []pendingDrive
-	for _, st := range top {
+	for _, ts := range top {
+		st := ts.st
+		if st == nil {
+			if bs := b.top.body[next]; !b.firstPart.IsValid() {
+				b.firstPart = bs.pos
+			}
+			b.stmt(topScope, b.top.body[next])
+			next++
+			continue
+		}
 		pos, end := b.pos(st.Start()), b.pos(st.End())
 		switch {
 		case st.Design != nil:

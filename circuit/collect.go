@@ -18,14 +18,45 @@ import (
 	"nodal/input"
 )
 
+// topStmt is a top-level statement of the checked file: a statement of
+// the tree, or (st nil) plain line plain of the file (grammar.ParsePlain),
+// whose kind is a built-in one.
+type topStmt struct {
+	st    *grammar.Statement
+	plain int
+}
+
 // collect splits a parsed file into its top-level statements and its
 // blocks, and follows its includes. stack holds the files being included,
-// outermost first, to find cycles.
-func (b *builder) collect(ast *grammar.File, stack []string) []*grammar.Statement {
-	var top []*grammar.Statement
+// outermost first, to find cycles. Plain lines (grammar.ParsePlain) of
+// built-in kinds at the top level stay plain; the others are made into
+// statements of their own here, as the tree would hold them.
+func (b *builder) collect(ast *grammar.File, stack []string) []topStmt {
+	var top []topStmt
 	var open *blockDef
 	lib := len(stack) > 1
-	for _, st := range ast.Stmts {
+	stmts, plain := ast.Stmts, ast.PlainLines()
+	if plain > 0 {
+		top = make([]topStmt, 0, len(stmts)+plain)
+	}
+	for i, j := 0, 0; i < len(stmts) || j < plain; {
+		var st *grammar.Statement
+		if j < plain {
+			start, _ := ast.PlainSpan(j)
+			if i == len(stmts) || start < stmts[i].Start() {
+				if _, builtin := kindOf(ast.PlainKind(j)); open == nil && builtin {
+					top = append(top, topStmt{plain: j})
+					j++
+					continue
+				}
+				st = ast.PlainStatement(j, nil)
+				j++
+			}
+		}
+		if st == nil {
+			st = stmts[i]
+			i++
+		}
 		pos, end := b.pos(st.Start()), b.pos(st.End())
 		switch {
 		case st.Block != nil:
@@ -68,7 +99,7 @@ func (b *builder) collect(ast *grammar.File, stack []string) []*grammar.Statemen
 			}
 			b.report(CodeSyntax, pos, end, "%s", msg)
 		default:
-			top = append(top, st)
+			top = append(top, topStmt{st: st})
 		}
 	}
 	if open != nil {

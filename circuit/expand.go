@@ -15,10 +15,11 @@ import (
 
 // stmt elaborates one prepared statement in scope sc.
 func (b *builder) stmt(sc *scope, st *bodyStmt) {
+	b.lend(st)
 	b.sc = sc
 	savedSubject := b.subject
 	b.subject = subject{sc.inst, st.pt.Name.Text}
-	defer func() { b.sc, b.subject = nil, savedSubject }()
+	defer func() { b.sc, b.subject = nil, savedSubject; st.giveBack() }()
 	nets := make([]NetID, len(st.nets))
 	for i := range st.nets {
 		nets[i] = b.net(sc, st, i)

@@ -44,7 +44,7 @@ func (b *builder) measure(bd *blockDef, stack []*blockDef) {
 		if c == nil {
 			size = addSat(size, 1)
 			parts = addSat(parts, 1)
-			text = addSat(text, int64(len(st.pt.Name.Text)))
+			text = addSat(text, int64(len(b.partName(st))))
 			continue
 		}
 		if c.state == 1 {

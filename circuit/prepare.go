@@ -90,7 +90,11 @@ func (b *builder) prepare(bd *blockDef) {
 	names := make(map[string]*bodyStmt, len(bd.body))
 	pinUsed := make([]bool, len(bd.pins))
 	defer func() { b.subject = subject{inst: -1} }()
-	for _, st := range bd.body {
+	for k, st := range bd.body {
+		if k > 0 {
+			bd.body[k-1].giveBack()
+		}
+		b.lend(st)
 		pt := st.pt
 		st.ok = true
 		b.subject = subject{inst: -1}
@@ -135,9 +139,9 @@ func (b *builder) prepare(bd *blockDef) {
 			continue
 		}
 		if prev, dup := names[pt.Name.Text]; dup {
-			what := prev.pt.Kind.Text
-			if prev.blk == nil {
-				what = prev.kind.String()
+			what := prev.kind.String()
+			if prev.blk != nil {
+				what = prev.pt.Kind.Text // an instance is never a lent plain line
 			}
 			b.report(CodeDuplicateName, st.pos, st.end, "part name %s is already used by the %s on line %d", pt.Name.Text, what, b.file.Position(prev.pos).Line)
 			st.ok = false
@@ -147,6 +151,9 @@ func (b *builder) prepare(bd *blockDef) {
 		if st.blk != nil {
 			st.ok = b.bindInstance(bd, st)
 		}
+	}
+	if len(bd.body) > 0 {
+		bd.body[len(bd.body)-1].giveBack()
 	}
 	for j, used := range pinUsed {
 		if !used {

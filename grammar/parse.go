@@ -49,6 +49,9 @@ type File struct {
 	Stmts    []*Statement
 	Comments []Comment
 	Errors   []*SyntaxError
+
+	plain []plainChunk // ParsePlain's plain part lines, in order (plain.go)
+	src   string       // the text the plain lines' offsets point into
 }
 
 // Comment is a comment with its position, kept for suppression comments.
@@ -75,9 +78,10 @@ func (e *SyntaxError) Error() string { return fmt.Sprintf("%d: %s", e.Line, e.Ms
 
 // Parse reads a whole file. It never fails: lines that do not parse are
 // recorded in File.Errors and skipped. Lines are read in batches by the
-// fast path (fast.go); the tree is the one ParseReference builds.
+// fast path (fast.go), a large file in pieces on every core (pieces.go);
+// the tree is the one ParseReference builds.
 func Parse(name string, src []byte) *File {
-	return parse(name, string(src), true) // token values are substrings of this one copy
+	return parse(name, string(src), modeFast) // token values are substrings of this one copy
 }
 
 // ParseShared is Parse without the copy of src that Parse makes: the texts
@@ -85,14 +89,34 @@ func Parse(name string, src []byte) *File {
 // the tree, or anything made from its texts, is in use. On a large design
 // the copy is as large as the file.
 func ParseShared(name string, src []byte) *File {
-	return parse(name, unsafe.String(unsafe.SliceData(src), len(src)), true)
+	return parse(name, unsafe.String(unsafe.SliceData(src), len(src)), modeFast)
+}
+
+// ParsePlain is ParseShared, except that plain part lines (plain.go) are
+// kept as small records instead of statements: Stmts holds every other
+// statement, and PlainLines, PlainSpan and PlainStatement give the plain
+// ones. A tool that walks Stmts alone must not use it.
+func ParsePlain(name string, src []byte) *File {
+	if len(src) >= 1<<32-1 {
+		return ParseShared(name, src) // plain records hold 32-bit offsets
+	}
+	return parse(name, unsafe.String(unsafe.SliceData(src), len(src)), modePlain)
 }
 
 // ParseReference reads a file one line per participle call with the
 // grammar alone, without the fast path. It defines what Parse returns.
 func ParseReference(name string, src []byte) *File {
-	return parse(name, string(src), false)
+	return parse(name, string(src), modeReference)
 }
+
+// How parse reads part lines.
+type mode uint8
+
+const (
+	modeReference mode = iota // the grammar alone, a line at a time
+	modeFast                  // the fast path, in batches
+	modePlain                 // plain part lines as records, the rest as modeFast
+)
 
 // lineSpan is one non-empty line of a batch: its tokens in the batch's
 // token slice, ending before the Newline (or EOF) token.
@@ -101,13 +125,16 @@ type lineSpan struct {
 	eol      int // index of the token that ends the line
 }
 
-func parse(name string, src string, fast bool) *File {
-	f := &File{Name: name}
+// parseRange reads the lines of src that start in [from, to) into f;
+// line is the number of the line that starts at from. With last set, the
+// line that starts at to (the end of the file) is read too.
+func parseRange(f *File, src string, from, to, line int, last bool, m mode) {
 	var toks, lineToks []lexer.Token
 	var spans []lineSpan
 	var comments []lexer.Token
 	var tb tokenBuffer
 	var words wordCache
+	var ch plainChunk
 	flush := func() {
 		if len(spans) == 0 {
 			return
@@ -115,8 +142,7 @@ func parse(name string, src string, fast bool) *File {
 		parseBatch(f, &tb, toks, spans, &lineToks)
 		toks, spans = tb.tokens(), spans[:0]
 	}
-	line := 1
-	for off := 0; off <= len(src); {
+	for off := from; off < to || last && off == to; {
 		end := strings.IndexByte(src[off:], '\n')
 		if end < 0 {
 			end = len(src)
@@ -124,34 +150,39 @@ func parse(name string, src string, fast bool) *File {
 			end += off
 		}
 		comments = comments[:0]
-		from := len(toks)
+		first := len(toks)
 		toks = appendLine(toks, src, off, end, line, &comments, &words)
 		for _, c := range comments {
 			f.Comments = append(f.Comments, Comment{Pos: Offset(c.Pos.Offset), Line: line, Text: c.Value, Alone: blanksBefore(src, c.Pos.Offset)})
 		}
-		if len(toks) > from {
+		switch {
+		case len(toks) == first:
+		case m == modePlain && readPlain(&ch, toks[first:], line, off):
+			toks = toks[:first]
+		case m != modeReference:
 			eol := lexer.Position{Offset: end, Line: line, Column: end - off + 1}
-			if fast {
-				toks = append(toks, lexer.Token{Type: TokNewline, Pos: eol})
-				spans = append(spans, lineSpan{from, len(toks) - 1, len(toks) - 1})
-				if len(spans) == batchLines {
-					flush()
-				}
-			} else {
-				toks = append(toks, lexer.Token{Type: TokEOF, Pos: eol})
-				if st, err := parseLine(toks); err != nil {
-					f.Errors = append(f.Errors, err)
-				} else {
-					f.add(st, toks[len(toks)-2])
-				}
-				toks = toks[:0]
+			toks = append(toks, lexer.Token{Type: TokNewline, Pos: eol})
+			spans = append(spans, lineSpan{first, len(toks) - 1, len(toks) - 1})
+			if len(spans) == batchLines {
+				flush()
 			}
+		default:
+			eol := lexer.Position{Offset: end, Line: line, Column: end - off + 1}
+			toks = append(toks, lexer.Token{Type: TokEOF, Pos: eol})
+			if st, err := parseLine(toks); err != nil {
+				f.Errors = append(f.Errors, err)
+			} else {
+				f.add(st, toks[len(toks)-2])
+			}
+			toks = toks[:0]
 		}
 		off = end + 1
 		line++
 	}
 	flush()
-	return f
+	if len(ch.lines) > 0 {
+		f.plain = append(f.plain, ch)
+	}
 }
 
 // add records a parsed statement, or the syntax error of a statement that
