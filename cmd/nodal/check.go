@@ -1,22 +1,16 @@
 package main
 
 import (
-	"errors"
+	"bytes"
 	"fmt"
-	flag "github.com/spf13/pflag"
 	"io"
-	"io/fs"
 	"os"
-	"path"
-	"path/filepath"
 	"runtime"
-	"sort"
-	"strings"
-	"sync"
+
+	flag "github.com/spf13/pflag"
 
 	"github.com/mattn/go-isatty"
 
-	"nodal/check"
 	"nodal/config"
 	"nodal/diag"
 	"nodal/input"
@@ -97,84 +91,6 @@ type checkFlags struct {
 	roots     rootList
 }
 
-// limits bound the expansion of block instances and the size of a file.
-// Zero: the value from the file's nodal.toml.
-type limits struct {
-	maxDepth int
-	maxParts int64
-	fileMiB  int64
-	ambient  ambientFlag
-}
-
-// flags registers --max-depth, --max-parts and --max-file-mib, shared by
-// check and report.
-func (l *limits) flags(fl *flag.FlagSet) {
-	fl.IntVar(&l.maxDepth, "max-depth", 0, "refuse designs whose block instances nest deeper than this (default: nodal.toml's limits.depth, else 64)")
-	fl.Int64Var(&l.maxParts, "max-parts", 0, "refuse designs that expand to more parts and instances than this (default: nodal.toml's limits.parts, else 10000000)")
-	fl.Int64Var(&l.fileMiB, "max-file-mib", 0, "refuse any input file, and standard input, larger than this many MiB (default: nodal.toml's limits.file-mib, else 512)")
-	fl.Var(&l.ambient, "ambient", "judge every design at this ambient `temperature` in °C, or over a range (\"0 °C to 50 °C\"), instead of its own")
-}
-
-// valid reports whether the limits given are usable.
-func (l *limits) valid() bool { return l.maxDepth >= 0 && l.maxParts >= 0 && l.fileMiB >= 0 }
-
-// forConfig returns the limits in effect for a file: a flag wins over
-// nodal.toml, which wins over the default.
-func (l limits) forConfig(c *config.Config) limits {
-	if l.maxDepth == 0 {
-		l.maxDepth = c.Depth
-	}
-	if l.maxParts == 0 {
-		l.maxParts = int64(c.Parts)
-	}
-	if l.fileMiB == 0 {
-		l.fileMiB = int64(c.FileMiB)
-	}
-	return l
-}
-
-// rootList is the repeatable --root flag.
-type rootList []string
-
-func (r *rootList) String() string     { return strings.Join(*r, ",") }
-func (r *rootList) Set(v string) error { *r = append(*r, v); return nil }
-func (r *rootList) Type() string       { return "folder" }
-
-// parseFlags parses args and handles --help (usage to stdout, status 0)
-// and bad flags (usage to stderr, status 2). done reports that the command
-// should return status now.
-func parseFlags(fl *flag.FlagSet, args []string, usage string, stdout, stderr io.Writer) (status int, done bool) {
-	fl.Usage = func() {} // printed here: to stdout for --help, else stderr
-	err := fl.Parse(args)
-	if err == nil {
-		return 0, false
-	}
-	out, status := stderr, 2
-	if errors.Is(err, flag.ErrHelp) {
-		out, status = stdout, 0
-	}
-	fl.SetOutput(out)
-	fmt.Fprint(out, usage)
-	fl.PrintDefaults()
-	return status, true
-}
-
-// usageErr reports a usage mistake and returns exit status 2.
-func usageErr(stderr io.Writer, format string, a ...any) int {
-	fmt.Fprintf(stderr, "nodal: "+format+"\n", a...)
-	return 2
-}
-
-// unit is one file to check.
-type unit struct {
-	name     string // as messages name it
-	stdin    bool
-	cfg      *config.Config
-	limits   limits // in effect for this file
-	read     func(name string) ([]byte, error)
-	identify func(name string) (string, error)
-}
-
 func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	fl := flag.NewFlagSet("check", flag.ContinueOnError)
 	fl.SetOutput(stderr)
@@ -221,6 +137,7 @@ func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	var walked map[string]bool
 	root := ""
 	var idx *index
+	var search *includerSearch
 	if cf.staged {
 		r, prefix, err := gitRoot(".")
 		if err != nil {
@@ -240,97 +157,67 @@ func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 			paths = []string{"."}
 		}
 		names, walked, status = collect(paths, stderr)
-		names = worktreeDependents(names, paths, stderr)
+		// The designs that include the named files are looked for while
+		// the named files are checked; they are checked once found.
+		search = startSearch(names, paths)
+	}
+	// What setting the named files up says on standard error waits for
+	// what the search says, which comes first.
+	var early bytes.Buffer
+	msgs := io.Writer(stderr)
+	if search != nil {
+		msgs = &early
+	}
+	searched := func() []string {
+		if search == nil {
+			return nil
+		}
+		deps, said := search.wait()
+		stderr.Write(said)
+		stderr.Write(early.Bytes())
+		search = nil
+		return deps
 	}
 
 	// Each file's configuration: --config, or the nearest nodal.toml.
-	loader := newConfigLoader(idx, cf.config)
-	rds := newReaders(cf.roots, cf.limits.fileMiB<<20)
-	var units []unit
-	for _, n := range names {
-		u := unit{name: n}
-		where := n
-		if n == "-" {
-			u.stdin = true
-			u.name = "<stdin>"
-			where = filepath.Join(".", "stdin")
-			if cf.stdinName != "" {
-				u.name = cf.stdinName
-				where = cf.stdinName
-			}
-		}
-		cfg, err := loader.forFile(where)
-		if err != nil {
-			printConfigError(stderr, err)
-			return 2
-		}
-		if g := cfg.SkippedBy(where); g != "" {
-			if !walked[n] {
-				fmt.Fprintf(stderr, "nodal: %s: skipped: it matches the skip glob %q of %s\n", output.TextSafe(u.name), g, output.TextSafe(cfg.File))
-			}
-			continue
-		}
-		u.cfg = cfg
-		u.limits = cf.limits.forConfig(cfg)
-		if idx != nil {
-			u.read, u.identify = idx.reader(u.limits.fileMiB<<20), cleanIdentity
-		} else {
-			r, err := rds.forFile(where, cfg.Roots, int(u.limits.fileMiB))
-			if err != nil {
-				fmt.Fprintln(stderr, fileError(u.name, err))
-				status = 2
-				continue
-			}
-			u.read, u.identify = r.ReadFile, r.Resolve
-			if !u.stdin {
-				if _, err := r.Resolve(n); errors.Is(err, input.ErrOutside) && walked[n] {
-					fmt.Fprintf(stderr, "nodal: %s: note: skipped: a link that leads outside the folders nodal reads\n", output.TextSafe(n))
-					continue
-				}
-			}
-		}
-		units = append(units, u)
+	b := &unitBuilder{cf: &cf, loader: newConfigLoader(idx, cf.config), readers: newReaders(cf.roots, cf.limits.fileMiB<<20), idx: idx, walked: walked}
+	units, st, err := b.build(names, msgs)
+	if err != nil {
+		searched()
+		printConfigError(stderr, err)
+		return 2
 	}
-
+	status = max(status, st)
 	var stdinSrc []byte
 	for _, u := range units {
 		if u.stdin {
-			b, err := input.ReadAll(stdin, u.limits.fileMiB<<20)
+			src, err := input.ReadAll(stdin, u.limits.fileMiB<<20)
 			if err != nil {
+				searched()
 				return usageErr(stderr, "reading standard input: %v", err)
 			}
-			stdinSrc = b
+			stdinSrc = src
 			break
 		}
 	}
 
-	// Files are admitted by size: the bytes being checked at once stay
-	// within one file's cap, so several large designs do not each take
-	// a worker's share of memory at the same time.
-	adm := newAdmission(max(cf.limits.fileMiB<<20, config.DefaultFileMiB<<20))
-	results := make([]fileResult, len(units))
-	var wg sync.WaitGroup
-	next := make(chan int)
-	for w := 0; w < min(cf.jobs, max(len(units), 1)); w++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for i := range next {
-				n := int64(len(stdinSrc))
-				if !units[i].stdin && idx == nil {
-					n = sizeOf(units[i].name)
-				}
-				adm.acquire(n)
-				results[i] = checkOne(units[i], stdinSrc, loader)
-				adm.release(n)
-			}
-		}()
+	pool := newCheckPool(cf.jobs, max(cf.limits.fileMiB<<20, config.DefaultFileMiB<<20), stdinSrc, b.loader, idx != nil)
+	for _, u := range units {
+		pool.add(u)
 	}
-	for i := range units {
-		next <- i
+	if search != nil {
+		more, st, err := b.build(searched(), stderr)
+		if err != nil {
+			pool.wait()
+			printConfigError(stderr, err)
+			return 2
+		}
+		status = max(status, st)
+		for _, u := range more {
+			pool.add(u)
+		}
 	}
-	close(next)
-	wg.Wait()
+	results := pool.wait()
 
 	rep := &output.Report{}
 	sources := map[string][]byte{}
@@ -379,71 +266,6 @@ func cmdCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	return status
 }
 
-type fileResult struct {
-	checked  bool
-	findings []output.Finding
-	sources  map[string][]byte
-	err      string
-	note     string // said on standard error, without changing the exit status
-}
-
-// checkOne checks one file. A panic anywhere in the pipeline becomes an
-// internal error for that file (exit 2), so that one file that trips a bug
-// neither takes the others down nor prints a stack trace.
-func checkOne(u unit, stdinSrc []byte, loader *configLoader) (out fileResult) {
-	defer func() {
-		if r := recover(); r != nil {
-			out = fileResult{checked: true, err: fmt.Sprintf("nodal: %s: internal error: %v (please report it with the file that caused it)", output.TextSafe(u.name), r)}
-		}
-	}()
-	var src []byte
-	var err error
-	if u.stdin {
-		src = stdinSrc
-	} else {
-		src, err = u.read(u.name)
-	}
-	if err != nil {
-		return fileResult{err: fileError(u.name, err)}
-	}
-	// Includes are read the same way as the file: from disk below the
-	// roots, or from git's index with --staged.
-	lim := u.limits
-	opts := &check.Options{Config: withAmbient(loader.rulesConfig(u.cfg), lim.ambient), ReadFile: u.read, Identify: u.identify, MaxDepth: lim.maxDepth, MaxParts: lim.maxParts}
-	res, err := checkSource(u.name, src, opts)
-	out = fileResult{checked: true, sources: map[string][]byte{u.name: src}}
-	if res != nil {
-		for _, f := range res.Build.Files {
-			out.sources[f.File.Name()] = f.Src
-		}
-	}
-	if err != nil {
-		out.err = fmt.Sprintf("nodal: %s: internal error: %v", output.TextSafe(u.name), err)
-	}
-	if res != nil {
-		out.findings = output.FromDiags(res.Fset, res.Diags)
-		for i := range out.findings {
-			out.findings[i].Design = u.name
-		}
-		if s := res.Solved; s != nil && s.Skipped != nil {
-			out.note = fmt.Sprintf("nodal: %s: note: the DC operating point was not solved, so the rating rules did not run: %v", output.TextSafe(u.name), s.Skipped)
-		}
-	}
-	return out
-}
-
-// checkSource is check.Source; tests replace it to reach the recovery path.
-var checkSource = check.Source
-
-func sortedKeys(m map[string]bool) []string {
-	out := make([]string, 0, len(m))
-	for k := range m {
-		out = append(out, k)
-	}
-	sort.Strings(out)
-	return out
-}
-
 func contains(list []string, s string) bool {
 	for _, x := range list {
 		if x == s {
@@ -456,163 +278,4 @@ func contains(list []string, s string) bool {
 func isTerminal(w io.Writer) bool {
 	f, ok := w.(*os.File)
 	return ok && (isatty.IsTerminal(f.Fd()) || isatty.IsCygwinTerminal(f.Fd()))
-}
-
-// collect expands folders into their .nodal files, sorted, each once.
-// Named files that are not .nodal files are skipped; named paths that do
-// not exist are skipped when git knows them (deleted by the change being
-// checked) and reported otherwise. A named link to a folder is walked like
-// the folder. walked holds the files found by walking rather than named.
-func collect(paths []string, stderr io.Writer) (out []string, walked map[string]bool, status int) {
-	seen := map[string]bool{}
-	walked = map[string]bool{}
-	var missing []string
-	add := func(p string) {
-		if !seen[p] {
-			seen[p] = true
-			out = append(out, p)
-		}
-	}
-	for _, p := range paths {
-		if p == "-" {
-			add(p)
-			continue
-		}
-		info, err := os.Stat(p)
-		if errors.Is(err, fs.ErrNotExist) {
-			missing = append(missing, p)
-			continue
-		}
-		if err != nil {
-			fmt.Fprintln(stderr, fileError(p, err))
-			status = 2
-			continue
-		}
-		if !info.IsDir() {
-			if strings.HasSuffix(p, ".nodal") {
-				add(filepath.Clean(p))
-			}
-			continue
-		}
-		// A link to a folder is walked as the folder it names; the walk
-		// itself does not follow links to folders.
-		start := p
-		if l, err := os.Lstat(p); err == nil && l.Mode()&fs.ModeSymlink != 0 {
-			start = filepath.Clean(p) + string(filepath.Separator)
-		}
-		var found []string
-		err = filepath.WalkDir(start, func(q string, e fs.DirEntry, err error) error {
-			if err != nil {
-				return err
-			}
-			if e.IsDir() && q != start && strings.HasPrefix(e.Name(), ".") {
-				return filepath.SkipDir
-			}
-			if !e.IsDir() && strings.HasSuffix(e.Name(), ".nodal") {
-				found = append(found, q)
-			}
-			return nil
-		})
-		if err != nil {
-			fmt.Fprintln(stderr, fileError(p, err))
-			status = 2
-		}
-		sort.Strings(found)
-		for _, q := range found {
-			// Behind a named link to a folder, files count as named: a
-			// link that leads outside the root is refused, not skipped.
-			walked[q] = start == p && (!seen[q] || walked[q])
-			add(q)
-		}
-	}
-	if reportUnknown(missing, "no such file or folder", stderr) {
-		status = 2
-	}
-	return out, walked, status
-}
-
-// reportUnknown says which of the missing paths git does not know: those
-// are typos, while a missing path git knows is a deletion a hook passes on,
-// skipped quietly. It reports whether any was a typo.
-func reportUnknown(missing []string, what string, stderr io.Writer) bool {
-	if len(missing) == 0 {
-		return false
-	}
-	typo := false
-	known := gitKnown(".", missing)
-	for _, p := range missing {
-		if !known[p] {
-			fmt.Fprintf(stderr, "nodal: %s: %s\n", output.TextSafe(p), what)
-			typo = true
-		}
-	}
-	return typo
-}
-
-// stagedNames turns the named paths (relative to the current folder) into
-// repository paths of staged .nodal files, or lists every staged one.
-// Unmerged files (a merge stopped on a conflict) are errors: the index
-// holds no one version of them to check.
-func stagedNames(root, prefix string, paths []string, stderr io.Writer) ([]string, int) {
-	unmerged, err := gitUnmerged(root)
-	if err != nil {
-		fmt.Fprintf(stderr, "nodal: --staged: %s\n", output.TextSafe(err.Error()))
-		return nil, 2
-	}
-	conflict := func(rp string) {
-		fmt.Fprintf(stderr, "nodal: %s: unmerged in git's index (a conflict); resolve the merge first, then stage the file\n", output.TextSafe(rp))
-	}
-	if len(paths) == 0 {
-		ps, err := gitStaged(root)
-		if err != nil {
-			fmt.Fprintf(stderr, "nodal: --staged: %s\n", output.TextSafe(err.Error()))
-			return nil, 2
-		}
-		status := 0
-		for _, p := range sortedKeys(unmerged) {
-			if strings.HasSuffix(p, ".nodal") {
-				conflict(p)
-				status = 2
-			}
-		}
-		return ps, status
-	}
-	var named, rps []string
-	seen := map[string]bool{}
-	for _, p := range paths {
-		if !strings.HasSuffix(p, ".nodal") {
-			continue
-		}
-		rp := path.Clean(prefix + filepath.ToSlash(p))
-		if seen[rp] {
-			continue
-		}
-		seen[rp] = true
-		named, rps = append(named, p), append(rps, rp)
-	}
-	// One ls-files call says which are staged; their content is read once,
-	// later, when they are checked.
-	in, err := gitInIndex(root, rps)
-	if err != nil {
-		fmt.Fprintf(stderr, "nodal: --staged: %v\n", err)
-		return nil, 2
-	}
-	var out, missing []string
-	status := 0
-	for i, rp := range rps {
-		if unmerged[rp] {
-			conflict(rp)
-			status = 2
-			continue
-		}
-		if in[rp] {
-			out = append(out, rp)
-		} else {
-			missing = append(missing, named[i])
-		}
-	}
-	if reportUnknown(missing, "not in git's index", stderr) {
-		status = 2
-	}
-	return out, status
 }

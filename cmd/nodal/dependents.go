@@ -10,6 +10,7 @@ package main
 // checked.
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
 	"io"
@@ -145,8 +146,9 @@ func sayDependents(stderr io.Writer, deps []string) {
 // isConfigName reports whether a path names a nodal.toml.
 func isConfigName(p string) bool { return filepath.Base(p) == "nodal.toml" }
 
-// worktreeDependents adds to names (paths as the user gave them) the
-// designs of the work tree that depend on them, on the named paths
+// worktreeDependents returns, relative to the current folder, the designs
+// of the work tree other than names (paths as the user gave them) that
+// depend on them, on the named paths
 // (deleted .nodal files and nodal.toml files among them), or on a .nodal
 // file git knows that is gone from the disk. The files considered are
 // those git tracks or would track; where the work tree and git's index
@@ -173,11 +175,11 @@ func worktreeDependents(names, paths []string, stderr io.Writer) []string {
 			// done rather than skip it quietly.
 			fmt.Fprintf(stderr, "nodal: note: designs that include the named files were not looked for: %s\n", output.TextSafe(err.Error()))
 		}
-		return names // no repository: no graph to follow
+		return nil // no repository: no graph to follow
 	}
 	cwd, err := os.Getwd()
 	if err != nil {
-		return names
+		return nil
 	}
 	// git names the root by its real path; the current folder may be
 	// reached through a link, and paths must compare alike.
@@ -214,7 +216,7 @@ func worktreeDependents(names, paths []string, stderr io.Writer) []string {
 	if !ok {
 		if deps, err = listedDependents(root, ch, absNames); err != nil {
 			fmt.Fprintf(stderr, "nodal: note: designs that include the named files were not looked for: %s\n", output.TextSafe(err.Error()))
-			return names
+			return nil
 		}
 	}
 	rel := make([]string, 0, len(deps))
@@ -225,7 +227,32 @@ func worktreeDependents(names, paths []string, stderr io.Writer) []string {
 		rel = append(rel, d)
 	}
 	sayDependents(stderr, rel)
-	return append(names, rel...)
+	return rel
+}
+
+// includerSearch is worktreeDependents run while the named files are
+// checked.
+type includerSearch struct {
+	done chan struct{}
+	deps []string
+	said bytes.Buffer // what it says on standard error
+}
+
+// startSearch starts worktreeDependents(names, paths) in the background.
+func startSearch(names, paths []string) *includerSearch {
+	s := &includerSearch{done: make(chan struct{})}
+	go func() {
+		defer close(s.done)
+		s.deps = worktreeDependents(names, paths, &s.said)
+	}()
+	return s
+}
+
+// wait returns the dependents found and what the search said, once it
+// ends.
+func (s *includerSearch) wait() (deps []string, said []byte) {
+	<-s.done
+	return s.deps, s.said.Bytes()
 }
 
 // listedDependents finds the dependents over git's listings of the work
