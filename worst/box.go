@@ -65,9 +65,12 @@ type Corner struct {
 // tolerance and every port's drive written as a range, in the order of
 // d's parts, and the ambient temperature last when it is a range.
 func params(d *circuit.Design, amb Ambient) (ps []Param, hasT bool) {
-	ranges := map[circuit.PartID]circuit.DriveRange{}
+	var ranges map[circuit.PartID]circuit.DriveRange // nil, and never read, without ranges
 	for _, r := range d.DriveRanges {
 		if r.High > r.Low {
+			if ranges == nil {
+				ranges = map[circuit.PartID]circuit.DriveRange{}
+			}
 			ranges[r.Part] = r
 		}
 	}
