@@ -19,7 +19,9 @@ import (
 // designs — a tree of resistors from a supply, then extra resistors,
 // capacitors, current sources, wires, closed switches, fuses and
 // inductors without dcr (so that ideal shorts land in parallel and in
-// loops), and sometimes a second supply equal to the first — are checked
+// loops), linear regulators and switching converters (three pins each,
+// their inputs and outputs anywhere), and sometimes a second supply equal
+// to the first — are checked
 // with their statements in two random orders. The findings must be the
 // same, message for message once their figures are masked, and every
 // part's voltage, current and power (by name) and every group of parallel
@@ -65,7 +67,18 @@ func TestStatementOrderDoesNotMatter(t *testing.T) {
 				continue
 			}
 			rated := rapid.SampledFrom([]string{"100 mA", "500 mA", "2 A"}).Draw(t, "amps")
-			switch rapid.IntRange(0, 6).Draw(t, "kind") {
+			switch rapid.IntRange(0, 7).Draw(t, "kind") {
+			case 7:
+				out := name(rapid.IntRange(0, nets).Draw(t, "out"))
+				if out == a || out == b {
+					continue
+				}
+				if rapid.Bool().Draw(t, "converter") {
+					add("converter %s (%s, %s, %s) 3.3 V efficiency 85%% input 4 V to 16 V quiescent 50 µA rated %s", part("U"), a, out, b, rated)
+				} else {
+					add("regulator %s (%s, %s, %s) %s dropout 300 mV quiescent 1 mA limit 1 A rated %s, 2 W", part("U"), a, out, b,
+						rapid.SampledFrom([]string{"1.8 V", "3.3 V", "5 V"}).Draw(t, "set"), rated)
+				}
 			case 0:
 				add("resistor %s (%s, %s) %s rated %s", part("R"), a, b, rapid.SampledFrom(ohms).Draw(t, "ohms"), rapid.SampledFrom(watts).Draw(t, "watts"))
 			case 1:
@@ -160,6 +173,11 @@ func values(res *check.Result) map[string]float64 {
 		put("V "+n, q.V)
 		put("I "+n, q.I)
 		put("P "+n, q.P)
+		if mp := r.MultiAt(circuit.PartID(i)); mp != nil {
+			for k, pin := range d.Parts[i].Kind.Info().Pins {
+				put("I "+n+"."+pin, rules.Clean(mp.I[k], out["max I"], rules.FloorI))
+			}
+		}
 		if r.Undetermined != nil {
 			put("U "+n, float64(r.Undetermined[i]))
 		}

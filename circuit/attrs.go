@@ -72,8 +72,8 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo, needs bool) b
 			bad(CodeBadAttribute, "only vf and breakdown take \"at\" (vf 2.0 V at 20 mA, breakdown 5.1 V at 5 mA)")
 			continue
 		}
-		if a.To != nil && key != "derate" {
-			bad(CodeBadAttribute, "only derate takes \"to\" (derate 70 °C to 155 °C)")
+		if a.To != nil && key != "derate" && key != "input" {
+			bad(CodeBadAttribute, "only derate and input take \"to\" (derate 70 °C to 155 °C, input 6 V to 28 V)")
 			continue
 		}
 		if len(a.Values) == 0 {
@@ -118,7 +118,17 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo, needs bool) b
 			} else {
 				p.Tol = q.Value
 			}
-		case "dcr", "series", "capacity":
+		case "efficiency":
+			if !q.Percent {
+				bad(um, "efficiency %s must be a percentage, e.g. efficiency 90%%", b.describe(a.Values[0]))
+			} else if q.Value <= 0 || q.Value > 1 {
+				bad(CodeBadValue, "efficiency %s is outside 0 %% … 100 %% (0 excluded)", units.FormatPercent(q.Value))
+			} else {
+				p.conv().Efficiency = q.Value
+			}
+		case "input":
+			b.rangeAttr(p, a, q, um, bad)
+		case "dcr", "series", "capacity", "dropout", "quiescent", "limit":
 			spec := quantityAttrs[key]
 			switch {
 			case q.Dim != spec.Dim || q.Percent:
@@ -184,11 +194,40 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo, needs bool) b
 		bad(CodeBadValue, "its reverse rating %s is below its breakdown voltage %s, so it would be past its rating whenever it breaks down; a clamp or reference diode is rated by its power and current in breakdown (rated W, A)",
 			units.Format(p.RatedVoltage, units.Voltage), units.Format(p.Breakdown, units.Voltage))
 	}
-	if need := info.Needs; need != "" && !seen[need] && needs {
-		apos, aend = p.Pos, p.End
-		bad(CodeMissingValue, "%s", info.NeedsHint)
+	for _, need := range info.Needs {
+		if !seen[need.Attr] && needs {
+			apos, aend = p.Pos, p.End
+			bad(CodeMissingValue, "%s", need.Hint)
+		}
 	}
 	return ok
+}
+
+// rangeAttr reads a converter's input range, "input LOW to HIGH", both
+// voltages, 0 ≤ LOW < HIGH. An unusable one has been reported through bad.
+func (b *builder) rangeAttr(p *Part, a *grammar.Attr, q units.Quantity, um Code, bad func(Code, string, ...any)) {
+	if a.To == nil {
+		bad(CodeMissingValue, "input needs its range, from the lowest to the highest input voltage: input %s to 28 V", b.describe(a.Values[0]))
+		return
+	}
+	hq, err := b.quantity(a.To)
+	if err != nil {
+		if rule, silent := errRule(err); !silent {
+			bad(rule, "input … to %s", err)
+		}
+		return
+	}
+	um = b.unitRule(a.Values[0], a.To)
+	switch {
+	case q.Dim != units.Voltage || q.Percent || hq.Dim != units.Voltage || hq.Percent:
+		bad(um, "input %s to %s must be a range of voltages in V", b.describe(a.Values[0]), b.describe(a.To))
+	case q.Value < 0 || hq.Value <= q.Value:
+		bad(CodeBadValue, "input %s to %s: the range must run from a voltage of at least 0 V up to a higher one",
+			units.Format(q.Value, units.Voltage), units.Format(hq.Value, units.Voltage))
+	default:
+		c := p.conv()
+		c.InLow, c.InHigh = q.Value, hq.Value
+	}
 }
 
 // pointAttr reads "KEY V at A", a voltage measured at a current, both

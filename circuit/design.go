@@ -102,12 +102,37 @@ type Part struct {
 
 	Capacity float64 // batteries: the charge they hold when full (C; 1 Ah = 3600 C)
 
+	// Conv holds a regulator's or converter's attributes; nil for other
+	// kinds (and for one written without them).
+	Conv *Conv
+
 	Pos    diag.Pos // start of the statement
 	End    diag.Pos // end of the statement
 	PinPos [MaxPins]diag.Pos
 	// Inst is the instance this part was expanded from (an index into
 	// Design.Instances), or -1 for a part written at the top level.
 	Inst int32
+}
+
+// Conv is what a regulator or converter states besides its set output
+// voltage (its Value); zero when not given.
+type Conv struct {
+	Dropout   float64 // V: the least input-to-output difference that holds the output (regulators)
+	Quiescent float64 // A: drawn from the input and returned by the common pin
+	Limit     float64 // A: the output current the output falls to hold (regulators); 0 for none
+	// Efficiency is the fraction of its input power a converter delivers.
+	Efficiency float64
+	// InLow and InHigh are a converter's input range (V); both 0 when
+	// none is given.
+	InLow, InHigh float64
+}
+
+// conv returns p.Conv, making it first if need be.
+func (p *Part) conv() *Conv {
+	if p.Conv == nil {
+		p.Conv = &Conv{}
+	}
+	return p.Conv
 }
 
 // Instance is one use of a block, for naming paths and related locations.

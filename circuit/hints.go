@@ -78,7 +78,7 @@ func (b *builder) unitHint(k Kind, err error) error {
 // voltage: the hint shows it in the form that says so.
 func (b *builder) noValueHint(p *Part, v *grammar.Value) string {
 	info := p.Kind.Info()
-	if info.Needs == "vf" && v.Num != "" {
+	if len(info.Needs) > 0 && info.Needs[0].Attr == "vf" && v.Num != "" {
 		if q, err := units.Parse(v.Num, v.Unit); err == nil && q.Dim == units.Voltage && !q.Percent && !v.Neg {
 			return fmt.Sprintf("no plain value; a forward voltage is written with the current it is measured at: vf %s at 10 mA", b.describe(v))
 		}

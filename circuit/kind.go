@@ -33,6 +33,8 @@ const (
 	PowerLoad
 	VoltageDrive
 	CurrentDrive
+	Regulator
+	Converter
 	numKinds
 )
 
@@ -63,15 +65,18 @@ type KindInfo struct {
 	// NoValue completes "KIND NAME takes …" for a value given to a kind
 	// that takes none.
 	NoValue string
-	// Needs names an attribute the kind cannot do without, and NeedsHint
-	// says so.
-	Needs, NeedsHint string
+	// Needs lists the attributes the kind cannot do without, each with
+	// the message that asks for it.
+	Needs []Need
 	// Attrs lists the attributes the kind takes besides "rated".
 	Attrs []string
 	// Ratings lists what "rated" takes on the kind and how each rating is
 	// judged, in the order they are judged; a rating read from the value
 	// (a fuse's current) is listed too, with FromValue.
 	Ratings []Rating
+	// Converts says how a kind with an input rail (Supply.In) turns what
+	// it draws there into what it delivers at its output; see Conversion.
+	Converts Conversion
 	// Ideality is the default ideality factor of a Junction kind (common
 	// practice).
 	Ideality float64
@@ -114,6 +119,9 @@ func (s *Supply) HasInput() bool { return s.In != NoPin }
 // a port's voltage drive. A current source or current drive is not one: it
 // holds a current, not a rail's voltage.
 var ownSupply = &Supply{Out: 0, OutRef: 1, In: NoPin, InRef: NoPin}
+
+// Need is an attribute a kind cannot do without, and how to ask for it.
+type Need struct{ Attr, Hint string }
 
 // Measure says which magnitude of an operating-point value a rating limits.
 type Measure uint8
@@ -178,6 +186,24 @@ const (
 	ConstantPower              // draws the power of its value, P = V·I, from first pin to second
 )
 
+// Conversion is how a supply-like kind with an input rail turns its input
+// into its output; package solve models each (solve/supply.go).
+type Conversion uint8
+
+const (
+	NoConversion Conversion = iota
+	// Linear passes its output current through from its input, adding
+	// its quiescent current, which leaves by its common pin: the output
+	// is held at the value while the input is at least the dropout above
+	// it, else it tracks the input less the dropout; past its limit the
+	// output falls to hold the limit current (a linear regulator).
+	Linear
+	// Switched draws its output power divided by its efficiency, plus
+	// its input voltage times its quiescent current, from its input rail:
+	// a constant-power load upstream (a switching converter).
+	Switched
+)
+
 // DC is how one part behaves at DC.
 type DC struct {
 	Model Model
@@ -228,9 +254,12 @@ type quantityAttr struct {
 // quantityAttrs declares the attributes that take one quantity; the kinds
 // that take each list it in Attrs.
 var quantityAttrs = map[string]quantityAttr{
-	"dcr":      {Dim: units.Resistance, Zero: true, Field: func(p *Part) *float64 { return &p.DCR }},
-	"series":   {Dim: units.Resistance, Zero: true, Field: func(p *Part) *float64 { return &p.Series }},
-	"capacity": {Dim: units.Charge, Field: func(p *Part) *float64 { return &p.Capacity }},
+	"dcr":       {Dim: units.Resistance, Zero: true, Field: func(p *Part) *float64 { return &p.DCR }},
+	"series":    {Dim: units.Resistance, Zero: true, Field: func(p *Part) *float64 { return &p.Series }},
+	"capacity":  {Dim: units.Charge, Field: func(p *Part) *float64 { return &p.Capacity }},
+	"dropout":   {Dim: units.Voltage, Zero: true, Field: func(p *Part) *float64 { return &p.conv().Dropout }},
+	"quiescent": {Dim: units.Current, Zero: true, Field: func(p *Part) *float64 { return &p.conv().Quiescent }},
+	"limit":     {Dim: units.Current, Field: func(p *Part) *float64 { return &p.conv().Limit }},
 }
 
 // The common rating declarations.
@@ -291,6 +320,21 @@ var (
 	}
 )
 
+var (
+	supplyPins  = []string{"in", "out", "common"}
+	supplyRoles = []string{"draws from its input rail here", "the value's volts above common", "the reference of both; the quiescent current leaves here"}
+	// throughSupply: out held against common, drawing from in against
+	// common.
+	throughSupply = &Supply{Out: 1, OutRef: 2, In: 0, InRef: 2}
+	// A supply's output current is what flows out of its out pin,
+	// against the pin-to-pin convention.
+	outputCurrent = Rating{Dim: units.Current, What: "output current", Measure: Reverse, Says: "delivers %s", Of: "output rating"}
+	// outputHeld: at DC a regulator or converter holds its output at its
+	// value above common, for the topology rules; package solve models
+	// the rest of it (Converts).
+	outputHeld = func(*Part) DC { return DC{Model: VoltageDrop} }
+)
+
 var kinds = [numKinds]KindInfo{
 	Resistor: {Word: "resistor", Pins: plainPins, Roles: plainRoles, Value: units.Resistance,
 		Attrs:   []string{"tol", "tempco", "derate"},
@@ -316,10 +360,10 @@ var kinds = [numKinds]KindInfo{
 		Ratings: []Rating{{Dim: units.Voltage, What: "voltage", Says: "must develop %s", Of: "compliance voltage"}},
 		DC:      func(*Part) DC { return DC{Model: CurrentFlow} }},
 	Diode: {Word: "diode", Pins: junctionPins, Roles: junctionRoles, NoValue: junctionNoValue,
-		Attrs: []string{"vf", "ideality", "series", "theta", "tjmax", "breakdown"}, Needs: "vf", NeedsHint: junctionNeeds,
+		Attrs: []string{"vf", "ideality", "series", "theta", "tjmax", "breakdown"}, Needs: []Need{{"vf", junctionNeeds}},
 		Ratings: junctionRatings("diode-current"), DC: junctionDC, Ideality: 1},
 	LED: {Word: "led", Pins: junctionPins, Roles: junctionRoles, NoValue: ledNoValue,
-		Attrs: []string{"vf", "ideality", "series", "theta", "tjmax"}, Needs: "vf", NeedsHint: ledNeeds,
+		Attrs: []string{"vf", "ideality", "series", "theta", "tjmax"}, Needs: []Need{{"vf", ledNeeds}},
 		Ratings: junctionRatings("led-current"), DC: junctionDC, Ideality: 2},
 	Fuse: {Word: "fuse", Pins: plainPins, Roles: plainRoles, Value: units.Current, ValueHint: ": its rated current in A",
 		Attrs: []string{"dcr"},
@@ -364,6 +408,31 @@ var kinds = [numKinds]KindInfo{
 	VoltageDrive: {Word: "port", Name: "voltage drive", Pins: drivePins,
 		Roles: []string{"the value's volts above ground, behind series", "the design's ground"}, Value: units.Voltage,
 		ValueHint: driveHint, Attrs: []string{"series"}, DC: emfBehindSeries, OnPort: true, Supply: ownSupply},
+	// A linear regulator: its output held at its value above common, its
+	// input a load on its rail (common practice, from the energy
+	// balance). Its output current is the current out of its out pin,
+	// and its power what it dissipates, (Vin − Vout)·Iout + Vin·Iq.
+	Regulator: {Word: "regulator", Pins: supplyPins, Roles: supplyRoles, Ends: [2]uint8{1, 2},
+		Value: units.Voltage, ValueHint: ": its set output voltage in V",
+		Attrs: []string{"tol", "dropout", "quiescent", "limit"},
+		Needs: []Need{{"dropout", "needs its dropout voltage from its datasheet, e.g. dropout 300 mV"}},
+		Ratings: []Rating{
+			derated(outputCurrent, "regulator-current", 0.80),
+			derated(Rating{Dim: units.Power, What: "power", Says: "dissipates %s"}, "regulator-power", 0.60),
+		},
+		DC: outputHeld, Supply: throughSupply, Converts: Linear},
+	// A switching converter: its output held at its value above common,
+	// its input a constant-power load, P = Vout·Iout/efficiency + Vin·Iq
+	// (the energy balance).
+	Converter: {Word: "converter", Pins: supplyPins, Roles: supplyRoles, Ends: [2]uint8{1, 2},
+		Value: units.Voltage, ValueHint: ": its set output voltage in V",
+		Attrs: []string{"tol", "efficiency", "input", "quiescent"},
+		Needs: []Need{{"efficiency", "needs its efficiency at the load from its datasheet, e.g. efficiency 90%"}},
+		Ratings: []Rating{
+			derated(outputCurrent, "converter-current", 0.80),
+			{Dim: units.Power, What: "power", Says: "dissipates %s"},
+		},
+		DC: outputHeld, Supply: throughSupply, Converts: Switched},
 	// A current drive's pins are the other way round: its current flows
 	// out of ground through the drive and into the port's net.
 	CurrentDrive: {Word: "port", Name: "current drive", Pins: []string{"ground", "port"},

@@ -49,6 +49,9 @@ var deratingDefaults = []struct {
 	{"inductor-current", 80},
 	{"fuse-current", 75},
 	{"supply-current", 90},
+	{"regulator-current", 80},
+	{"regulator-power", 60},
+	{"converter-current", 80},
 }
 
 // Limit defaults: how deep blocks may nest, how many parts a design may

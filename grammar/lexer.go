@@ -21,7 +21,7 @@ const (
 	TokComment
 	TokIdent    // a name: [A-Za-z_][A-Za-z0-9_]*
 	TokKeyword  // a statement keyword: design ground port include block
-	TokAttrWord // an attribute word: tol rated vf at ideality series dcr tempco derate theta tjmax capacity breakdown open closed
+	TokAttrWord // an attribute word: tol rated vf at ideality series dcr tempco derate theta tjmax capacity breakdown dropout quiescent limit efficiency input open closed
 	TokUnit     // a unit with optional prefix standing alone: Ω kΩ mA V %, °C, K/W
 	TokCode     // an IEC 60062 resistor code starting with R: R47
 	TokNumber   // a number with any letters glued to it: 12, 4.7k, 4k7, 100nF
@@ -50,7 +50,8 @@ var attrWords = map[string]bool{
 	"tol": true, "rated": true, "vf": true, "at": true, "ideality": true,
 	"series": true, "dcr": true, "open": true, "closed": true,
 	"tempco": true, "derate": true, "theta": true, "tjmax": true, "capacity": true,
-	"breakdown": true,
+	"breakdown": true, "dropout": true, "quiescent": true, "limit": true,
+	"efficiency": true, "input": true,
 }
 
 // byteOrderMark is U+FEFF in UTF-8, which some editors write at the start
@@ -59,7 +60,7 @@ const byteOrderMark = "\ufeff"
 
 // attributeList names the attributes for messages, commonest first: the
 // attribute words but at and the switch states.
-const attributeList = "tol, rated, vf, ideality, series, dcr, tempco, derate, theta, tjmax, capacity, breakdown"
+const attributeList = "tol, rated, vf, ideality, series, dcr, tempco, derate, theta, tjmax, capacity, breakdown, dropout, quiescent, limit, efficiency, input"
 
 // MaxLineTokens bounds the tokens of one line; a longer line is a syntax
 // error rather than a reason to allocate without limit.

@@ -139,7 +139,8 @@ var NearRating = &Analyzer{
 	Doc: `a part is within its rating but past the usual derating limit
 Defaults (common practice, set in nodal.toml under [derating]): resistor
 power 60 %, capacitor voltage 80 %, diode and LED current 80 %, inductor
-current 80 %, fuse current 75 %, supply current 90 %. A part within the
+current 80 %, fuse current 75 %, supply current 90 %, regulator and
+converter output current 80 %, regulator power 60 %. A part within the
 limit at nominal but past it at the worst corner of its tolerances and
 ambient temperature gets the warning too, naming the corner.`,
 	Run: func(p *Pass) (any, error) {

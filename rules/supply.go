@@ -110,9 +110,13 @@ func (pt *Point) across(p *circuit.Part, q Quantities, a, b int) float64 {
 // does not give.
 func (pt *Point) PinCurrent(p *circuit.Part, id circuit.PartID, pin int) (float64, bool) {
 	if p.Multi() {
-		// A part with more than two pins: its pins' currents are not
-		// its ends' current, and this operating point does not hold them.
-		return 0, false
+		// A part with more than two pins: the solve gives the current
+		// into each pin (solve.Result.Multi).
+		mp := pt.r.MultiAt(id)
+		if mp == nil || pin < 0 || pin >= len(p.Nets()) {
+			return 0, false
+		}
+		return Clean(mp.I[pin], pt.is, FloorI), true
 	}
 	q := pt.Part(id)
 	e := &p.Kind.Info().Ends

@@ -83,6 +83,11 @@ func (pt *Point) At(celsius float64) *Point {
 func (pt *Point) Part(i circuit.PartID) Quantities {
 	v, c := Clean(pt.r.V[i], pt.vs, FloorV), Clean(pt.r.I[i], pt.is, FloorI)
 	q := Quantities{V: v, I: c, P: v * c, Ambient: pt.ambient, HasAmbient: pt.hasAmbient}
+	if pt.r.MultiAt(i) != nil {
+		// A part with more pins absorbs more than the product across its
+		// ends: what it dissipates in all (solve.Result.P).
+		q.P = Clean(pt.r.P[i], pt.vs*pt.is, FloorV*FloorI)
+	}
 	// The solver's own verdicts on these values (solve owns them): what it
 	// could not certify, and what the circuit leaves undetermined.
 	q.Uncertified = pt.r.Uncertified != nil && pt.r.Uncertified[i]

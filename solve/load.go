@@ -100,7 +100,17 @@ func (m *model) updateLoads(xn []float64) bool {
 		}
 		pw := m.lambda * l.p
 		l.vth, l.rth, l.starved = v+rth*l.i, rth, false
+		// Across pins tied by shorts and sources (a == b) the voltage is a
+		// difference of offsets: 0 to rounding when the pins are shorted,
+		// whatever order the offsets were summed in.
+		if a == b && math.Abs(v) <= 1e-12*(math.Abs(m.netV(xn, p.Pins[0]))+math.Abs(m.netV(xn, p.Pins[1]))) {
+			v = 0
+		}
 		switch disc := l.vth*l.vth - 4*pw*rth; {
+		case !(rth > 0) && v == 0:
+			// Held at no voltage: no current can draw its power.
+			l.vth, l.starved = v, true
+			l.next = 0
 		case !(rth > 0):
 			// Held by a voltage: its current follows at once.
 			l.next = pw / v
@@ -142,13 +152,19 @@ func (m *model) starvedError() error {
 		}
 		p := &m.d.Parts[l.part]
 		parts = append(parts, l.part)
+		who, pins := p.Kind.String()+" "+m.d.NameOf(p), "pos not above neg"
+		if m.label != nil {
+			if s, ok := m.label(l.part); ok {
+				who, pins = s, "in not above common"
+			}
+		}
 		if !(l.vth > 0) {
-			msgs = append(msgs, fmt.Sprintf("%s %s demands %s, more power than the rail can deliver: the circuit puts %s across it, pos not above neg",
-				p.Kind, m.d.NameOf(p), fmtW(l.p), fmtV(l.vth)))
+			msgs = append(msgs, fmt.Sprintf("%s demands %s, more power than the rail can deliver: the circuit puts %s across it, %s",
+				who, fmtW(l.p), fmtV(l.vth), pins))
 			continue
 		}
-		msgs = append(msgs, fmt.Sprintf("%s %s demands %s, more power than the rail can deliver: at most %s, from %s behind %s (maximum power transfer)",
-			p.Kind, m.d.NameOf(p), fmtW(l.p), fmtW(l.vth*l.vth/(4*l.rth)), fmtV(l.vth), fmtR(l.rth)))
+		msgs = append(msgs, fmt.Sprintf("%s demands %s, more power than the rail can deliver: at most %s, from %s behind %s (maximum power transfer)",
+			who, fmtW(l.p), fmtW(l.vth*l.vth/(4*l.rth)), fmtV(l.vth), fmtR(l.rth)))
 	}
 	if len(parts) == 0 {
 		return nil

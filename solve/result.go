@@ -165,6 +165,15 @@ func (r *Result) selfCheck(d *circuit.Design) error {
 	res := make([]float64, len(d.Nets))
 	for i := range d.Parts {
 		p := &d.Parts[i]
+		if mp := r.multiAt(circuit.PartID(i)); mp != nil {
+			for k, n := range p.Nets() {
+				res[n] += mp.I[k]
+				r.KCLScale = math.Max(r.KCLScale, math.Abs(mp.I[k]))
+			}
+			r.PowerSum += r.P[i]
+			r.PowerScale += math.Abs(r.P[i])
+			continue
+		}
 		res[p.Pins[0]] += r.I[i]
 		res[p.Pins[1]] -= r.I[i]
 		r.KCLScale = math.Max(r.KCLScale, math.Abs(r.I[i]))

@@ -57,6 +57,10 @@ type Options struct {
 	// MNA forces the general branch-current formulation (one unknown per
 	// voltage source) instead of eliminating the voltage sources.
 	MNA bool
+
+	// label names a part in the solver's messages when it stands for a
+	// piece of a part with more pins (supply.go); nil for none.
+	label func(circuit.PartID) (string, bool)
 }
 
 // Result is a DC operating point. Slices are indexed by NetID and PartID;
@@ -107,6 +111,12 @@ type Result struct {
 	// Groups are the groups of ideal shorts in parallel, with the current
 	// each group carries in all.
 	Groups []ShortGroup
+	// Multi holds the operating point of every part with more than two
+	// pins, in part order (read it with MultiAt); nil when there is none.
+	// Such a part's V and I are across its kind's Ends, and its P is the
+	// power it absorbs in all, the sum over its pins of the pin's voltage
+	// times the current into it there.
+	Multi []MultiPoint
 
 	// Self-checks: the largest KCL residual at any net and the largest part
 	// current; the sum of the absorbed powers and the sum of their
@@ -180,6 +190,8 @@ type model struct {
 	// ddFactor is the double-double factorisation of the last system
 	// when its float64 one failed, nil otherwise.
 	ddFactor *ddLU
+	// label is Options.label.
+	label func(circuit.PartID) (string, bool)
 }
 
 // Solve finds the DC operating point of d. It expects a design the
@@ -189,6 +201,14 @@ func Solve(d *circuit.Design, opt *Options) (*Result, error) {
 	if opt == nil {
 		opt = &Options{}
 	}
+	if hasMulti(d) {
+		return solveMulti(d, opt)
+	}
+	return solveTwoPin(d, opt)
+}
+
+// solveTwoPin solves a design whose parts all have two pins.
+func solveTwoPin(d *circuit.Design, opt *Options) (*Result, error) {
 	t := opt.Temperature
 	if t == 0 {
 		t = RoomTemperature
@@ -198,6 +218,7 @@ func Solve(d *circuit.Design, opt *Options) (*Result, error) {
 	if err != nil {
 		return nil, err
 	}
+	m.label = opt.label
 	kind := opt.Solver
 	if opt.Dense {
 		kind = DenseLU

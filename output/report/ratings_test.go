@@ -36,6 +36,19 @@ var forms = map[circuit.Kind][]string{
 	circuit.Battery:       {"battery X (%s, %s) 4 V series 2 Ω", "battery X (%s, %s) 4 V"},
 	circuit.CurrentLoad:   {"load X (%s, %s) 1 mA"},
 	circuit.PowerLoad:     {"load X (%s, %s) 10 mW"}, // reversed, it has no operating point
+	// Three-pin kinds: input from the supply, the two %s their output
+	// and common (harnesses).
+	circuit.Regulator: {"regulator X (top, %s, %s) 4 V dropout 300 mV quiescent 1 mA"},
+	circuit.Converter: {"converter X (top, %s, %s) 4 V efficiency 80%% quiescent 1 mA"},
+}
+
+// harnesses holds the harness of a kind that needs another: a supply-like
+// part fed from top delivers into a load from a to gnd (reversed, its
+// common pin would have to sink the load's current, and no operating
+// point exists).
+var harnesses = map[circuit.Kind]string{
+	circuit.Regulator: "ground gnd\nsource VH (top, gnd) 10 V\nresistor RH (a, gnd) 1 kΩ\n",
+	circuit.Converter: "ground gnd\nsource VH (top, gnd) 10 V\nresistor RH (a, gnd) 1 kΩ\n",
 }
 
 // ratingRules are the rules that judge a use past its rating.
@@ -44,7 +57,8 @@ var ratingRules = map[string]bool{"over-power": true, "over-current": true, "ove
 // measure is what a rating in dimension dim limits on a part of kind k,
 // as docs/language.md defines "rated": a diode's or LED's rated current is
 // its forward current and its rated voltage its reverse voltage; a
-// battery's rated current is its discharge current, out of its pos pin;
+// battery's rated current is its discharge current, out of its pos pin,
+// and a regulator's or converter's its output current, out of its out pin;
 // every other rating limits the magnitude.
 func measure(k circuit.Kind, dim units.Dim, q rules.Quantities) float64 {
 	junction := k == circuit.Diode || k == circuit.LED
@@ -53,7 +67,7 @@ func measure(k circuit.Kind, dim units.Dim, q rules.Quantities) float64 {
 		return math.Abs(q.P)
 	case dim == units.Current && junction:
 		return math.Max(q.I, 0)
-	case dim == units.Current && k == circuit.Battery:
+	case dim == units.Current && (k == circuit.Battery || k.Info().Supply != nil && k.Info().Supply.HasInput()):
 		return math.Max(-q.I, 0)
 	case dim == units.Current:
 		return math.Abs(q.I)
@@ -78,6 +92,10 @@ func TestEveryRatingJudged(t *testing.T) {
 		if !ok {
 			t.Errorf("kind %s has no statement in forms: add one", k)
 			continue
+		}
+		harness := harness
+		if h, ok := harnesses[k]; ok {
+			harness = h
 		}
 		for _, dim := range k.Info().RatedDims() {
 			seen := false // some form and orientation gives the quantity

@@ -7,7 +7,10 @@
 // its kind lists them; its current flows from the first pin to the second
 // through the part; its power is voltage times current, positive when the
 // part absorbs energy and negative when it delivers it (a supply driving a
-// load). These are the values of package solve.
+// load). These are the values of package solve. A part with more than two
+// pins (a regulator) gives its voltage and current across the two pins its
+// kind's Ends name (out to common), and as power what it dissipates in
+// all.
 //
 // # Use of a rating
 //

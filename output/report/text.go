@@ -147,6 +147,14 @@ func (t *Table) WriteText(w io.Writer, opt TextOptions) error {
 
 	bw.WriteString("\nVoltage is V(first pin) − V(second pin); current flows from the first pin\n" +
 		"to the second through the part; power is positive when absorbed.\n")
+	for _, p := range t.Parts {
+		if ki := p.Kind.Info(); len(ki.Pins) > 2 {
+			a, b := ki.Pins[ki.Ends[0]], ki.Pins[ki.Ends[1]]
+			bw.WriteString("A part with more pins (a regulator, a converter) shows V(" + a + ") − V(" + b + "),\n" +
+				"the current into " + a + " (minus what it delivers), and the power it dissipates.\n")
+			break
+		}
+	}
 	if unknown {
 		bw.WriteString("Values shown as " + undetermined + " are not fixed by the circuit (a section with no\n" +
 			"DC path to ground, or a loop of ideal shorts and voltage sources), so the\n" +

@@ -24,9 +24,9 @@ syntax keyword nodalKeyword design ground port include block ambient
 " Built-in part kinds where a statement starts; any other first word
 " followed by a name is a block instance.
 syntax match nodalInstance "^\s*\zs\h\w*\ze\s\+\S\+\s*("
-syntax match nodalKind "^\s*\zs\%(resistor\|capacitor\|inductor\|source\|diode\|led\|fuse\|switch\|wire\|battery\|load\)\>"
+syntax match nodalKind "^\s*\zs\%(resistor\|capacitor\|inductor\|source\|diode\|led\|fuse\|switch\|wire\|battery\|load\|regulator\|converter\)\>"
 " Attributes and switch states.
-syntax keyword nodalAttribute tol rated vf at ideality series dcr capacity tempco derate theta tjmax breakdown
+syntax keyword nodalAttribute tol rated vf at ideality series dcr capacity tempco derate theta tjmax breakdown dropout quiescent limit efficiency input
 syntax keyword nodalState open closed
 
 " Quantities: a number with anything glued to it (4.7kΩ, 4k7, 100nF, 5%),

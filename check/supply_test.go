@@ -1,0 +1,88 @@
+package check
+
+import (
+	"math"
+	"testing"
+
+	"nodal/circuit"
+	"nodal/rules"
+)
+
+// powerTree is a battery-powered board: a converter from the pack, two
+// regulators from the converter's rail (one lifted on its common pin),
+// and loads of every sort, an LED among them.
+const powerTree = `ground gnd
+battery B1 (vbat, gnd) 14.8 V series 120 mΩ capacity 3 Ah rated 5 A
+resistor RW (vbat, vpack) 50 mΩ rated 2 W
+converter U1 (vpack, v5, gnd) 5 V efficiency 91% input 6 V to 28 V quiescent 60 µA rated 2 A, 1 W
+regulator U2 (v5, v3, gnd) 3.3 V dropout 250 mV quiescent 45 µA limit 800 mA rated 500 mA, 1 W
+regulator U3 (v5, v18, ref) 1.5 V dropout 300 mV quiescent 2 mA rated 300 mA, 1 W
+resistor RREF (ref, gnd) 150 Ω
+load MCU (v3, gnd) 85 mA
+load RADIO (v5, gnd) 1.4 W
+resistor RL (v18, gnd) 12 Ω rated 1 W
+resistor RLED (v3, led) 150 Ω
+led D1 (led, gnd) vf 2.0 V at 10 mA
+`
+
+// TestPowerTreeTellegen: over a whole design with regulators and
+// converters, the sum over every part and every pin of the pin's net
+// voltage times the current into the part there is zero (Tellegen's
+// theorem, Philips Res. Rep. 7, 259 (1952), from memory: it follows from
+// Kirchhoff's current law at every net, whatever the parts), to 1e-9 of
+// the sum of the terms' magnitudes; so is the sum of the parts' absorbed
+// powers. Each regulator and converter draws at its input the power it
+// delivers plus what it dissipates (energy balance), to 1e-9, as the
+// rules' figures give it.
+func TestPowerTreeTellegen(t *testing.T) {
+	res, err := Source("t.nodal", []byte(powerTree), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.Solved == nil || res.Solved.OP == nil {
+		t.Fatalf("no operating point: %v", res.Diags)
+	}
+	d, r := res.Build.Design, res.Solved.OP
+	sum, scale, psum, pscale := 0.0, 0.0, 0.0, 0.0
+	supplies := 0
+	pt := rules.NewPoint(r)
+	for i := range d.Parts {
+		p := &d.Parts[i]
+		id := circuit.PartID(i)
+		into := []float64{r.I[i], -r.I[i]}
+		if mp := r.MultiAt(id); mp != nil {
+			into = mp.I[:len(p.Nets())]
+		}
+		for k, n := range p.Nets() {
+			sum += r.NetV[n] * into[k]
+			scale += math.Abs(r.NetV[n] * into[k])
+		}
+		psum += r.P[i]
+		pscale += math.Abs(r.P[i])
+		s, ok := pt.SupplyFlow(p, id)
+		if !ok || !s.HasInput {
+			continue
+		}
+		supplies++
+		// The power it absorbs in all (what the solve gives) is what it
+		// draws less what it delivers.
+		if math.Abs(s.PIn-(s.POut+r.P[i])) > 1e-9*s.PIn || math.Abs(s.Loss-r.P[i]) > 1e-9*s.PIn {
+			t.Errorf("%s: draws %.12g W, delivers %.12g W and dissipates %.12g W (loss %.12g W)", p.Local, s.PIn, s.POut, r.P[i], s.Loss)
+		}
+		if p.Kind == circuit.Converter {
+			// Pin = Pout/η + Vin·Iq (energy balance).
+			if want := s.POut/p.Conv.Efficiency + s.VIn*p.Conv.Quiescent; math.Abs(s.PIn-want) > 1e-9*want {
+				t.Errorf("%s draws %.12g W, want Pout/η + Vin·Iq = %.12g W", p.Local, s.PIn, want)
+			}
+		}
+	}
+	if supplies != 3 {
+		t.Errorf("%d supplies with an input rail, want 3", supplies)
+	}
+	if math.Abs(sum) > 1e-9*scale || math.Abs(psum) > 1e-9*pscale {
+		t.Errorf("Tellegen: Σ V·I over pins %g W of %g W; Σ P %g W of %g W", sum, scale, psum, pscale)
+	}
+	for _, dg := range res.Diags {
+		t.Errorf("unexpected finding: %s [%s]", dg.Message, dg.Rule)
+	}
+}

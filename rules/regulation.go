@@ -1,0 +1,99 @@
+package rules
+
+// regulation.go: the rules for regulators and converters that cannot hold
+// their set output: dropout, current limit, an input outside a
+// converter's range. What each delivers and draws is Point.SupplyFlow's.
+
+import (
+	"fmt"
+
+	"nodal/circuit"
+	"nodal/diag"
+	"nodal/solve"
+	"nodal/units"
+)
+
+// supplyRule makes a rule that reports each regulator or converter for
+// which find returns a message.
+func supplyRule(name, doc string, find func(d *circuit.Design, q *circuit.Part, s Flow, g solve.Region) string) *Analyzer {
+	return &Analyzer{
+		Name:     name,
+		Severity: diag.Error,
+		Requires: []*Analyzer{Solve},
+		Doc:      doc,
+		Run: func(p *Pass) (any, error) {
+			r := op(p)
+			if r == nil {
+				return nil, nil
+			}
+			d, pt := p.Design, solved(p).Point()
+			for _, mp := range r.Multi {
+				q := &d.Parts[mp.Part]
+				s, ok := pt.SupplyFlow(q, mp.Part)
+				if !ok || q.Conv == nil || !s.HasInput || s.VoltageUnknown {
+					continue
+				}
+				if msg := find(d, q, s, mp.Region); msg != "" {
+					p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: d.NameOf(q), Message: msg})
+				}
+			}
+			return nil, nil
+		},
+	}
+}
+
+func fmtV(v float64) string { return units.Format(v, units.Voltage) }
+func fmtA(v float64) string { return units.Format(v, units.Current) }
+
+// Dropout reports linear regulators whose input is too low to hold their
+// output.
+var Dropout = supplyRule("dropout", `a regulator's input is too low to hold its output
+A linear regulator holds its output at its set voltage only while its
+input is at least its dropout voltage above the output (common practice,
+from its datasheet). Below that its output tracks the input, less the
+dropout, and every part it feeds sees less than it was designed for. The
+finding gives the input the regulator has and the input it needs, and the
+output it falls to.`, func(d *circuit.Design, q *circuit.Part, s Flow, g solve.Region) string {
+	if g != solve.InDropout {
+		return ""
+	}
+	return fmt.Sprintf("%s %s is in dropout: its input is %s above common, it needs %s (%s set + %s dropout), so its output falls to %s",
+		q.Kind, d.NameOf(q), fmtV(s.VIn), fmtV(q.Value+q.Conv.Dropout), fmtV(q.Value), fmtV(q.Conv.Dropout), fmtV(s.VOut))
+})
+
+// CurrentLimit reports linear regulators held at their current limit.
+var CurrentLimit = supplyRule("current-limit", `a regulator is held at its current limit
+A linear regulator given a limit (limit 1.5 A) delivers at most that
+current: a load that asks for more pulls its output below its set
+voltage, and the regulator runs at the limit, hot. The finding gives the
+limit and the output it falls to.`, func(d *circuit.Design, q *circuit.Part, s Flow, g solve.Region) string {
+	if g != solve.Limiting {
+		return ""
+	}
+	return fmt.Sprintf("%s %s is held at its %s current limit: its load asks for more, so its output falls to %s of its %s",
+		q.Kind, d.NameOf(q), fmtA(q.Conv.Limit), fmtV(s.VOut), fmtV(q.Value))
+})
+
+// InputRange reports converters whose input lies outside their input
+// range.
+var InputRange = supplyRule("input-range", `a converter's input is outside its input range
+A switching converter regulates only over the input range its datasheet
+gives (input 6 V to 28 V). nodal models it as still holding its set
+output, so the operating point downstream is what the design intends, not
+what the board will do: below the range a converter drops out or stops,
+above it it can be damaged. The finding gives the input and the range.`, func(d *circuit.Design, q *circuit.Part, s Flow, _ solve.Region) string {
+	c := q.Conv
+	if c.InHigh <= 0 {
+		return ""
+	}
+	tol := 1e-9 * c.InHigh
+	switch {
+	case s.VIn < c.InLow-tol:
+		return fmt.Sprintf("%s %s has %s at its input, below its %s to %s input range: it cannot hold its %s output there",
+			q.Kind, d.NameOf(q), fmtV(s.VIn), fmtV(c.InLow), fmtV(c.InHigh), fmtV(q.Value))
+	case s.VIn > c.InHigh+tol:
+		return fmt.Sprintf("%s %s has %s at its input, above its %s to %s input range: past its datasheet's limit it may be damaged",
+			q.Kind, d.NameOf(q), fmtV(s.VIn), fmtV(c.InLow), fmtV(c.InHigh))
+	}
+	return ""
+})

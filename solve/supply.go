@@ -1,0 +1,619 @@
+// supply.go: parts with more than two pins (regulators, converters), solved
+// through two-pin stand-ins: a state iteration over each regulator's
+// region around a fixed-point iteration on what each draws from its input
+// rail.
+
+package solve
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+
+	"gonum.org/v1/gonum/mat"
+
+	"nodal/circuit"
+)
+
+// Region is the state a regulator or converter settles in.
+type Region uint8
+
+const (
+	// Regulating: the output is held at the set voltage above common.
+	Regulating Region = iota
+	// InDropout: the input is less than the dropout above the set
+	// voltage, and the output tracks it: output = input − dropout.
+	InDropout
+	// Limiting: the output current is held at the limit, the output
+	// below the set voltage.
+	Limiting
+)
+
+func (g Region) String() string {
+	switch g {
+	case InDropout:
+		return "dropout"
+	case Limiting:
+		return "current limit"
+	}
+	return "regulating"
+}
+
+// MultiPoint is the operating point of a part with more than two pins.
+type MultiPoint struct {
+	Part circuit.PartID
+	// I is the current flowing into the part at each pin, in its kind's
+	// pin order; the currents sum to zero.
+	I      [circuit.MaxPins]float64
+	Region Region
+}
+
+// MultiAt returns the operating point of part id if it has more than two
+// pins, else nil.
+func (r *Result) MultiAt(id circuit.PartID) *MultiPoint { return r.multiAt(id) }
+
+func (r *Result) multiAt(id circuit.PartID) *MultiPoint {
+	if len(r.Multi) == 0 {
+		return nil
+	}
+	k := sort.Search(len(r.Multi), func(k int) bool { return r.Multi[k].Part >= id })
+	if k < len(r.Multi) && r.Multi[k].Part == id {
+		return &r.Multi[k]
+	}
+	return nil
+}
+
+// Limits of the supply iterations. Each round solves the design at fixed
+// regions until every input draw settles (a power tree, where no output
+// feeds back to its own input, settles on the second solve: the first
+// finds every output current, the second confirms the draws); then the
+// regions are judged again.
+const (
+	maxDrawSolves  = 60
+	maxRegionTurns = 40
+	drawTol        = 1e-13
+	// maxDrawGain bounds ‖(S − I)⁻¹‖₁ of the draws' Jacobian that
+	// Newton's method on them trusts: how many times a mismatch in the
+	// draws a step may multiply.
+	maxDrawGain = 1e6
+)
+
+// supplyState is the iteration state of one regulator or converter.
+type supplyState struct {
+	part   circuit.PartID
+	conv   circuit.Conversion
+	region Region
+	// draw is what its stand-in draws from the input rail: a
+	// regulator's input current (A) while it regulates, a converter's
+	// input power (W).
+	draw float64
+	iout float64 // the output current of the last solve
+}
+
+// standIn is one two-pin part standing for a piece of a part with more
+// pins: its owner and the owner's pins it joins.
+type standIn struct {
+	owner circuit.PartID
+	pins  [2]int
+}
+
+// multiSolve solves a design with parts of more than two pins.
+type multiSolve struct {
+	d      *circuit.Design
+	sup    []supplyState
+	extras []standIn // the stand-ins appended after the design's parts
+}
+
+// hasMulti reports whether d has a part with more than two pins.
+func hasMulti(d *circuit.Design) bool {
+	for i := range d.Parts {
+		if d.Parts[i].Multi() {
+			return true
+		}
+	}
+	return false
+}
+
+// solveMulti finds the operating point of a design with regulators or
+// converters. Each is replaced by two-pin stand-ins that the solver
+// already models, according to its region:
+//
+//   - a regulator regulating: a fixed voltage, the set voltage, from out to
+//     common, and a current from in to common equal to its output current
+//     plus its quiescent current (common practice, from the energy
+//     balance: what enters at in leaves at out and, the quiescent part, at
+//     common);
+//   - in dropout: a fixed voltage, the dropout, from in to out (the output
+//     tracks the input), and the quiescent current from in to common;
+//   - in current limit: the limit current from in to out, and the
+//     quiescent current from in to common;
+//   - a converter: the set voltage from out to common, a constant-power
+//     load from in to common drawing the output power divided by the
+//     efficiency, and the quiescent current from in to common, so that
+//     its input power is Vout·Iout/η + Vin·Iq (energy balance).
+//
+// The output current a stand-in draws on depends on the solution, so the
+// draws are iterated to a fixed point (settleDraws): each solve holds the
+// draws of the last, as the constant-power loads' currents are held
+// (load.go), and Newton's method takes over where that does not settle at
+// once. Around that, a state
+// iteration over the regions: after the draws settle, a regulator whose
+// region does not hold at the solution (regulating with less than the
+// dropout across it, past its limit; tracking its input above its set
+// voltage; limiting above its set voltage or into dropout) moves to the
+// region that does, and the design is solved again. It terminates: an
+// assignment of regions is never tried twice (a repeat is reported as no
+// convergence) and there are finitely many, 3 to the number of
+// regulators; maxRegionTurns bounds the turns taken. A converter has one
+// region: outside its input range it is modelled as still regulating, and
+// the rules say that it does not.
+func solveMulti(d *circuit.Design, opt *Options) (*Result, error) {
+	s := &multiSolve{d: d}
+	for i := range d.Parts {
+		p := &d.Parts[i]
+		if !p.Multi() {
+			continue
+		}
+		ki := p.Kind.Info()
+		if ki.Supply == nil || ki.Converts == circuit.NoConversion {
+			return nil, &Error{Kind: BadPart, Parts: []circuit.PartID{circuit.PartID(i)},
+				Msg: fmt.Sprintf("%s %s: the solver has no model for a %s", p.Kind, d.NameOf(p), p.Kind)}
+		}
+		st := supplyState{part: circuit.PartID(i), conv: ki.Converts}
+		if st.conv == circuit.Linear {
+			st.draw = quiescent(p)
+		}
+		s.sup = append(s.sup, st)
+	}
+	// In name order, so that messages name them, and stand-ins are
+	// appended, whatever the order of the statements (names are unique).
+	names := make(map[circuit.PartID]string, len(s.sup))
+	for _, st := range s.sup {
+		names[st.part] = d.PartName(st.part)
+	}
+	sort.Slice(s.sup, func(a, b int) bool { return names[s.sup[a].part] < names[s.sup[b].part] })
+	o := *opt
+	o.label = s.label
+	tried := map[string]bool{}
+	iters := 0
+	for turn := 0; ; turn++ {
+		tried[s.regions()] = true
+		rs, settled, err := s.settleDraws(&o, &iters)
+		var se *Error
+		if errors.As(err, &se) && se.Kind == Singular && turn > 0 {
+			// A regulator out of regulation ties its output to its
+			// input (in dropout) or fixes its current (in limit), which
+			// the rest of the circuit can contradict: then no region
+			// holds. Which part the solver found closing the
+			// contradiction depends on the order of the statements; the
+			// regulators out of regulation do not.
+			var parts []circuit.PartID
+			var names []string
+			for k := range s.sup {
+				if st := &s.sup[k]; st.region != Regulating {
+					parts = append(parts, st.part)
+					names = append(names, d.PartName(st.part)+" ("+st.region.String()+")")
+				}
+			}
+			return nil, &Error{Kind: Singular, Parts: parts,
+				Msg: fmt.Sprintf("no operating point: %s cannot hold %s output, and out of regulation the rest of the circuit contradicts %s (%s)",
+					s.names(), plural(len(s.sup), "its", "their"), plural(len(parts), "it", "them"), strings.Join(names, ", "))}
+		}
+		if err != nil {
+			return nil, err
+		}
+		if !settled {
+			return nil, &Error{Kind: NoConvergence, Parts: s.parts(),
+				Msg: fmt.Sprintf("what %s draw from their input rails does not settle: no draw balances what they deliver", s.names())}
+		}
+		if !s.judgeRegions(rs) {
+			r := s.result(rs)
+			r.Iterations = iters
+			if r.Undetermined != nil {
+				// The currents the circuit leaves open read 0, so
+				// Kirchhoff's law is no longer met at their nets: the
+				// stand-ins' solve checked it before they were cleared.
+				return r, nil
+			}
+			r.KCL, r.KCLScale, r.PowerSum, r.PowerScale = 0, 0, 0, 0
+			return r, r.selfCheck(d)
+		}
+		if key := s.regions(); tried[key] || turn >= maxRegionTurns {
+			return nil, &Error{Kind: NoConvergence, Parts: s.parts(),
+				Msg: fmt.Sprintf("the regions of %s (regulating, dropout, current limit) did not settle: %s came round again", s.names(), s.describeRegions())}
+		}
+	}
+}
+
+func plural(n int, one, more string) string {
+	if n == 1 {
+		return one
+	}
+	return more
+}
+
+// quiescent returns a regulator's or converter's quiescent current.
+func quiescent(p *circuit.Part) float64 {
+	if p.Conv == nil {
+		return 0
+	}
+	return p.Conv.Quiescent
+}
+
+// regions is the assignment of regions, as a key.
+func (s *multiSolve) regions() string {
+	b := make([]byte, len(s.sup))
+	for k := range s.sup {
+		b[k] = '0' + byte(s.sup[k].region)
+	}
+	return string(b)
+}
+
+func (s *multiSolve) describeRegions() string {
+	var out []string
+	for k := range s.sup {
+		out = append(out, s.d.PartName(s.sup[k].part)+" "+s.sup[k].region.String())
+	}
+	return strings.Join(out, ", ")
+}
+
+func (s *multiSolve) parts() []circuit.PartID {
+	out := make([]circuit.PartID, len(s.sup))
+	for k := range s.sup {
+		out[k] = s.sup[k].part
+	}
+	return out
+}
+
+func (s *multiSolve) names() string {
+	var out []string
+	for k := range s.sup {
+		out = append(out, s.d.PartName(s.sup[k].part))
+	}
+	if len(out) > 8 {
+		out = append(out[:8], fmt.Sprintf("%d more", len(out)-8))
+	}
+	return strings.Join(out, ", ")
+}
+
+// standIns returns the design with every regulator and converter replaced
+// by its stand-ins: the first in its place (same PartID), the others
+// appended (s.extras says whose they are).
+func (s *multiSolve) standIns() *circuit.Design {
+	d := s.d
+	sd := *d
+	sd.Parts = make([]circuit.Part, len(d.Parts), len(d.Parts)+2*len(s.sup))
+	copy(sd.Parts, d.Parts)
+	s.extras = s.extras[:0]
+	for k := range s.sup {
+		st := &s.sup[k]
+		p := &d.Parts[st.part]
+		sp := p.Kind.Info().Supply
+		in, out, com := sp.In, sp.Out, sp.OutRef
+		mk := func(kind circuit.Kind, a, b int, v float64) circuit.Part {
+			q := circuit.Part{Kind: kind, Local: p.Local, Value: v, Pos: p.Pos, End: p.End, Inst: p.Inst}
+			q.Pins[0], q.Pins[1] = p.Pins[a], p.Pins[b]
+			return q
+		}
+		add := func(q circuit.Part, a, b int) {
+			sd.Parts = append(sd.Parts, q)
+			s.extras = append(s.extras, standIn{owner: st.part, pins: [2]int{a, b}})
+		}
+		iq := quiescent(p)
+		switch {
+		case st.conv == circuit.Switched:
+			sd.Parts[st.part] = mk(circuit.VoltageSource, out, com, p.Value)
+			add(mk(circuit.PowerLoad, in, com, st.draw), in, com)
+			add(mk(circuit.CurrentSource, in, com, iq), in, com)
+		case st.region == InDropout:
+			sd.Parts[st.part] = mk(circuit.VoltageSource, in, out, p.Conv.Dropout)
+			add(mk(circuit.CurrentSource, in, com, iq), in, com)
+		case st.region == Limiting:
+			sd.Parts[st.part] = mk(circuit.CurrentSource, in, out, p.Conv.Limit)
+			add(mk(circuit.CurrentSource, in, com, iq), in, com)
+		default:
+			sd.Parts[st.part] = mk(circuit.VoltageSource, out, com, p.Value)
+			add(mk(circuit.CurrentSource, in, com, st.draw), in, com)
+		}
+	}
+	return &sd
+}
+
+// mainPins returns the owner's pins that the stand-in in a supply's own
+// place joins, by its region.
+func (s *multiSolve) mainPins(st *supplyState) [2]int {
+	sp := s.d.Parts[st.part].Kind.Info().Supply
+	if st.conv == circuit.Linear && st.region != Regulating {
+		return [2]int{sp.In, sp.Out}
+	}
+	return [2]int{sp.Out, sp.OutRef}
+}
+
+// solveAt solves the stand-ins with the draws j and returns the solution
+// and the draws it implies (next).
+func (s *multiSolve) solveAt(o *Options, j []float64, iters *int) (*Result, []float64, error) {
+	for k := range s.sup {
+		s.sup[k].draw = j[k]
+	}
+	rs, err := solveTwoPin(s.standIns(), o)
+	if rs != nil {
+		*iters += rs.Iterations
+	}
+	if err != nil {
+		return nil, nil, s.mapError(err)
+	}
+	return rs, s.next(rs), nil
+}
+
+// settleDraws finds the draws that reproduce themselves: j = g(j), where
+// g(j) is what the solution with the draws j implies. It takes the plain
+// step j ← g(j) twice, which settles a power tree (no output feeds its own
+// input: g does not depend on j then, and the second solve confirms the
+// first), and then Newton's method on g(j) − j with its Jacobian by
+// differences, one more solve per supply: exact in one step where the
+// circuit is linear (g affine), as a regulator with its common pin lifted
+// on a resistor is, whose plain step only shrinks the error by the share
+// of its output current that returns through that resistor. A singular
+// Jacobian (a supply whose draw feeds itself one for one, which no
+// operating point balances) or maxDrawSolves solves end it unsettled.
+func (s *multiSolve) settleDraws(o *Options, iters *int) (*Result, bool, error) {
+	n := len(s.sup)
+	j := make([]float64, n)
+	for k := range s.sup {
+		j[k] = s.sup[k].draw
+	}
+	for solves := 0; solves < maxDrawSolves; {
+		rs, g, err := s.solveAt(o, j, iters)
+		solves++
+		if err != nil {
+			return nil, false, err
+		}
+		if drawsSettled(j, g) {
+			return rs, true, nil
+		}
+		if solves <= 2 {
+			j = g
+			continue
+		}
+		// Newton: (S − I)·Δ = −(g − j), S = ∂g/∂j by differences,
+		// over the draws in use (a regulator out of regulation draws
+		// its quiescent current only).
+		var act []int
+		for k := range s.sup {
+			if st := &s.sup[k]; st.conv == circuit.Switched || st.region == Regulating {
+				act = append(act, k)
+			}
+		}
+		m := len(act)
+		if m == 0 {
+			return rs, false, nil // every draw is in its place already
+		}
+		a := mat.NewDense(m, m, nil)
+		f := mat.NewVecDense(m, nil)
+		for c, kc := range act {
+			h := 1e-4 * math.Max(math.Abs(j[kc]), 1e-6)
+			jc := append([]float64(nil), j...)
+			jc[kc] += h
+			_, gc, err := s.solveAt(o, jc, iters)
+			solves++
+			if err != nil {
+				return nil, false, err
+			}
+			for r, kr := range act {
+				v := (gc[kr] - g[kr]) / h
+				if r == c {
+					v--
+				}
+				a.Set(r, c, v)
+			}
+		}
+		for r, kr := range act {
+			f.SetVec(r, j[kr]-g[kr])
+		}
+		// A Jacobian near singular means a draw that feeds itself one
+		// for one: no draw balances it, and a step would only run off
+		// to where the tolerance, relative to the draw, is met by
+		// accident. ‖(S − I)⁻¹‖ is how far a step can run.
+		var lu mat.LU
+		lu.Factorize(a)
+		if inv := lu.Cond() / mat.Norm(a, 1); !(inv < maxDrawGain) {
+			return rs, false, nil
+		}
+		var dx mat.VecDense
+		if err := lu.SolveVecTo(&dx, false, f); err != nil {
+			return rs, false, nil
+		}
+		for r, kr := range act {
+			j[kr] += dx.AtVec(r)
+			if math.IsNaN(j[kr]) || math.IsInf(j[kr], 0) {
+				return rs, false, nil
+			}
+		}
+	}
+	return nil, false, nil
+}
+
+// drawsSettled reports whether the draws g implied by the solution with
+// the draws j are j, to drawTol.
+func drawsSettled(j, g []float64) bool {
+	for k := range j {
+		if !(math.Abs(g[k]-j[k]) <= drawTol*math.Max(math.Abs(g[k]), math.Abs(j[k]))+1e-30) {
+			return false
+		}
+	}
+	return true
+}
+
+// next works out each supply's output current from the stand-ins'
+// solution rs, and returns what each then draws from its input rail: a
+// regulator regulating its output current plus its quiescent current, a
+// converter its output power over its efficiency; a regulator in dropout
+// or limit keeps its draw, which its stand-ins do not use.
+func (s *multiSolve) next(rs *Result) []float64 {
+	out := make([]float64, len(s.sup))
+	for k := range s.sup {
+		st := &s.sup[k]
+		p := &s.d.Parts[st.part]
+		sp := p.Kind.Info().Supply
+		i := st.part
+		switch {
+		case st.conv == circuit.Linear && st.region == Limiting:
+			st.iout = p.Conv.Limit
+		case st.conv == circuit.Linear && st.region == InDropout:
+			st.iout = rs.I[i] // in → out through the stand-in
+		default:
+			st.iout = -rs.I[i] // out → common through the stand-in: delivered out of out
+		}
+		out[k] = st.draw
+		switch {
+		case st.conv == circuit.Switched:
+			vout := rs.NetV[p.Pins[sp.Out]] - rs.NetV[p.Pins[sp.OutRef]]
+			out[k] = vout * st.iout / p.Conv.Efficiency
+		case st.region == Regulating:
+			out[k] = st.iout + quiescent(p)
+		}
+	}
+	return out
+}
+
+// judgeRegions moves every regulator whose region does not hold at the
+// solution rs to the one that does, and reports whether any moved.
+func (s *multiSolve) judgeRegions(rs *Result) bool {
+	moved := false
+	for k := range s.sup {
+		st := &s.sup[k]
+		if st.conv != circuit.Linear {
+			continue
+		}
+		p := &s.d.Parts[st.part]
+		sp := p.Kind.Info().Supply
+		vin := rs.NetV[p.Pins[sp.In]]
+		vout := rs.NetV[p.Pins[sp.Out]]
+		vcom := rs.NetV[p.Pins[sp.OutRef]]
+		scale := math.Max(math.Max(math.Abs(vin), math.Abs(vout)), math.Max(math.Abs(vcom), math.Abs(p.Value)))
+		tol := 1e-9*scale + 1e-12
+		head := vin - vout // across the pass element
+		set := vout - vcom
+		lim := p.Conv.Limit
+		over := lim > 0 && st.iout > lim*(1+1e-9)
+		next := st.region
+		switch st.region {
+		case Regulating:
+			switch {
+			case head < p.Conv.Dropout-tol:
+				next = InDropout
+			case over:
+				next = Limiting
+			}
+		case InDropout:
+			switch {
+			case set > p.Value+tol:
+				next = Regulating
+			case over:
+				next = Limiting
+			}
+		case Limiting:
+			switch {
+			case set > p.Value+tol:
+				next = Regulating
+			case head < p.Conv.Dropout-tol:
+				next = InDropout
+			}
+		}
+		if next != st.region {
+			st.region = next
+			moved = true
+		}
+	}
+	return moved
+}
+
+// label names a stand-in in the solver's messages by the part it stands
+// for: "converter U2's input".
+func (s *multiSolve) label(id circuit.PartID) (string, bool) {
+	k := int(id) - len(s.d.Parts)
+	if k < 0 || k >= len(s.extras) {
+		return "", false
+	}
+	p := &s.d.Parts[s.extras[k].owner]
+	return fmt.Sprintf("%s %s's input", p.Kind, s.d.NameOf(p)), true
+}
+
+// mapError names the design's parts in an error about the stand-ins.
+func (s *multiSolve) mapError(err error) error {
+	var e *Error
+	if !errors.As(err, &e) {
+		return err
+	}
+	out := *e
+	out.Parts = nil
+	seen := map[circuit.PartID]bool{}
+	for _, id := range e.Parts {
+		if k := int(id) - len(s.d.Parts); k >= 0 && k < len(s.extras) {
+			id = s.extras[k].owner
+		}
+		if !seen[id] {
+			seen[id] = true
+			out.Parts = append(out.Parts, id)
+		}
+	}
+	return &out
+}
+
+// result turns the stand-ins' solution rs into the design's: the
+// stand-ins' currents summed into each part's pin currents (MultiPoint),
+// its power the sum of theirs, which is what it dissipates; its voltage
+// and current those across its Ends (for a regulator, out to common, the
+// current into out: minus its output current).
+func (s *multiSolve) result(rs *Result) *Result {
+	d := s.d
+	n := len(d.Parts)
+	r := *rs
+	r.V, r.I, r.P, r.Junction = rs.V[:n:n], rs.I[:n:n], rs.P[:n:n], rs.Junction[:n:n]
+	if rs.Uncertified != nil {
+		r.Uncertified = rs.Uncertified[:n:n]
+	}
+	if rs.Undetermined != nil {
+		r.Undetermined = rs.Undetermined[:n:n]
+	}
+	r.Multi = make([]MultiPoint, len(s.sup))
+	at := make(map[circuit.PartID]int, len(s.sup))
+	bypart := append([]supplyState(nil), s.sup...)
+	sort.Slice(bypart, func(a, b int) bool { return bypart[a].part < bypart[b].part }) // MultiAt searches by part
+	for k := range bypart {
+		st := &bypart[k]
+		at[st.part] = k
+		mp := &r.Multi[k]
+		mp.Part, mp.Region = st.part, st.region
+		pins := s.mainPins(st)
+		i := st.part
+		mp.I[pins[0]] += rs.I[i]
+		mp.I[pins[1]] -= rs.I[i]
+	}
+	for k, x := range s.extras {
+		j := n + k
+		o := at[x.owner]
+		mp := &r.Multi[o]
+		mp.I[x.pins[0]] += rs.I[j]
+		mp.I[x.pins[1]] -= rs.I[j]
+		r.P[x.owner] += rs.P[j]
+		if rs.Uncertified != nil && rs.Uncertified[j] {
+			r.Uncertified[x.owner] = true
+		}
+		if rs.Undetermined != nil {
+			r.Undetermined[x.owner] |= rs.Undetermined[j]
+		}
+	}
+	for k := range r.Multi {
+		mp := &r.Multi[k]
+		p := &d.Parts[mp.Part]
+		e := p.Kind.Info().Ends
+		a, b := p.Ends()
+		r.V[mp.Part] = r.NetV[a] - r.NetV[b]
+		r.I[mp.Part] = mp.I[e[0]]
+		r.Junction[mp.Part] = 0
+	}
+	return &r
+}
