@@ -75,7 +75,7 @@ resistor R3 (c, gnd) 1 kΩ
 		{"resistor R9 (a, gnd) 1 kΩ derate 70 °C", "derate needs"},
 		{"resistor R9 (a, gnd) 1 kΩ derate 155 °C to 70 °C", "must end below"},
 		{"resistor R9 (a, gnd) 1 kΩ derate 70 V to 155 V", "both must be temperatures"},
-		{"resistor R9 (a, gnd) 1 kΩ rated 1 W to 2 W", "only derate and input take"},
+		{"resistor R9 (a, gnd) 1 kΩ rated 1 W to 2 W", "only derate takes"},
 		{"diode D9 (a, gnd) vf 0.7 V at 10 mA theta 250 K", "must be a thermal resistance"},
 		{"diode D9 (a, gnd) vf 0.7 V at 10 mA theta 250 °C", "must be a thermal resistance"},
 		{"diode D9 (a, gnd) vf 0.7 V at 10 mA tjmax 150 K/W", "must be a temperature"},

@@ -73,7 +73,7 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo, needs bool) b
 			continue
 		}
 		if a.To != nil && key != "derate" && key != "input" {
-			bad(CodeBadAttribute, "only derate and input take \"to\" (derate 70 °C to 155 °C, input 6 V to 28 V)")
+			bad(CodeBadAttribute, "only derate takes \"to\", and a converter's input (derate 70 °C to 155 °C, input 6 V to 28 V)")
 			continue
 		}
 		if len(a.Values) == 0 {
@@ -127,7 +127,9 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo, needs bool) b
 				p.conv().Efficiency = q.Value
 			}
 		case "input":
-			b.rangeAttr(p, a, q, um, bad)
+			if !b.rangeAttr(p, a, word, bad) {
+				ok = false
+			}
 		case "dcr", "series", "capacity", "dropout", "quiescent", "limit":
 			spec := quantityAttrs[key]
 			switch {
@@ -204,30 +206,29 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo, needs bool) b
 }
 
 // rangeAttr reads a converter's input range, "input LOW to HIGH", both
-// voltages, 0 ≤ LOW < HIGH. An unusable one has been reported through bad.
-func (b *builder) rangeAttr(p *Part, a *grammar.Attr, q units.Quantity, um Code, bad func(Code, string, ...any)) {
+// voltages, 0 ≤ LOW < HIGH (the ends read by quantityRange, shared with a
+// port's drive range). It returns false for an unusable one, which it has
+// reported.
+func (b *builder) rangeAttr(p *Part, a *grammar.Attr, word string, bad func(Code, string, ...any)) bool {
 	if a.To == nil {
 		bad(CodeMissingValue, "input needs its range, from the lowest to the highest input voltage: input %s to 28 V", b.describe(a.Values[0]))
-		return
+		return false
 	}
-	hq, err := b.quantity(a.To)
-	if err != nil {
-		if rule, silent := errRule(err); !silent {
-			bad(rule, "input … to %s", err)
-		}
-		return
-	}
-	um = b.unitRule(a.Values[0], a.To)
+	lo, hi, ok := b.quantityRange(a.Values[0], a.To, word+" "+p.Local+" input")
 	switch {
-	case q.Dim != units.Voltage || q.Percent || hq.Dim != units.Voltage || hq.Percent:
-		bad(um, "input %s to %s must be a range of voltages in V", b.describe(a.Values[0]), b.describe(a.To))
-	case q.Value < 0 || hq.Value <= q.Value:
+	case !ok:
+		return false
+	case lo.Dim != units.Voltage:
+		bad(b.unitRule(a.Values[0], a.To), "input %s to %s must be a range of voltages in V", b.describe(a.Values[0]), b.describe(a.To))
+		return false
+	case lo.Value < 0 || hi.Value <= lo.Value:
 		bad(CodeBadValue, "input %s to %s: the range must run from a voltage of at least 0 V up to a higher one",
-			units.Format(q.Value, units.Voltage), units.Format(hq.Value, units.Voltage))
-	default:
-		c := p.conv()
-		c.InLow, c.InHigh = q.Value, hq.Value
+			units.Format(lo.Value, units.Voltage), units.Format(hi.Value, units.Voltage))
+		return false
 	}
+	c := p.conv()
+	c.InLow, c.InHigh = lo.Value, hi.Value
+	return true
 }
 
 // pointAttr reads "KEY V at A", a voltage measured at a current, both
