@@ -11,7 +11,9 @@
 # untracked at its top level, named from there), outside any repository
 # (a scratch folder), and `nodal version` outside (the cost of starting the
 # process at all). Each run is one process started and waited for from a
-# Python timer (posix_spawn and perf_counter), output to /dev/null.
+# Python timer (posix_spawn and perf_counter), output to /dev/null; its
+# processor time (user + system, git processes it starts included) comes
+# from wait4, steadier than wall time on a busy machine.
 set -euo pipefail
 cd "$(dirname "$0")/.."
 base=${BASE:-main}
@@ -50,19 +52,21 @@ def once(binary, where, args):
     t0 = time.perf_counter_ns()
     pid = os.posix_spawn(binary, argv, os.environ,
                          file_actions=[(os.POSIX_SPAWN_DUP2, devnull, 1), (os.POSIX_SPAWN_DUP2, devnull, 2)])
-    _, status = os.waitpid(pid, 0)
+    _, status, ru = os.wait4(pid, 0)
+    wall = (time.perf_counter_ns() - t0) / 1e6
     if os.waitstatus_to_exitcode(status) not in (0, 1):
         sys.exit(f"{argv} in {where}: exit {os.waitstatus_to_exitcode(status)}")
-    return (time.perf_counter_ns() - t0) / 1e6
-print("| what | base ms | new ms | new / base |")
-print("|---|---|---|---|")
+    return wall, (ru.ru_utime + ru.ru_stime) * 1e3
+print("| what | base ms | new ms | new / base | base CPU ms | new CPU ms | new / base |")
+print("|---|---|---|---|---|---|---|")
 for name, where, args in cases:
     os.chdir(os.path.join(work, where))
     t = {"base": [], "new": []}
     for _ in range(runs):
         for b in ("base", "new"):
             t[b].append(once(os.path.join(work, "nodal-" + b), where, args))
-    mb, mn = statistics.median(t["base"]), statistics.median(t["new"])
-    print(f"| {name} | {mb:.2f} | {mn:.2f} | {mn / mb:.2f} |")
+    mb, mn = (statistics.median(w for w, _ in t[b]) for b in ("base", "new"))
+    cb, cn = (statistics.median(c for _, c in t[b]) for b in ("base", "new"))
+    print(f"| {name} | {mb:.2f} | {mn:.2f} | {mn / mb:.2f} | {cb:.2f} | {cn:.2f} | {cn / cb:.2f} |")
 EOF
 echo "load average after: $(cut -d' ' -f1-3 /proc/loadavg)"
