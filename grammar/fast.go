@@ -21,6 +21,8 @@ package grammar
 //     path goes on with the next line.
 
 import (
+	"sync"
+
 	"github.com/alecthomas/participle/v2"
 	"github.com/alecthomas/participle/v2/lexer"
 )
@@ -48,11 +50,13 @@ type fastBatch struct {
 	Run *fastRun `parser:"@@?"`
 }
 
-var batchParser = participle.MustBuild[fastBatch](
-	participle.Lexer(Lexer),
-	participle.Elide("Comment"),
-	participle.UseLookahead(3),
-)
+var batchParser = sync.OnceValue(func() *participle.Parser[fastBatch] {
+	return participle.MustBuild[fastBatch](
+		participle.Lexer(Lexer),
+		participle.Elide("Comment"),
+		participle.UseLookahead(3),
+	)
+})
 
 // partNodes holds the nodes of a typical part line in one allocation.
 type partNodes struct {

@@ -94,7 +94,7 @@ func TestFastPathIsTaken(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	b, err := batchParser.ParseFromLexer(pk)
+	b, err := batchParser().ParseFromLexer(pk)
 	if err != nil {
 		t.Fatal(err)
 	}

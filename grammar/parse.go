@@ -28,6 +28,7 @@ import (
 	"errors"
 	"fmt"
 	"strings"
+	"sync"
 	"unicode/utf8"
 	"unsafe"
 
@@ -37,11 +38,23 @@ import (
 	"nodal/units"
 )
 
-var parser = participle.MustBuild[Statement](
-	participle.Lexer(Lexer),
-	participle.Elide("Comment"),
-	participle.UseLookahead(3),
-)
+// parser and batchParser (fast.go) take about a millisecond to build,
+// the largest part of a short run's start: each is built on its own
+// goroutine from the moment the package is initialised, so that the work
+// before the first parse (flags, finding and reading the files) does not
+// wait for it, and the first parse waits only for what is left.
+var parser = sync.OnceValue(func() *participle.Parser[Statement] {
+	return participle.MustBuild[Statement](
+		participle.Lexer(Lexer),
+		participle.Elide("Comment"),
+		participle.UseLookahead(3),
+	)
+})
+
+func init() {
+	go parser()
+	go batchParser()
+}
 
 // File is a parsed source file.
 type File struct {
@@ -268,7 +281,7 @@ func parseBatch(f *File, tb *tokenBuffer, toks []lexer.Token, spans []lineSpan, 
 	k := 0
 	for err == nil && k < len(spans) {
 		var b *fastBatch
-		b, err = batchParser.ParseFromLexer(pl, participle.AllowTrailing(true))
+		b, err = batchParser().ParseFromLexer(pl, participle.AllowTrailing(true))
 		if err != nil {
 			break
 		}
@@ -308,7 +321,7 @@ func parseLine(toks []lexer.Token) (*Statement, *SyntaxError) {
 	if err != nil {
 		return nil, &SyntaxError{Pos: Offset(toks[0].Pos.Offset), End: Offset(toks[0].Pos.Offset), Line: toks[0].Pos.Line, Msg: err.Error()}
 	}
-	st, err := parser.ParseFromLexer(pl)
+	st, err := parser().ParseFromLexer(pl)
 	if err == nil {
 		return st, nil
 	}
