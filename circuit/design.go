@@ -219,7 +219,7 @@ func (d *Design) InstanceRelated(inst int32) []diag.Related {
 	var out []diag.Related
 	for inst >= 0 && int(inst) < len(d.Instances) {
 		in := &d.Instances[inst]
-		out = append(out, diag.Related{Pos: in.Pos, End: in.End, Message: "in " + d.InstancePath(inst) + " (block " + in.Block + ")"})
+		out = append(out, diag.Related{Pos: in.Pos, End: in.End, Message: "in " + d.ShownPath(inst) + " (block " + in.Block + ")"})
 		inst = in.Parent
 	}
 	return out

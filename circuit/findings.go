@@ -63,7 +63,21 @@ type Findings struct {
 	// design is the design the findings are about; nil until Use names
 	// it.
 	design *Design
+	// text counts the bytes of the findings kept (message, subject,
+	// related messages); past maxFindingText a finding is not kept, and
+	// the one at limit (-1: none yet) says how many were not.
+	text    int64
+	limit   int32
+	dropped int
 }
+
+// maxFindingText bounds the text of the findings of one design: 256 MiB
+// (a variable only so that tests can lower it). Names inside instances
+// carry their instance path, so a design whose every part has a finding
+// of its own, deep in long-named blocks, could otherwise hold parts ×
+// depth × name length bytes of messages; past the bound the findings left
+// are counted in one expansion-limit error instead.
+var maxFindingText int64 = 256 << 20
 
 // Use names the design whose instances the findings' Inst fields index,
 // so that the other instances of a merged finding can be listed and a
@@ -81,7 +95,10 @@ func (fs *Findings) Len() int { return len(fs.list) }
 
 // All returns the findings collected so far, merged but not finished. The
 // slice belongs to the collector.
-func (fs *Findings) All() []Finding { return fs.list }
+func (fs *Findings) All() []Finding {
+	fs.sealLimit()
+	return fs.list
+}
 
 // Add adds a finding, merging it with an earlier one made at the same
 // place in another instance.
@@ -128,8 +145,42 @@ func (fs *Findings) Add(f Finding) {
 
 // push appends f, chained before next.
 func (fs *Findings) push(f Finding, next int32) {
+	n := int64(len(f.Message) + len(f.Subject) + len(f.Path))
+	for _, r := range f.Related {
+		n += int64(len(r.Message))
+	}
+	if fs.text+n > maxFindingText && f.Code != CodeExpansionLimit {
+		fs.drop(f)
+		return
+	}
+	fs.text += n
 	fs.list = append(fs.list, f)
 	fs.next = append(fs.next, next)
+}
+
+// drop counts a finding not kept for maxFindingText; the first makes the
+// expansion-limit finding that reports them, at its place.
+func (fs *Findings) drop(f Finding) {
+	if fs.dropped == 0 {
+		fs.limit = int32(len(fs.list))
+		fs.list = append(fs.list, Finding{Diagnostic: diag.Diagnostic{Pos: f.Pos, End: f.End,
+			Rule: CodeExpansionLimit.String(), Severity: diag.Error}, Code: CodeExpansionLimit, Inst: -1})
+		fs.next = append(fs.next, -1)
+	}
+	fs.dropped++
+}
+
+// sealLimit writes the count of findings not kept into the finding that
+// reports them.
+func (fs *Findings) sealLimit() {
+	if fs.dropped == 0 {
+		return
+	}
+	what := "findings were"
+	if fs.dropped == 1 {
+		what = "finding was"
+	}
+	fs.list[fs.limit].Message = fmt.Sprintf("the findings of this design pass the limit of %s of text (their names carry the instance paths they are in): %d more %s not kept, this one first; nest fewer levels or use shorter names", byteCount(maxFindingText), fs.dropped, what)
 }
 
 // sameBut reports whether messages a and b are the same once the instance
@@ -186,6 +237,7 @@ func (f *Finding) addAlso(in int32, d *Design) {
 // message and the chain of instance statements, innermost first, in its
 // related locations.
 func (fs *Findings) Finish(d *Design) diag.List {
+	fs.sealLimit()
 	var late []int
 	for i := range fs.list {
 		if fs.list[i].Inst == Unresolved {
@@ -196,9 +248,11 @@ func (fs *Findings) Finish(d *Design) diag.List {
 	if len(late) > 0 {
 		all := fs.list
 		fs.list, fs.next, fs.index = make([]Finding, 0, len(all)), nil, nil
+		fs.text, fs.dropped = 0, 0
 		for _, f := range all {
 			fs.Add(f) // resolved on the way in
 		}
+		fs.sealLimit()
 	}
 	out := make(diag.List, len(fs.list))
 	for i := range fs.list {
@@ -215,7 +269,7 @@ func (fs *Findings) Finish(d *Design) diag.List {
 			dg.Related = append(dg.Related[:len(dg.Related):len(dg.Related)], d.InstanceRelated(f.Inst)...)
 			for _, in := range f.Also {
 				i := &d.Instances[in]
-				dg.Related = append(dg.Related, diag.Related{Pos: i.Pos, End: i.End, Message: "also in " + d.InstancePath(in) + " (block " + i.Block + ")"})
+				dg.Related = append(dg.Related, diag.Related{Pos: i.Pos, End: i.End, Message: "also in " + d.ShownPath(in) + " (block " + i.Block + ")"})
 			}
 		}
 		out[i] = dg

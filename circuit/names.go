@@ -10,6 +10,7 @@ package circuit
 import (
 	"strings"
 	"sync"
+	"unicode/utf8"
 )
 
 // localKey names a net or an instance inside instance inst (-1: the top
@@ -175,9 +176,14 @@ func (r *pathReader) next() (byte, bool) {
 // up, so that a design nobody asks about by name pays nothing for it.
 type nameIndex struct {
 	once     sync.Once
-	children map[localKey]int32
+	children map[localKey]int32  // the first instance of a name in its parent
+	same     []int32             // the next instance of the same name in the same parent, or -1
 	parts    map[localKey]PartID // parts inside instances; the first of a name
 	nets     map[localKey]NetID  // nets local to instances
+	// dotted holds the lengths of the instance names that have a dot in
+	// them (quoted names): a path is split at its first dot, and at a
+	// later one only where a name of that length could end.
+	dotted map[int]bool
 }
 
 func (d *Design) names() *nameIndex {
@@ -187,10 +193,25 @@ func (d *Design) names() *nameIndex {
 	d.index.once.Do(func() {
 		x := d.index
 		x.children = make(map[localKey]int32, len(d.Instances))
+		x.same = make([]int32, len(d.Instances))
+		last := map[localKey]int32{} // only for names given twice
 		for i := range d.Instances {
+			x.same[i] = -1
 			k := localKey{d.Instances[i].Parent, d.Instances[i].Local}
-			if _, ok := x.children[k]; !ok {
+			if first, ok := x.children[k]; !ok {
 				x.children[k] = int32(i)
+			} else {
+				prev, ok := last[k]
+				if !ok {
+					prev = first
+				}
+				x.same[prev], last[k] = int32(i), int32(i)
+			}
+			if strings.IndexByte(k.name, '.') >= 0 {
+				if x.dotted == nil {
+					x.dotted = map[int]bool{}
+				}
+				x.dotted[len(k.name)] = true
 			}
 		}
 		x.parts, x.nets = map[localKey]PartID{}, map[localKey]NetID{}
@@ -234,12 +255,20 @@ func (d *Design) splits(name string, f func(inst int32, local string) bool) {
 	budget := maxSplits
 	var walk func(inst int32, rest string) bool
 	walk = func(inst int32, rest string) bool {
-		for k := strings.IndexByte(rest, '.'); k >= 0 && budget > 0; {
+		first := strings.IndexByte(rest, '.')
+		for k := first; k >= 0 && budget > 0; {
 			budget--
-			if c, ok := x.children[localKey{inst, rest[:k]}]; ok {
-				if !walk(c, rest[k+1:]) {
-					return false
+			if k == first || x.dotted[k] {
+				c, ok := x.children[localKey{inst, rest[:k]}]
+				for ; ok && c >= 0 && budget > 0; c = x.same[c] {
+					budget--
+					if !walk(c, rest[k+1:]) {
+						return false
+					}
 				}
+			}
+			if x.dotted == nil {
+				break // no name has a dot: only the first can end one
 			}
 			j := strings.IndexByte(rest[k+1:], '.')
 			if j < 0 {
@@ -286,3 +315,53 @@ func (d *Design) InstanceOf(name string) int32 {
 // NetNameOf returns net n's name with its instance path; n is one of d's
 // nets.
 func (d *Design) NetNameOf(n *Net) string { return d.Qualified(n.Inst, n.Local) }
+
+// MaxShownPath is the longest instance path a related location spells out.
+// A finding inside an instance lists every instance around it, so whole
+// paths there would grow with the square of the depth; a longer path is
+// shown by its end, after "…", from the first instance that fits.
+const MaxShownPath = 1024
+
+// ShownPath is InstancePath(i) for a related location: the whole path up
+// to MaxShownPath bytes, else "…" and the end of it (whole instance names,
+// or the end of the last name when that alone is too long).
+func (d *Design) ShownPath(i int32) string {
+	if d.PathLen(i) <= MaxShownPath {
+		return d.InstancePath(i)
+	}
+	// The innermost names that fit, joined from the end.
+	n, top := 0, int32(-1)
+	for j := i; j >= 0; j = d.Instances[j].Parent {
+		l := len(d.Instances[j].Local)
+		if j != i {
+			l++ // its dot
+		}
+		if n+l > MaxShownPath {
+			break
+		}
+		n, top = n+l, j
+	}
+	if top < 0 {
+		// One name longer than the limit: its last bytes, from a rune
+		// boundary.
+		l := d.Instances[i].Local
+		k := len(l) - MaxShownPath
+		for k < len(l) && !utf8.RuneStart(l[k]) {
+			k++
+		}
+		return "…" + l[k:]
+	}
+	buf := make([]byte, n)
+	at := n
+	for j := i; ; j = d.Instances[j].Parent {
+		l := d.Instances[j].Local
+		at -= len(l)
+		copy(buf[at:], l)
+		if j == top {
+			break
+		}
+		at--
+		buf[at] = '.'
+	}
+	return "…" + string(buf)
+}
