@@ -46,6 +46,11 @@ type amgLevel struct {
 	// galerkin maps each entry of a to the entry of the next level's
 	// matrix it is summed into (plain aggregation only; see Refresh).
 	galerkin []int32
+	// dpos holds the position of each column's diagonal entry when every
+	// column of a lists its rows in ascending order (nil otherwise), and
+	// invd the reciprocals of the diagonal: see smooth.go.
+	dpos []int32
+	invd []float64
 }
 
 // AMG is a smoothed-aggregation algebraic multigrid preconditioner for a
@@ -107,6 +112,7 @@ func NewAMG(a *CSC, opt *AMGOptions) (*AMG, error) {
 				return nil, &NotPositiveDefinite{Col: j}
 			}
 		}
+		lev.setDiagonal()
 		total += cur.Nnz()
 		if budget >= 0 && total > budget {
 			return nil, &ComplexityExceeded{Level: len(m.levels), Max: o.MaxComplexity}
@@ -142,6 +148,10 @@ func NewAMG(a *CSC, opt *AMGOptions) (*AMG, error) {
 		if !ok {
 			return nil, &ComplexityExceeded{Level: len(m.levels), Max: o.MaxComplexity}
 		}
+		// The product lists each column's rows in the order met; its
+		// transpose (the same matrix, the pattern being symmetric) lists
+		// them in ascending order, which the smoother relies on.
+		cur = cur.T()
 		if o.Unsmoothed {
 			m.levels[len(m.levels)-1].galerkin = galerkinMap(m.levels[len(m.levels)-1].a, agg, cur)
 		}
@@ -233,12 +243,19 @@ func (m *AMG) cycle(l int, x, b []float64) {
 		m.coarse.Solve(x)
 		return
 	}
-	clear(x)
-	gaussSeidel(lev.a, lev.diag, x, b, true)
-	// r ← b − A·x (A symmetric: use the gather form).
-	lev.a.MulVecTrans(lev.r, x)
-	for i := range lev.r {
-		lev.r[i] = b[i] - lev.r[i]
+	if lev.dpos != nil {
+		// From x = 0 the forward sweep reads only the lower triangle,
+		// and leaves the residual −U·x (see smooth.go).
+		lev.forwardFromZero(x, b)
+		lev.upperResidual(lev.r, x)
+	} else {
+		clear(x)
+		gaussSeidel(lev.a, lev.diag, x, b, true)
+		// r ← b − A·x (A symmetric: use the gather form).
+		lev.a.MulVecTrans(lev.r, x)
+		for i := range lev.r {
+			lev.r[i] = b[i] - lev.r[i]
+		}
 	}
 	nx := &m.levels[l+1]
 	lev.p.MulVecTrans(nx.b, lev.r) // restriction Pᵀr
@@ -247,7 +264,11 @@ func (m *AMG) cycle(l int, x, b []float64) {
 	for i := range x {
 		x[i] += lev.r[i]
 	}
-	gaussSeidel(lev.a, lev.diag, x, b, false)
+	if lev.dpos != nil {
+		lev.backward(x, b)
+	} else {
+		gaussSeidel(lev.a, lev.diag, x, b, false)
+	}
 }
 
 // OperatorComplexity returns Σ nnz(A_l) / nnz(A_0) over the levels: the

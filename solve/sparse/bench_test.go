@@ -123,3 +123,40 @@ func BenchmarkPCGAMGGrid(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkAMGCycleRandom times one V-cycle of the plain-aggregation
+// hierarchy of a random weighted Laplacian (the preconditioner random
+// designs take), with the sweeps on levels in ascending order ("split":
+// half a sweep from zero, the residual from the upper triangle) and, as
+// the baseline in the same run, the sweeps over whole rows with a full
+// product for the residual ("whole").
+func BenchmarkAMGCycleRandom(b *testing.B) {
+	a := randomLaplacian(300_000, 6, 3, 1)
+	m, err := NewAMG(a, &AMGOptions{CoarseSize: 500, Unsmoothed: true})
+	if err != nil {
+		b.Fatal(err)
+	}
+	r := make([]float64, a.N)
+	for i := range r {
+		r[i] = float64(i%7) - 3
+	}
+	z := make([]float64, a.N)
+	split := make([][]int32, len(m.levels))
+	for i := range m.levels {
+		split[i] = m.levels[i].dpos
+	}
+	for _, mode := range []string{"split", "whole"} {
+		b.Run(mode, func(b *testing.B) {
+			for i := range m.levels {
+				m.levels[i].dpos = split[i]
+				if mode == "whole" {
+					m.levels[i].dpos = nil
+				}
+			}
+			for b.Loop() {
+				m.Precondition(z, r)
+			}
+			b.ReportMetric(m.OperatorComplexity(), "complexity")
+		})
+	}
+}

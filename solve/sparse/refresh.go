@@ -62,6 +62,9 @@ func (m *AMG) Refresh(a *CSC) error {
 	if a.N != m.levels[0].a.N || a.Nnz() != m.levels[0].a.Nnz() {
 		panic("sparse: AMG.Refresh with a different pattern")
 	}
+	if m.levels[0].dpos != nil && a != m.levels[0].a && !sameColumns(a, m.levels[0].a) {
+		panic("sparse: AMG.Refresh with a different pattern")
+	}
 	m.levels[0].a = a
 	for l := range m.levels {
 		lev := &m.levels[l]
@@ -76,6 +79,9 @@ func (m *AMG) Refresh(a *CSC) error {
 			if !(lev.diag[j] > 0) {
 				return &NotPositiveDefinite{Col: j}
 			}
+		}
+		for j, d := range lev.diag {
+			lev.invd[j] = 1 / d
 		}
 		if l == len(m.levels)-1 {
 			break
