@@ -253,3 +253,32 @@ func TestFastDependentsAgreesWithGit(t *testing.T) {
 		})
 	}
 }
+
+// BenchmarkFastDependents: the search for includers of one design in this
+// repository's own work tree, as a check inside it runs it.
+func BenchmarkFastDependents(b *testing.B) {
+	lay, ok, _ := fastRoot()
+	if !ok {
+		b.Skip("not inside a plain git work tree")
+	}
+	names := []string{filepath.Join(lay.root, "examples", "soil_logger.nodal")}
+	if _, ok := fastDependents(lay, changed{}, names); !ok {
+		b.Skip("this work tree is left to git")
+	}
+	for b.Loop() {
+		fastDependents(lay, changed{}, names)
+	}
+}
+
+// BenchmarkScanTree: the walk alone.
+func BenchmarkScanTree(b *testing.B) {
+	lay, ok, _ := fastRoot()
+	if !ok {
+		b.Skip("not inside a plain git work tree")
+	}
+	for b.Loop() {
+		if _, err := scanTree(lay.root); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
