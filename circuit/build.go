@@ -135,6 +135,15 @@ func (b *builder) partName(st *bodyStmt) string {
 	return st.pt.Name.Text
 }
 
+// partKind is st's kind or block word, without lending a plain line its
+// nodes.
+func (b *builder) partKind(st *bodyStmt) string {
+	if st.plain > 0 {
+		return b.plain.PlainKind(int(st.plain - 1))
+	}
+	return st.pt.Kind.Text
+}
+
 func (st *bodyStmt) giveBack() {
 	if st.plain > 0 {
 		st.pt = nil

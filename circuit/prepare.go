@@ -87,7 +87,7 @@ func (b *builder) prepare(bd *blockDef) {
 	b.file = bd.file
 	defer func() { b.file = saved }()
 	localIndex := map[string]int{}
-	names := make(map[string]*bodyStmt, len(bd.body))
+	repeats := b.repeats(bd)
 	pinUsed := make([]bool, len(bd.pins))
 	defer func() { b.subject = subject{inst: -1} }()
 	for k, st := range bd.body {
@@ -128,8 +128,8 @@ func (b *builder) prepare(bd *blockDef) {
 			st.nets[i] = r
 		}
 		word := pt.Kind.Text
-		if k, builtin := kindOf(word); builtin {
-			st.kind = k
+		if kind, builtin := kindOf(word); builtin {
+			st.kind = kind
 		} else if c, isBlock := b.blocks[word]; isBlock {
 			st.blk = c
 			c.used = true
@@ -138,7 +138,8 @@ func (b *builder) prepare(bd *blockDef) {
 			st.ok = false
 			continue
 		}
-		if prev, dup := names[pt.Name.Text]; dup {
+		if r := repeats[k]; r >= 0 {
+			prev := bd.body[r]
 			what := prev.kind.String()
 			if prev.blk != nil {
 				what = prev.pt.Kind.Text // an instance is never a lent plain line
@@ -147,7 +148,6 @@ func (b *builder) prepare(bd *blockDef) {
 			st.ok = false
 			continue
 		}
-		names[pt.Name.Text] = st
 		if st.blk != nil {
 			st.ok = b.bindInstance(bd, st)
 		}

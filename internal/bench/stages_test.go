@@ -84,6 +84,23 @@ func BenchmarkParse(b *testing.B) {
 	})
 }
 
+// BenchmarkParsePlain is the parse the check makes (check.Source):
+// plain part lines kept as records, the file read in pieces on every core.
+func BenchmarkParsePlain(b *testing.B) {
+	each(b, func(b *testing.B, kind string, src []byte) {
+		b.SetBytes(int64(len(src)))
+		b.ReportAllocs()
+		var f *grammar.File
+		for b.Loop() {
+			f = grammar.ParsePlain("bench.nodal", src)
+		}
+		if len(f.Errors) > 0 {
+			b.Fatal(f.Errors[0])
+		}
+		perPart(b, len(f.Stmts)+f.PlainLines())
+	})
+}
+
 // BenchmarkParseReference is the baseline for BenchmarkParse in the same
 // run: the grammar alone, one participle call per line, no fast path. It
 // skips the million-part size, which would take minutes per iteration.
@@ -105,11 +122,13 @@ func BenchmarkParseReference(b *testing.B) {
 	})
 }
 
+// BenchmarkElaborate builds the model from what the check parses
+// (grammar.ParsePlain).
 func BenchmarkElaborate(b *testing.B) {
 	each(b, func(b *testing.B, kind string, src []byte) {
 		fset := diag.NewFileSet()
 		file := fset.AddFile("bench.nodal", src)
-		ast := grammar.Parse("bench.nodal", src)
+		ast := grammar.ParsePlain("bench.nodal", src)
 		b.ReportAllocs()
 		var r *circuit.Result
 		for b.Loop() {

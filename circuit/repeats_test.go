@@ -1,0 +1,57 @@
+package circuit
+
+import (
+	"fmt"
+	"math/rand/v2"
+	"reflect"
+	"testing"
+
+	"nodal/grammar"
+)
+
+// repeatsByMap is what prepare did before repeats: a map from each name to
+// the first statement of known kind that has it.
+func repeatsByMap(b *builder, bd *blockDef) []int {
+	first := make([]int, len(bd.body))
+	names := map[string]int{}
+	for k, st := range bd.body {
+		first[k] = -1
+		if !b.knownWord(st.pt.Kind.Text) {
+			continue
+		}
+		if j, seen := names[st.pt.Name.Text]; seen {
+			first[k] = j
+		} else {
+			names[st.pt.Name.Text] = k
+		}
+	}
+	return first
+}
+
+func TestRepeatsAsMap(t *testing.T) {
+	defer func(h func(string) uint64) { nameHash = h }(nameHash)
+	hashes := map[string]func(string) uint64{
+		"maphash":  nameHash,
+		"length":   func(s string) uint64 { return uint64(len(s)) }, // every name of a length collides
+		"constant": func(string) uint64 { return 7 },
+	}
+	r := rand.New(rand.NewPCG(3, 4))
+	words := []string{"resistor", "capacitor", "cell", "resistr", "gizmo"}
+	for name, h := range hashes {
+		nameHash = h
+		for round := 0; round < 200; round++ {
+			b := &builder{blocks: map[string]*blockDef{"cell": {name: "cell"}}}
+			bd := &blockDef{}
+			n := r.IntN(300)
+			pool := 1 + r.IntN(n+1)
+			for range n {
+				pt := &grammar.Part{Kind: &grammar.Name{Text: words[r.IntN(len(words))]}, Name: &grammar.Name{Text: fmt.Sprintf("R%d", r.IntN(pool))}}
+				bd.body = append(bd.body, &bodyStmt{pt: pt})
+			}
+			got, want := b.repeats(bd), repeatsByMap(b, bd)
+			if !reflect.DeepEqual(got, want) {
+				t.Fatalf("hash %s, round %d: repeats %v, the map %v", name, round, got, want)
+			}
+		}
+	}
+}
