@@ -1,7 +1,9 @@
 package check
 
 import (
+	"fmt"
 	"math"
+	"strings"
 	"testing"
 
 	"nodal/circuit"
@@ -84,5 +86,48 @@ func TestPowerTreeTellegen(t *testing.T) {
 	}
 	for _, dg := range res.Diags {
 		t.Errorf("unexpected finding: %s [%s]", dg.Message, dg.Rule)
+	}
+}
+
+// TestRegulatorAtCorners: with tolerances, a regulator's output at a
+// corner is its set voltage moved by its tolerance, so a load resistor's
+// worst power is (Vset·(1 + tol))²/R (Ohm's law); and a regulator that
+// regulates at nominal values but whose input, at the bottom of a
+// battery's tolerance, is less than its dropout above its output is
+// reported in dropout at that corner (common practice), with the corner
+// named; a battery high enough at that corner gets no such finding.
+func TestRegulatorAtCorners(t *testing.T) {
+	const design = `ground gnd
+battery B1 (vbat, gnd) %s tol 10%% series 100 mΩ rated 3 A
+regulator U1 (vbat, v5, gnd) 5 V tol 2%% dropout 300 mV quiescent 1 mA rated 1 A, 5 W
+resistor RL (v5, gnd) 10 Ω rated 2.55 W
+`
+	for _, c := range []struct {
+		emf     string
+		dropout bool
+	}{{"5.9 V", true}, {"6.2 V", false}} {
+		res, err := Source("t.nodal", []byte(fmt.Sprintf(design, c.emf)), nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var rules []string
+		for _, dg := range res.Diags {
+			rules = append(rules, dg.Rule)
+			switch dg.Rule {
+			case "dropout":
+				if !strings.Contains(dg.Message, "B1 −10 %") || !strings.Contains(dg.Message, "falls into dropout") {
+					t.Errorf("%s: %s", c.emf, dg.Message)
+				}
+			case "corner-over-rating":
+				// 5.1 V across 10 Ω: 2.601 W, past 2.55 W.
+				if !strings.Contains(dg.Message, "2.60 W") || !strings.Contains(dg.Message, "U1 +2 %") {
+					t.Errorf("%s: %s", c.emf, dg.Message)
+				}
+			}
+		}
+		got := strings.Join(rules, ",")
+		if strings.Contains(got, "dropout") != c.dropout || !strings.Contains(got, "corner-over-rating") {
+			t.Errorf("%s: findings %s", c.emf, got)
+		}
 	}
 }

@@ -93,6 +93,26 @@ type Result struct {
 	// point; those corners are not judged, and Unconfirmed counts them.
 	Failed int
 	Solves int
+	// Supplies holds, for a design with regulators or converters whose
+	// every corner was solved, each one's input over the box, in part
+	// order.
+	Supplies []SupplyRange
+}
+
+// SupplyRange is a regulator's or converter's input over the corners of
+// the box, and the first corner (in the order they are solved) where it
+// is out of regulation.
+type SupplyRange struct {
+	Part circuit.PartID
+	// InLow and InHigh are its lowest and highest input voltage (in −
+	// common) over the corners, at LowAt and HighAt.
+	InLow, InHigh float64
+	LowAt, HighAt Corner
+	// Region is Regulating when it regulates at every corner; otherwise
+	// its region at Out, with its input and output voltages there.
+	Region        solve.Region
+	Out           Corner
+	OutIn, OutOut float64
 }
 
 // Skipped says why a design's worst case was not judged.
@@ -110,23 +130,33 @@ func Analyze(d *circuit.Design, nominal *solve.Result, amb Ambient, judge Judge,
 	if len(ps) == 0 && !rangeT {
 		return nil, nil
 	}
-	for i := range d.Parts {
-		if p := &d.Parts[i]; p.Multi() {
-			// Its linearised equations would need the part's region and
-			// what it draws from its input rail (solve/supply.go).
-			return nil, &Skipped{Reason: fmt.Sprintf("the worst-case analysis does not model a %s yet (%s)", p.Kind, d.NameOf(p))}
-		}
-	}
 	a := &analysis{d: d, dn: d.AtTemperature(amb.Nominal), nominal: nominal, judge: judge, opt: opt,
 		res: &Result{Params: ps, RangeT: rangeT, Amb: amb}}
-	if err := a.sensitivities(); err != nil {
-		return nil, err
-	}
 	nparam := len(ps)
 	if rangeT {
 		nparam++
 	}
-	if nparam <= opt.MaxCorners && math.Ldexp(1, nparam)*float64(len(d.Parts)) <= opt.MaxCornerWork {
+	small := nparam <= opt.MaxCorners && math.Ldexp(1, nparam)*float64(len(d.Parts)) <= opt.MaxCornerWork
+	for i := range d.Parts {
+		if p := &d.Parts[i]; p.Multi() {
+			// The linearised equations would need each regulator's
+			// region and what each supply draws from its input rail
+			// (solve/supply.go), which change from corner to corner: a
+			// design with one has every corner of its box solved in full
+			// instead, when the box is small enough.
+			if !small {
+				return nil, &Skipped{Reason: fmt.Sprintf("with a %s (%s) every corner of the box is solved in full, and %d parameters are more than the %d that takes",
+					p.Kind, d.NameOf(p), nparam, opt.MaxCorners)}
+			}
+			a.nominalCases()
+			a.everyCorner()
+			return a.res, nil
+		}
+	}
+	if err := a.sensitivities(); err != nil {
+		return nil, err
+	}
+	if small {
 		a.everyCorner()
 	}
 	a.confirm()
@@ -169,9 +199,9 @@ func (a *analysis) tEnds() []float64 {
 	return []float64{a.res.Amb.Nominal}
 }
 
-// sensitivities builds the first-order estimate and corner of every
-// quantity, and every net's first-order range.
-func (a *analysis) sensitivities() error {
+// nominalCases lists every rated quantity with its nominal use as its
+// worst case so far, and every net's range as its nominal voltage.
+func (a *analysis) nominalCases() {
 	d, r, ps := a.d, a.nominal, a.res.Params
 	tNom := a.res.Amb.Nominal
 	// The quantities and their nominal uses.
@@ -195,6 +225,15 @@ func (a *analysis) sensitivities() error {
 	}
 	a.res.NetLow = append([]float64(nil), r.NetV...)
 	a.res.NetHigh = append([]float64(nil), r.NetV...)
+}
+
+// sensitivities builds the first-order estimate and corner of every
+// quantity, and every net's first-order range.
+func (a *analysis) sensitivities() error {
+	a.nominalCases()
+	d, r, ps := a.d, a.nominal, a.res.Params
+	tNom := a.res.Amb.Nominal
+	nq := len(a.f0)
 	nparam := len(ps)
 	if a.res.RangeT {
 		nparam++
@@ -388,6 +427,37 @@ func sameCorner(x, y Corner) bool {
 	return true
 }
 
+// recordSupplies keeps each regulator's and converter's input extremes
+// and its first corner out of regulation, from r solved at c.
+func (a *analysis) recordSupplies(r *solve.Result, c Corner) {
+	if len(r.Multi) == 0 {
+		return
+	}
+	at := Corner{S: append([]float64(nil), c.S...), T: c.T}
+	if a.res.Supplies == nil {
+		a.res.Supplies = make([]SupplyRange, len(r.Multi))
+		for k, mp := range r.Multi {
+			a.res.Supplies[k] = SupplyRange{Part: mp.Part, InLow: math.Inf(1), InHigh: math.Inf(-1)}
+		}
+	}
+	for k, mp := range r.Multi {
+		sr := &a.res.Supplies[k]
+		p := &a.d.Parts[mp.Part]
+		sp := p.Kind.Info().Supply
+		vin := r.NetV[p.Pins[sp.In]] - r.NetV[p.Pins[sp.InRef]]
+		if vin < sr.InLow {
+			sr.InLow, sr.LowAt = vin, at
+		}
+		if vin > sr.InHigh {
+			sr.InHigh, sr.HighAt = vin, at
+		}
+		if mp.Region != solve.Regulating && sr.Region == solve.Regulating {
+			sr.Region, sr.Out = mp.Region, at
+			sr.OutIn, sr.OutOut = vin, r.NetV[p.Pins[sp.Out]]-r.NetV[p.Pins[sp.OutRef]]
+		}
+	}
+}
+
 // everyCorner solves every corner of the box.
 func (a *analysis) everyCorner() {
 	ps := a.res.Params
@@ -411,6 +481,7 @@ func (a *analysis) everyCorner() {
 				continue
 			}
 			a.record(r, c, -1)
+			a.recordSupplies(r, c)
 			for n, v := range r.NetV {
 				lo[n] = math.Min(lo[n], v)
 				hi[n] = math.Max(hi[n], v)

@@ -82,7 +82,8 @@ func params(d *circuit.Design, amb Ambient) (ps []Param, hasT bool) {
 		}
 		switch p.Kind {
 		case circuit.Resistor, circuit.VoltageSource, circuit.CurrentSource,
-			circuit.Battery, circuit.CurrentLoad, circuit.PowerLoad:
+			circuit.Battery, circuit.CurrentLoad, circuit.PowerLoad,
+			circuit.Regulator, circuit.Converter: // their set output voltage
 			if p.Tol > 0 {
 				ps = append(ps, Param{Part: circuit.PartID(i), Tol: p.Tol})
 			}
