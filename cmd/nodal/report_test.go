@@ -72,19 +72,26 @@ type reportSupply struct {
 	Repeated     bool
 	InLoop       bool `json:"in_loop"`
 	Feeds        []*reportSupply
-	Loads        []struct {
-		Name, Kind     string
-		Current, Power float64
-		Towards        []string
-		Use            *float64
-		Limit          *string
-		Undetermined   []string
-	}
+	Loads        []*reportLoad
 }
 
-// checkRails checks the power tree against the parts: every supply
-// delivers what its part's current and power say (the sign convention of
-// "nodal report --help"), takes what it delivers plus what it loses
+// reportLoad is a part under a rail, and what the tree follows on past it.
+type reportLoad struct {
+	Name, Kind     string
+	Current, Power float64
+	Towards        []string
+	Use            *float64
+	Limit          *string
+	Undetermined   []string
+	Net            string
+	Feeds          []*reportSupply
+	Loads          []*reportLoad
+}
+
+// checkRails checks the power tree against the parts: every supply that
+// draws from no rail delivers what its part's power says (the sign
+// convention of "nodal report --help"; one that does dissipates its loss,
+// checked in checkUses), takes what it delivers plus what it loses
 // (energy balance), and the parts and supplies its rail feeds take what it
 // delivers (Kirchhoff's current law), to the ten figures JSON keeps.
 func checkRails(t *testing.T, doc *reportDoc) {
@@ -97,12 +104,13 @@ func checkRails(t *testing.T, doc *reportDoc) {
 	}
 	onRail := map[string]float64{} // what the supplies listing each rail deliver
 	var walk func(ss []*reportSupply)
+	var walkLoads func(ls []*reportLoad)
 	walk = func(ss []*reportSupply) {
 		for _, s := range ss {
 			if !s.Judged || len(s.Undetermined) > 0 || s.Repeated {
 				continue
 			}
-			if !relNear(s.Power, -power[s.Name], 1e-8) {
+			if s.Input == nil && !relNear(s.Power, -power[s.Name], 1e-8) {
 				t.Errorf("supply %s delivers %v W, its part absorbs %v W", s.Name, s.Power, power[s.Name])
 			}
 			if math.Abs(s.Taken-s.Power-s.Loss) > 1e-8*math.Max(math.Abs(s.Taken), 1e-12) {
@@ -114,10 +122,18 @@ func checkRails(t *testing.T, doc *reportDoc) {
 			}
 			onRail[key] += s.Current
 			walk(s.Feeds)
+			walkLoads(s.Loads)
+		}
+	}
+	walkLoads = func(ls []*reportLoad) {
+		for _, l := range ls {
+			walk(l.Feeds)
+			walkLoads(l.Loads)
 		}
 	}
 	walk(doc.Rails)
 	var sums func(ss []*reportSupply)
+	var sumsLoads func(ls []*reportLoad)
 	sums = func(ss []*reportSupply) {
 		for _, s := range ss {
 			if !s.Judged || len(s.Undetermined) > 0 || s.Repeated || s.ListedUnder != "" {
@@ -137,6 +153,13 @@ func checkRails(t *testing.T, doc *reportDoc) {
 				t.Errorf("rail %s: its parts take %v A, its supplies deliver %v A", s.Rail, taken, onRail[s.Name])
 			}
 			sums(s.Feeds)
+			sumsLoads(s.Loads)
+		}
+	}
+	sumsLoads = func(ls []*reportLoad) {
+		for _, l := range ls {
+			sums(l.Feeds)
+			sumsLoads(l.Loads)
 		}
 	}
 	sums(doc.Rails)
@@ -274,6 +297,7 @@ func checkUses(t *testing.T, doc *reportDoc) {
 	t.Helper()
 	last := math.Inf(1)
 	rated := true
+	converting := convertingSupplies(doc)
 	for _, p := range doc.Parts {
 		if p.Use == nil {
 			rated = false
@@ -301,6 +325,8 @@ func checkUses(t *testing.T, doc *reportDoc) {
 				v = math.Max(-*p.Voltage, 0)
 			case k == "discharge_current": // out of a battery's first pin
 				v = math.Max(-*p.Current, 0)
+			case k == "output_current": // out of a regulator's or converter's out pin
+				v = math.Max(-*p.Current, 0)
 			case k == "voltage":
 				v = math.Abs(*p.Voltage)
 			default:
@@ -316,10 +342,43 @@ func checkUses(t *testing.T, doc *reportDoc) {
 		if *p.Limit != bestKey && !relNear(*p.Use, best, 1e-8) {
 			t.Errorf("%s: limit %s, recomputed %s", p.Name, *p.Limit, bestKey)
 		}
+		if s, ok := converting[p.Name]; ok {
+			// A part that draws from another rail dissipates what it
+			// takes less what it delivers (energy balance).
+			if !relNear(*p.Power, s.Loss, 1e-8) {
+				t.Errorf("%s: power %g is not its loss in the power tree, %g", p.Name, *p.Power, s.Loss)
+			}
+			continue
+		}
 		if p.Voltage != nil && p.Current != nil && !relNear(*p.Power, *p.Voltage**p.Current, 1e-8) && math.Abs(*p.Power) > 1e-18 {
 			t.Errorf("%s: power %g is not voltage × current %g", p.Name, *p.Power, *p.Voltage**p.Current)
 		}
 	}
+}
+
+// convertingSupplies returns the supplies of the power tree that draw from
+// another rail, by name.
+func convertingSupplies(doc *reportDoc) map[string]*reportSupply {
+	out := map[string]*reportSupply{}
+	var walk func(ss []*reportSupply)
+	var walkLoads func(ls []*reportLoad)
+	walk = func(ss []*reportSupply) {
+		for _, s := range ss {
+			if s.Input != nil && s.Judged && !s.Repeated {
+				out[s.Name] = s
+			}
+			walk(s.Feeds)
+			walkLoads(s.Loads)
+		}
+	}
+	walkLoads = func(ls []*reportLoad) {
+		for _, l := range ls {
+			walk(l.Feeds)
+			walkLoads(l.Loads)
+		}
+	}
+	walk(doc.Rails)
+	return out
 }
 
 // A resistive divider, worked by Ohm's law (G. S. Ohm, Die galvanische

@@ -16,7 +16,7 @@ type jsonDoc struct {
 	// they carry together; omitted when there are none.
 	Groups []jsonGroup `json:"groups,omitempty"`
 	// Rails is the power tree (see Table.Rails), and OffRail how many
-	// parts touch no rail; omitted when the design has no supply.
+	// parts it does not reach; omitted when the design has no supply.
 	Rails   []*jsonSupply `json:"rails,omitempty"`
 	OffRail int           `json:"off_rail,omitempty"`
 }
@@ -76,6 +76,12 @@ type jsonLoad struct {
 	Use          *float64 `json:"use"`
 	Limit        *string  `json:"limit"`
 	Undetermined []string `json:"undetermined,omitempty"`
+	// Net is the net the tree follows the part's current on to, with the
+	// supplies fed from it and the other parts on it; omitted when the
+	// tree stops at the part.
+	Net   string        `json:"net,omitempty"`
+	Feeds []*jsonSupply `json:"feeds,omitempty"`
+	Loads []jsonLoad    `json:"loads,omitempty"`
 }
 
 // jsonUse returns a use and its rating's key, or nils.
@@ -124,10 +130,20 @@ func railJSON(s *Supply) *jsonSupply {
 		j.Feeds = append(j.Feeds, railJSON(c))
 	}
 	for _, l := range s.Loads {
-		jl := jsonLoad{Name: l.Name, Kind: l.Kind.String(), Current: round(l.Current), Power: round(l.Power),
-			Towards: l.Towards, Undetermined: unknowns(l.VoltageUnknown, l.CurrentUnknown)}
-		jl.Use, jl.Limit = jsonUse(l.Use, l.HasUse)
-		j.Loads = append(j.Loads, jl)
+		j.Loads = append(j.Loads, loadJSON(l))
+	}
+	return j
+}
+
+func loadJSON(l *Load) jsonLoad {
+	j := jsonLoad{Name: l.Name, Kind: l.Kind.String(), Current: round(l.Current), Power: round(l.Power),
+		Towards: l.Towards, Undetermined: unknowns(l.VoltageUnknown, l.CurrentUnknown), Net: l.Net}
+	j.Use, j.Limit = jsonUse(l.Use, l.HasUse)
+	for _, c := range l.Feeds {
+		j.Feeds = append(j.Feeds, railJSON(c))
+	}
+	for _, c := range l.Loads {
+		j.Loads = append(j.Loads, loadJSON(c))
 	}
 	return j
 }

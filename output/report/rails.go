@@ -15,7 +15,13 @@ package report
 //     it takes there (Kirchhoff's current law: these add up to what the
 //     rail's supplies deliver). Loads and resistors alike: a part counts
 //     by the current it takes, not by its kind. Parts that take nothing
-//     at DC and cannot (a capacitor, an open switch) are left out.
+//     at DC and cannot (a capacitor, an open switch) are left out;
+//   - past a part that takes current from a rail into a net no rail
+//     drives and the tree has not reached yet, the tree goes on: the
+//     supplies whose input is on that net hang under the part (a
+//     converter behind its input fuse), then the other parts on it, up to
+//     maxDepth parts deep, breadth first, so that each part is drawn once
+//     (a part on two rails is drawn under both).
 //
 // Several supplies on one rail are all shown; the first by name lists the
 // rail's parts, the others say which one does. Supplies that feed each
@@ -64,7 +70,7 @@ type Supply struct {
 	// Feeds are the supplies whose input is on this rail, worst use
 	// first; Loads the other parts on the rail, worst use first.
 	Feeds []*Supply
-	Loads []Load
+	Loads []*Load
 }
 
 // Load is a part on a rail, other than a supply fed from it.
@@ -82,6 +88,13 @@ type Load struct {
 	CurrentUnknown, VoltageUnknown bool
 	Use                            rules.Use
 	HasUse                         bool
+	// Net is the net the part leads its current on to, when the tree
+	// follows it there (the first part to reach it, one net beyond, up
+	// to maxDepth deep); Feeds are then the supplies whose input is on
+	// that net, and Loads the other parts on it, worst first.
+	Net   string
+	Feeds []*Supply
+	Loads []*Load
 }
 
 // netSets joins the nets that ideal shorts tie together (union–find).
@@ -103,10 +116,20 @@ func (s netSets) union(a, b circuit.NetID) {
 	}
 }
 
+// maxDepth is how many parts deep the tree follows current past a rail.
+const maxDepth = 8
+
+// pinRef is one pin of one part.
+type pinRef struct {
+	part circuit.PartID
+	pin  int32
+}
+
 // buildRails draws the power tree of d at the operating point pt, with
 // uses the judged ratings of every part (by PartID). It returns the roots,
-// and how many parts (not supplies, not ideal shorts) touch no rail.
-func buildRails(d *circuit.Design, pt *rules.Point, uses [][]rules.Use) (roots []*Supply, offRail int) {
+// and how many parts (not supplies, not ideal shorts) the tree does not
+// reach.
+func buildRails(d *circuit.Design, pt *rules.Point, uses [][]rules.Use) (roots []*Supply, offTree int) {
 	sets := make(netSets, len(d.Nets))
 	for i := range sets {
 		sets[i] = int32(i)
@@ -130,7 +153,7 @@ func buildRails(d *circuit.Design, pt *rules.Point, uses [][]rules.Use) (roots [
 	}
 	// The nodes, and the rail (a set of nets) each drives.
 	nodes := make(map[circuit.PartID]*Supply, len(supplies))
-	railOf := make([]int32, 0, len(supplies))
+	railOf := make(map[circuit.PartID]int32, len(supplies))
 	railPin := make(map[circuit.PartID]int, len(supplies)) // the pin on the rail it drives
 	primary := map[int32]circuit.PartID{}                  // rail → the supply that lists its parts
 	refOf := map[circuit.PartID]int32{}                    // supply → its reference's set
@@ -158,87 +181,144 @@ func buildRails(d *circuit.Design, pt *rules.Point, uses [][]rules.Use) (roots [
 		nodes[id] = n
 		refOf[id] = sets.find(ref)
 		r := sets.find(out)
-		railOf = append(railOf, r)
+		railOf[id] = r
 		if p, seen := primary[r]; !seen || d.CompareParts(id, p) < 0 {
 			primary[r] = id
 		}
 	}
-	// Each supply's parent: the supply listing the rail its input is on.
+	// Each supply's parent: the supply listing the rail its input is on,
+	// or (found below) the one whose tree reaches its input's net.
 	parent := make(map[circuit.PartID]circuit.PartID, len(supplies))
-	for k, id := range supplies {
+	for _, id := range supplies {
 		q, n := &d.Parts[id], nodes[id]
-		if p := primary[railOf[k]]; p != id {
+		if p := primary[railOf[id]]; p != id {
 			n.Alongside = d.NameOf(&d.Parts[p])
 		}
-		s := q.Kind.Info().Supply
-		if !s.HasInput() {
-			continue
-		}
-		if p, ok := primary[sets.find(q.Pins[s.In])]; ok {
-			parent[id] = p
-		} else {
-			n.Unfed = true
+		if s := q.Kind.Info().Supply; s.HasInput() {
+			if p, ok := primary[sets.find(q.Pins[s.In])]; ok {
+				parent[id] = p
+				nodes[p].Feeds = append(nodes[p].Feeds, n)
+			}
 		}
 	}
-	// The parts each rail feeds: every pin on a rail, but the supply's
-	// own output and a fed supply's input.
-	isSupply := func(id circuit.PartID) bool { _, ok := nodes[id]; return ok }
-	loads := map[circuit.PartID][]Load{}
+	// The pins on each set of nets, in the order of their parts' names.
+	start := make([]int32, len(d.Nets)+1)
 	for i := range d.Parts {
-		id, q := circuit.PartID(i), &d.Parts[i]
-		if q.IsShort() {
-			continue
+		for _, n := range d.Parts[i].Nets() {
+			start[sets.find(n)+1]++
 		}
-		qs := pt.Part(id)
-		skip := [2]int{-1, -1}
-		if s := q.Kind.Info().Supply; s != nil {
-			skip[0] = railPin[id]
-			if _, fed := parent[id]; fed {
-				skip[1] = s.In
+	}
+	for i := range len(d.Nets) {
+		start[i+1] += start[i]
+	}
+	at := make([]pinRef, start[len(d.Nets)])
+	fill := append([]int32(nil), start[:len(d.Nets)]...)
+	for i := range d.Parts {
+		for k, n := range d.Parts[i].Nets() {
+			r := sets.find(n)
+			at[fill[r]] = pinRef{circuit.PartID(i), int32(k)}
+			fill[r]++
+		}
+	}
+	// Walk out from every rail, breadth first: the parts on a rail, then
+	// past each part that takes current from it into a net no rail or
+	// part has reached yet, the parts on that net, up to maxDepth deep.
+	type step struct {
+		set   int32
+		owner *Load // nil on a rail
+		top   circuit.PartID
+		depth int
+	}
+	reached := make([]bool, len(d.Nets))
+	if ground >= 0 {
+		reached[ground] = true
+	}
+	tops := make([]circuit.PartID, 0, len(primary))
+	for r, p := range primary {
+		reached[r] = true
+		tops = append(tops, p)
+	}
+	sort.Slice(tops, func(a, b int) bool { return d.CompareParts(tops[a], tops[b]) < 0 })
+	var queue []step
+	for _, p := range tops {
+		queue = append(queue, step{set: railOf[p], top: p})
+	}
+	listed := make([]bool, len(d.Parts))
+	for len(queue) > 0 {
+		st := queue[0]
+		queue = queue[1:]
+		pins := append([]pinRef(nil), at[start[st.set]:start[st.set+1]]...)
+		sort.Slice(pins, func(a, b int) bool {
+			if c := d.CompareParts(pins[a].part, pins[b].part); c != 0 {
+				return c < 0
 			}
-		}
-		onRail := false
-		for pin, net := range q.Nets() {
-			r := sets.find(net)
-			p, ok := primary[r]
-			if !ok {
+			return pins[a].pin < pins[b].pin
+		})
+		for _, pr := range pins {
+			id, pin, q := pr.part, int(pr.pin), &d.Parts[pr.part]
+			if q.IsShort() || st.owner != nil && listed[id] {
 				continue
 			}
-			onRail = true
-			if pin == skip[0] || pin == skip[1] || sameRail(sets, q, r, pin) {
+			if s := q.Kind.Info().Supply; s != nil {
+				if pin == railPin[id] {
+					continue // its own output
+				}
+				if s.HasInput() && pin == s.In {
+					if _, fed := parent[id]; !fed && st.owner != nil {
+						// Fed through the part that reached this net.
+						parent[id] = st.top
+						st.owner.Feeds = append(st.owner.Feeds, nodes[id])
+					}
+					continue
+				}
+			}
+			if sameRail(sets, q, st.set, pin) {
 				continue
 			}
+			qs := pt.Part(id)
 			c, known := pt.PinCurrent(q, id, pin)
 			if known && c == 0 && !qs.CurrentUnknown && q.DC().Model == circuit.Open {
-				continue // a capacitor or an open switch: nothing at DC
+				listed[id] = true // reached, but not drawn: a capacitor or an open switch takes nothing at DC
+				continue
 			}
-			l := Load{Name: d.NameOf(q), Kind: q.Kind, Current: c, Power: qs.P,
+			l := &Load{Name: d.NameOf(q), Kind: q.Kind, Current: c, Power: qs.P,
 				CurrentUnknown: qs.CurrentUnknown || !known, VoltageUnknown: qs.VoltageUnknown}
+			next := int32(-1)
 			for k, n := range q.Nets() {
-				if o := sets.find(n); k != pin && o != ground && o != refOf[p] {
+				if o := sets.find(n); k != pin && o != ground && o != refOf[st.top] {
 					l.Towards = append(l.Towards, d.NetNameOf(&d.Nets[n]))
+					if next == -1 {
+						next = o
+					} else {
+						next = -2 // more than one way on: followed no further
+					}
 				}
 			}
 			if w := rules.Worst(uses[id]); w >= 0 {
 				l.Use, l.HasUse = uses[id][w], true
 			}
-			loads[p] = append(loads[p], l)
+			listed[id] = true
+			if st.owner == nil {
+				nodes[st.top].Loads = append(nodes[st.top].Loads, l)
+			} else {
+				st.owner.Loads = append(st.owner.Loads, l)
+			}
+			if next >= 0 && !reached[next] && known && c > 0 && !qs.CurrentUnknown && st.depth+1 < maxDepth {
+				reached[next] = true
+				l.Net = d.NetNameOf(&d.Nets[next])
+				queue = append(queue, step{set: next, owner: l, top: st.top, depth: st.depth + 1})
+			}
 		}
-		if !onRail && !isSupply(id) {
-			offRail++
+	}
+	for _, id := range supplies {
+		if _, fed := parent[id]; !fed && nodes[id].Input != "" {
+			nodes[id].Unfed = true
 		}
 	}
-	for p, ls := range loads {
-		sortLoads(ls)
-		nodes[p].Loads = ls
-	}
-	children := map[circuit.PartID][]*Supply{}
-	for id, p := range parent {
-		children[p] = append(children[p], nodes[id])
-	}
-	for p, cs := range children {
-		sortSupplies(cs)
-		nodes[p].Feeds = cs
+	for i := range d.Parts {
+		if !listed[i] && !d.Parts[i].IsShort() && d.Parts[i].Kind.Info().Supply == nil {
+			offTree++
+		}
 	}
 	// Roots: the supplies fed by no other. Supplies left unvisited after
 	// walking down from them feed each other in a loop; each loop is
@@ -275,7 +355,7 @@ func buildRails(d *circuit.Design, pt *rules.Point, uses [][]rules.Use) (roots [
 		n.InLoop = true
 		roots = append(roots, n)
 	}
-	return roots, offRail
+	return roots, offTree
 }
 
 // sameRail reports whether the part's other pins are on rail r too: a part
@@ -289,20 +369,36 @@ func sameRail(sets netSets, q *circuit.Part, r int32, pin int) bool {
 	return true
 }
 
-// walk marks n and everything below it seen, and replaces a supply
-// reached a second time (round a loop) by a copy without children.
+// walk marks n and everything below it seen, sorts what each rail and
+// part feeds worst first, and replaces a supply reached a second time
+// (round a loop) by a copy without children.
 func walk(n *Supply, seen map[*Supply]bool) *Supply {
 	seen[n] = true
-	for k, c := range n.Feeds {
+	n.Feeds = walkFeeds(n.Feeds, seen)
+	walkLoads(n.Loads, seen)
+	return n
+}
+
+func walkFeeds(fs []*Supply, seen map[*Supply]bool) []*Supply {
+	sortSupplies(fs)
+	for k, c := range fs {
 		if seen[c] {
 			cp := *c
 			cp.Feeds, cp.Loads, cp.Loop = nil, nil, true
-			n.Feeds[k] = &cp
+			fs[k] = &cp
 			continue
 		}
-		n.Feeds[k] = walk(c, seen)
+		fs[k] = walk(c, seen)
 	}
-	return n
+	return fs
+}
+
+func walkLoads(ls []*Load, seen map[*Supply]bool) {
+	sortLoads(ls)
+	for _, l := range ls {
+		l.Feeds = walkFeeds(l.Feeds, seen)
+		walkLoads(l.Loads, seen)
+	}
 }
 
 // worse orders uses worst first, parts with no rating last, then by name,
@@ -317,7 +413,7 @@ func worse(ua, ub rules.Use, oka, okb bool, na, nb string) bool {
 	return na < nb
 }
 
-func sortLoads(ls []Load) {
+func sortLoads(ls []*Load) {
 	sort.Slice(ls, func(a, b int) bool {
 		if ls[a].Name == ls[b].Name {
 			return ls[a].Current > ls[b].Current

@@ -92,9 +92,17 @@ func TestRailsEnergyBalance(t *testing.T) {
 	if math.Abs(absorbed-delivered) > 1e-9*delivered {
 		t.Errorf("supplies deliver %.12g W, the other parts absorb %.12g W (Tellegen)", delivered, absorbed)
 	}
-	if tab.OffRail != 1 {
-		t.Errorf("%d parts on no rail, want D1", tab.OffRail)
+	// D1 is reached through RL, and takes what RL passes on (KCL at led).
+	if tab.OffRail != 0 {
+		t.Errorf("%d parts not in the tree, want none", tab.OffRail)
 	}
+	eachSupply(tab.Rails, func(s *report.Supply) {
+		for _, l := range s.Loads {
+			if l.Name == "RL" && (l.Net != "led" || len(l.Loads) != 1 || l.Loads[0].Name != "D1" || math.Abs(l.Loads[0].Current-l.Current) > 1e-15) {
+				t.Errorf("RL leads to %q, feeding %+v", l.Net, l.Loads)
+			}
+		}
+	})
 	// The battery's loss is I²·R in its 150 mΩ (Joule's law).
 	eachSupply(tab.Rails, func(s *report.Supply) {
 		if s.Name == "BAT" && math.Abs(s.Flow.Loss-s.Flow.IOut*s.Flow.IOut*0.15) > 1e-12 {
@@ -244,5 +252,83 @@ func TestRailsEscaped(t *testing.T) {
 	}
 	if err := json.Unmarshal([]byte(js), &doc); err != nil || doc.Rails[0].Rail != "v\x1b[31m" || doc.Rails[0].Loads[0].Towards[0] != "w\u202e" {
 		t.Errorf("JSON names: %v %+v", err, doc)
+	}
+}
+
+// regulatorChain: a 12 V bench supply feeds a 5 V converter, which feeds a
+// 3.3 V regulator, which feeds a 1.8 V regulator; a fuse stands between
+// the supply and the converter.
+const regulatorChain = `ground gnd
+source    VS   (vs, gnd) 12 V rated 2 A
+fuse      F1   (vs, vf) 1 A dcr 100 mΩ
+converter BUCK (in=vf, out=v5, common=gnd) 5 V efficiency 90% quiescent 1 mA rated 1 A
+load      HOT  (v5, gnd) 200 mA
+regulator LA   (in=v5, out=v33, common=gnd) 3.3 V dropout 300 mV quiescent 50 µA rated 500 mA
+load      MCU  (v33, gnd) 100 mA
+regulator LB   (in=v33, out=v18, common=gnd) 1.8 V dropout 200 mV quiescent 20 µA rated 200 mA
+load      CORE (v18, gnd) 60 mA
+`
+
+// TestRailsRegulatorChain: the tree hangs each regulator under the supply
+// of the rail its input is on (the converter under the fuse that feeds
+// it), and each supply's figures follow the regulator models (common
+// practice, from the energy balance): a linear regulator draws
+// I_in = I_out + I_q and dissipates (V_in − V_out)·I_out + V_in·I_q; a
+// converter draws P_out/η + V_in·I_q. What each rail delivers is what its
+// parts and fed supplies take (Kirchhoff's current law), to 1e-9.
+func TestRailsRegulatorChain(t *testing.T) {
+	tab := tableOf(t, regulatorChain)
+	text, _ := render(t, tab)
+	if len(tab.Rails) != 1 || tab.Rails[0].Name != "VS" {
+		t.Fatalf("roots %v, want VS alone:\n%s", tab.Rails, rails(text))
+	}
+	vs := tab.Rails[0]
+	if len(vs.Loads) != 1 || vs.Loads[0].Name != "F1" || len(vs.Loads[0].Feeds) != 1 {
+		t.Fatalf("VS feeds %+v, want F1 feeding BUCK:\n%s", vs.Loads, rails(text))
+	}
+	buck := vs.Loads[0].Feeds[0]
+	if buck.Name != "BUCK" || len(buck.Feeds) != 1 || buck.Feeds[0].Name != "LA" || len(buck.Feeds[0].Feeds) != 1 || buck.Feeds[0].Feeds[0].Name != "LB" {
+		t.Fatalf("tree:\n%s", rails(text))
+	}
+	la, lb := buck.Feeds[0], buck.Feeds[0].Feeds[0]
+	near := func(what string, got, want float64) {
+		t.Helper()
+		if math.Abs(got-want) > 1e-9*math.Abs(want) {
+			t.Errorf("%s = %.12g, want %.12g", what, got, want)
+		}
+	}
+	// From the bottom up, by hand.
+	iLB := 0.060
+	inLB := iLB + 20e-6
+	near("LB delivers", lb.Flow.IOut, iLB)
+	near("LB draws", lb.Flow.IIn, inLB)
+	near("LB dissipates", lb.Flow.Loss, (3.3-1.8)*iLB+3.3*20e-6)
+	iLA := 0.100 + inLB
+	near("LA delivers", la.Flow.IOut, iLA)
+	near("LA draws", la.Flow.IIn, iLA+50e-6)
+	near("LA dissipates", la.Flow.Loss, (5-3.3)*iLA+5*50e-6)
+	near("LA efficiency", la.Flow.Efficiency, 3.3*iLA/(5*(iLA+50e-6)))
+	iBuck := 0.200 + iLA + 50e-6
+	near("BUCK delivers", buck.Flow.IOut, iBuck)
+	vf := buck.Flow.VIn
+	near("BUCK draws", buck.Flow.PIn, 5*iBuck/0.9+vf*1e-3)
+	// The fuse passes what the converter draws (KCL at vf), and the
+	// bench supply delivers it.
+	near("F1 carries", vs.Loads[0].Current, buck.Flow.IIn)
+	near("VS delivers", vs.Flow.IOut, buck.Flow.IIn)
+	near("vf", vf, 12-0.1*buck.Flow.IIn) // Ohm's law across the fuse
+	for _, s := range []*report.Supply{buck, la, lb} {
+		near(s.Name+" loss", s.Flow.Loss, s.Flow.PIn-s.Flow.POut)
+		sum := 0.0
+		for _, l := range s.Loads {
+			sum += l.Current
+		}
+		for _, f := range s.Feeds {
+			sum += f.Flow.IIn
+		}
+		near(s.Name+" rail KCL", sum, s.Flow.IOut)
+	}
+	if !strings.Contains(rails(text), "A supply's loss is heat") {
+		t.Errorf("no note on heat:\n%s", text)
 	}
 }

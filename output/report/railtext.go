@@ -27,7 +27,8 @@ func (t *Table) writeRails(bw *bufio.Writer) {
 	bw.WriteString("Currents under a rail are taken from its net and add up to what its\n" +
 		"supplies deliver (Kirchhoff's current law); powers are each part's own.\n")
 	if t.OffRail > 0 {
-		bw.WriteString(plural(t.OffRail, "part touches no rail; its", "parts touch no rail; their") + " current comes through the parts above.\n")
+		bw.WriteString(plural(t.OffRail, "part is", "parts are") + " not in the tree: on no rail, or further than " +
+			strconv.Itoa(maxDepth) + " parts from one.\n")
 	}
 	if hot {
 		bw.WriteString("A supply's loss is heat in it: a regulator can run hot enough to burn\n" +
@@ -41,9 +42,8 @@ func (t *Table) writeRails(bw *bufio.Writer) {
 // loses power.
 func writeSupply(bw *bufio.Writer, s *Supply, first, rest string) bool {
 	bw.WriteString(first + supplyHead(s) + "\n")
-	kids := len(s.Feeds) + len(s.Loads)
 	cont := rest + "   "
-	if kids > 0 {
+	if len(s.Feeds)+len(s.Loads) > 0 {
 		cont = rest + "│  "
 	}
 	if !s.Loop {
@@ -52,16 +52,26 @@ func writeSupply(bw *bufio.Writer, s *Supply, first, rest string) bool {
 	// Heat worth a note: a loss in a supply fed from a rail of the design
 	// (a battery's has its own note, and a port's is outside the design).
 	hot := s.Judged && s.Input != "" && !s.Flow.CurrentUnknown && !s.Flow.VoltageUnknown && s.Flow.Loss > 0
+	return writeBranches(bw, s.Feeds, s.Loads, rest) || hot
+}
+
+// writeBranches writes the supplies and parts fed from one rail or net,
+// one branch each, below a line whose continuation prefix is rest.
+func writeBranches(bw *bufio.Writer, feeds []*Supply, loads []*Load, rest string) bool {
+	hot := false
+	kids := len(feeds) + len(loads)
 	for i := 0; i < kids; i++ {
 		branch, next := "├─ ", "│  "
 		if i == kids-1 {
 			branch, next = "└─ ", "   "
 		}
-		if i < len(s.Feeds) {
-			hot = writeSupply(bw, s.Feeds[i], rest+branch, rest+next) || hot
+		if i < len(feeds) {
+			hot = writeSupply(bw, feeds[i], rest+branch, rest+next) || hot
 			continue
 		}
-		bw.WriteString(rest + branch + loadLine(&s.Loads[i-len(s.Feeds)]) + "\n")
+		l := loads[i-len(feeds)]
+		bw.WriteString(rest + branch + loadLine(l) + "\n")
+		hot = writeBranches(bw, l.Feeds, l.Loads, rest+next) || hot
 	}
 	return hot
 }

@@ -154,7 +154,7 @@ type Table struct {
 	Groups []Group
 	// Rails is the power tree (rails.go): the supplies fed by no other,
 	// by name, each with what its rail feeds. OffRail counts the parts
-	// that touch no rail (their current comes through other parts).
+	// the tree does not reach.
 	Rails   []*Supply
 	OffRail int
 }
