@@ -338,3 +338,22 @@ func TestHoverDriveRange(t *testing.T) {
 		t.Errorf("hover on vb:\n%s", h)
 	}
 }
+
+// TestHoverRegulator: hover on a regulator in dropout says what it
+// delivers, draws and dissipates, and its region.
+func TestHoverRegulator(t *testing.T) {
+	s := newSession(t, Options{})
+	s.initialize()
+	src := "ground gnd\nsource VB (vb, gnd) 3.4 V\nregulator U1 (vb, v3, gnd) 3.3 V dropout 300 mV quiescent 1 mA\nresistor RL (v3, gnd) 31 Ω\n"
+	u := s.write("r.nodal", src)
+	s.open(u, src)
+	s.diagnostics(u, 1)
+	h := hoverText(t, s, u, pos(t, src, "U1", 0, 0))
+	// 3.1 V into 31 Ω: 100 mA out, 101 mA in at 3.4 V; (3.4 − 3.1)·0.1 +
+	// 3.4·0.001 = 33.4 mW dissipated (energy balance).
+	for _, want := range []string{"delivers 100 mA at 3\\.10 V", "draws 101 mA at 3\\.40 V", "dissipates 33\\.4 mW", "in dropout"} {
+		if !strings.Contains(h, want) {
+			t.Errorf("hover on U1 lacks %q:\n%s", want, h)
+		}
+	}
+}

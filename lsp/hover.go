@@ -9,6 +9,7 @@ import (
 
 	"nodal/circuit"
 	"nodal/rules"
+	"nodal/solve"
 	"nodal/units"
 	"nodal/worst"
 )
@@ -123,6 +124,15 @@ func (s *Server) hoverPart(b *strings.Builder, doc indexed, ref *partRef, last *
 		q := pt.Part(id)
 		fmt.Fprintf(b, "; at the operating point %s, %s, %s\n", md(units.Format(q.V, units.Voltage)),
 			md(units.Format(q.I, units.Current)), md(units.Format(q.P, units.Power)))
+		if f, ok := pt.SupplyFlow(part, id); ok && f.HasInput && part.Multi() {
+			// A regulator or converter: what it delivers, draws and loses.
+			fmt.Fprintf(b, "- delivers %s at %s; draws %s at %s (%s); dissipates %s", md(units.Format(f.IOut, units.Current)), md(units.Format(f.VOut, units.Voltage)),
+				md(units.Format(f.IIn, units.Current)), md(units.Format(f.VIn, units.Voltage)), md(units.Format(f.PIn, units.Power)), md(units.Format(f.Loss, units.Power)))
+			if mp := last.res.Solved.OP.MultiAt(id); mp != nil && mp.Region != solve.Regulating {
+				fmt.Fprintf(b, "; in %s", md(mp.Region.String()))
+			}
+			b.WriteString("\n")
+		}
 		var worst [][]worstCase
 		if wr := last.res.Worst; wr != nil && wr.R != nil {
 			worst = wr.R.Worst

@@ -212,6 +212,9 @@ func solveMulti(d *circuit.Design, opt *Options) (*Result, error) {
 			r := s.result(rs)
 			r.Iterations = iters
 			if r.Undetermined != nil {
+				if err := s.undeterminedDraw(r); err != nil {
+					return nil, err
+				}
 				// The currents the circuit leaves open read 0, so
 				// Kirchhoff's law is no longer met at their nets: the
 				// stand-ins' solve checked it before they were cleared.
@@ -232,6 +235,30 @@ func plural(n int, one, more string) string {
 		return one
 	}
 	return more
+}
+
+// undeterminedDraw returns an error when the circuit leaves a supply's
+// output current open (its output tied to another part that holds a
+// voltage, with equal voltages): then what it draws from its input rail,
+// and the current of every part upstream, are not determined either,
+// and no figure of theirs can be given as checked.
+func (s *multiSolve) undeterminedDraw(r *Result) error {
+	var parts []circuit.PartID
+	for k := range s.sup {
+		if id := s.sup[k].part; r.Undetermined[id]&UnknownCurrent != 0 {
+			parts = append(parts, id)
+		}
+	}
+	if len(parts) == 0 {
+		return nil
+	}
+	var names []string
+	for _, id := range parts {
+		names = append(names, s.d.PartName(id))
+	}
+	return &Error{Kind: Singular, Parts: parts,
+		Msg: fmt.Sprintf("the circuit does not fix how much of the load %s %s (%s output is tied to another part that holds the same voltage), so what %s from %s, and the currents upstream, are not determined",
+			strings.Join(names, " and "), plural(len(parts), "carries", "carry"), plural(len(parts), "its", "each"), plural(len(parts), "it draws", "they draw"), plural(len(parts), "its input rail", "their input rails"))}
 }
 
 // quiescent returns a regulator's or converter's quiescent current.

@@ -300,3 +300,24 @@ func TestRegulatorOutputsTied(t *testing.T) {
 		t.Fatal("tied outputs at 5 V and 3.3 V solved")
 	}
 }
+
+// TestRegulatorsInParallel: two regulators at the same voltage with their
+// outputs tied satisfy Kirchhoff's voltage law, but nothing fixes how they
+// share the load (a loop of parts that each hold a voltage), so nothing
+// fixes what each draws from its input either: the solve says so and
+// names both, rather than give the upstream currents of one arbitrary
+// split.
+func TestRegulatorsInParallel(t *testing.T) {
+	b := newBuilder()
+	b.v("vin", "gnd", 12)
+	b.r("vin", "va", 1)
+	b.r("vin", "vb", 2)
+	u1 := b.reg("U1", "va", "vout", "gnd", 5, 0.3, 0, 0)
+	u2 := b.reg("U2", "vb", "vout", "gnd", 5, 0.3, 0, 0)
+	b.r("vout", "gnd", 100)
+	_, err := Solve(b.d, nil)
+	var se *Error
+	if !errors.As(err, &se) || len(se.Parts) != 2 || se.Parts[0] != u1 || se.Parts[1] != u2 || !strings.Contains(se.Msg, "not determined") {
+		t.Fatalf("got %v", err)
+	}
+}
