@@ -59,9 +59,12 @@ type Options struct {
 	// MaxParts bounds the parts and instances a design expands to (0: 10
 	// million).
 	MaxParts int64
-	// MaxNameBytes bounds the bytes of instance-path names a design
-	// expands to (0: 256 MiB; see circuit.Options).
+	// MaxNameBytes bounds the bytes of the names a design's instances
+	// make, each counted once as written (0: 256 MiB; see circuit.Options).
 	MaxNameBytes int64
+	// Expanding is told the number of parts the design expands to before
+	// they are made (see circuit.Options).
+	Expanding func(parts int64)
 }
 
 // files returns the reading functions for a check of the file name.
@@ -115,6 +118,7 @@ func Source(name string, src []byte, opt *Options) (*Result, error) {
 	read, identify := opt.files(name)
 	b := circuit.BuildFile(fset, file, src, ast, &circuit.Options{
 		ReadFile: read, Identify: identify, MaxDepth: opt.MaxDepth, MaxParts: opt.MaxParts, MaxNameBytes: opt.MaxNameBytes,
+		Expanding: opt.Expanding,
 	})
 	// The rules need only the comments (kept in b.Files); the tree itself,
 	// most of the memory a large design takes, is dropped here.

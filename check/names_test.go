@@ -139,3 +139,27 @@ func TestNameBytesCountedExactly(t *testing.T) {
 	}
 	wantOne(t, over, "expansion-limit", "names")
 }
+
+// A caller is told the parts a design expands to before they are made,
+// once, so that it can wait for the memory they take; not when the design
+// is refused for size.
+func TestExpandingToldFirst(t *testing.T) {
+	src := deepLongNames(3, 5, 4, 2)
+	var told []int64
+	res, err := Source("d.nodal", []byte(src), &Options{Expanding: func(parts int64) {
+		told = append(told, parts)
+	}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if n := len(res.Build.Design.Parts); len(told) != 1 || told[0] != int64(n) || n != 2*(4+3) {
+		t.Errorf("told %v for a design of %d parts, want once 14", told, n)
+	}
+	told = nil
+	if _, err := Source("d.nodal", []byte(src), &Options{MaxParts: 5, Expanding: func(parts int64) { told = append(told, parts) }}); err != nil {
+		t.Fatal(err)
+	}
+	if len(told) != 0 {
+		t.Errorf("told %v for a design past the size limit", told)
+	}
+}

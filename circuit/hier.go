@@ -56,6 +56,11 @@ type Options struct {
 	// MaxParts bounds the parts and instances the design expands to; 0
 	// means DefaultMaxParts.
 	MaxParts int64
+	// Expanding, when set, is told the number of built-in parts the
+	// design will expand to, once, after the blocks are measured and
+	// before any instance is expanded (not when the design is past the
+	// size limit), so that a caller can wait for the memory they need.
+	Expanding func(parts int64)
 	// MaxNameBytes bounds the bytes of the names (parts, local nets,
 	// instances) that instances make, each counted once as written, since
 	// each is kept once; 0 means DefaultMaxNameBytes.

@@ -93,7 +93,12 @@ func (b *builder) reserve() {
 	if b.top.isTop {
 		b.measure(b.top, nil)
 	}
-	if n := b.top.parts; n > 0 && b.top.size <= b.opt.MaxParts {
-		b.r.Design.Parts = make([]Part, 0, n)
+	if n := b.top.parts; b.top.size <= b.opt.MaxParts {
+		if b.opt.Expanding != nil {
+			b.opt.Expanding(n)
+		}
+		if n > 0 {
+			b.r.Design.Parts = make([]Part, 0, n)
+		}
 	}
 }

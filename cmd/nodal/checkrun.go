@@ -8,6 +8,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"path/filepath"
 	"sync"
 
@@ -92,7 +93,10 @@ func (b *unitBuilder) build(names []string, msgs io.Writer) (units []unit, statu
 // checkPool checks the units added to it on jobs workers, as they are
 // added. Files are admitted by size: the bytes being checked at once stay
 // within one file's cap, so several large designs do not each take a
-// worker's share of memory at the same time.
+// worker's share of memory at the same time. A design is weighed again
+// once its blocks are measured, by the parts it expands to (partWeight
+// bytes each), so that a small file of blocks that makes millions of
+// parts waits its turn as a large flat file would.
 type checkPool struct {
 	wg      sync.WaitGroup
 	next    chan *pending
@@ -119,9 +123,9 @@ func newCheckPool(jobs int, budget int64, stdinSrc []byte, loader *configLoader,
 				if !w.u.stdin && !p.fromIdx {
 					n = sizeOf(w.u.name)
 				}
-				adm.acquire(n)
-				w.r = checkOne(w.u, stdinSrc, loader)
-				adm.release(n)
+				t := adm.admit(n)
+				w.r = checkOne(w.u, stdinSrc, loader, func(parts int64) { t.grow(min(parts, math.MaxInt64/partWeight) * partWeight) })
+				t.done()
 			}
 		}()
 	}
@@ -158,7 +162,7 @@ type fileResult struct {
 // checkOne checks one file. A panic anywhere in the pipeline becomes an
 // internal error for that file (exit 2), so that one file that trips a bug
 // neither takes the others down nor prints a stack trace.
-func checkOne(u unit, stdinSrc []byte, loader *configLoader) (out fileResult) {
+func checkOne(u unit, stdinSrc []byte, loader *configLoader, expanding func(parts int64)) (out fileResult) {
 	defer func() {
 		if r := recover(); r != nil {
 			out = fileResult{checked: true, err: fmt.Sprintf("nodal: %s: internal error: %v (please report it with the file that caused it)", output.TextSafe(u.name), r)}
@@ -177,7 +181,7 @@ func checkOne(u unit, stdinSrc []byte, loader *configLoader) (out fileResult) {
 	// Includes are read the same way as the file: from disk below the
 	// roots, or from git's index with --staged.
 	lim := u.limits
-	opts := &check.Options{Config: withAmbient(loader.rulesConfig(u.cfg), lim.ambient), ReadFile: u.read, Identify: u.identify, MaxDepth: lim.maxDepth, MaxParts: lim.maxParts}
+	opts := &check.Options{Config: withAmbient(loader.rulesConfig(u.cfg), lim.ambient), ReadFile: u.read, Identify: u.identify, MaxDepth: lim.maxDepth, MaxParts: lim.maxParts, Expanding: expanding}
 	res, err := checkSource(u.name, src, opts)
 	out = fileResult{checked: true, sources: map[string][]byte{u.name: src}}
 	if res != nil {

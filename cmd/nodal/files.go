@@ -217,6 +217,40 @@ func (a *admission) release(n int64) {
 	a.cond.Broadcast()
 }
 
+// partWeight is what one expanded part weighs for admission, in bytes of
+// source: about the length of a flat part line (a 2 M-part mesh is a
+// 90.6 MB file), so that a design weighs about what it would written
+// out flat.
+const partWeight = 48
+
+// ticket is one file's hold on the admission budget.
+type ticket struct {
+	a *admission
+	n int64
+}
+
+// admit waits until n bytes fit in the budget and holds them.
+func (a *admission) admit(n int64) *ticket {
+	a.acquire(n)
+	return &ticket{a: a, n: n}
+}
+
+// grow makes the hold n bytes when that is more than it holds. It lets go
+// of what it holds before it waits for the more, so that two files
+// growing at once cannot wait on each other.
+func (t *ticket) grow(n int64) {
+	n = min(n, t.a.budget) // more than the budget runs alone all the same
+	if n <= t.n {
+		return
+	}
+	t.a.release(t.n)
+	t.a.acquire(n)
+	t.n = n
+}
+
+// done lets go of the hold.
+func (t *ticket) done() { t.a.release(t.n) }
+
 // sizeOf is the size of a file for admission; 0 when unknown.
 func sizeOf(name string) int64 {
 	info, err := os.Stat(name)
