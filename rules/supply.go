@@ -7,6 +7,7 @@ package rules
 
 import (
 	"nodal/circuit"
+	"nodal/solve"
 )
 
 // Flow is a supply-like part's energy balance at an operating point. Its
@@ -40,6 +41,11 @@ type Flow struct {
 	// the circuit does not fix the rail's voltage or the part's current.
 	// The figures that need them read 0 and are not to be shown as values.
 	VoltageUnknown, CurrentUnknown bool
+	// Region is the state a part with more than two pins (a regulator, a
+	// converter) settled in, when HasRegion: regulating, in dropout, at
+	// its current limit.
+	Region    solve.Region
+	HasRegion bool
 }
 
 // SupplyFlow returns the energy balance of part id, p, of a supply-like
@@ -56,6 +62,9 @@ func (pt *Point) SupplyFlow(p *circuit.Part, id circuit.PartID) (f Flow, ok bool
 	iOut, ok := pt.PinCurrent(p, id, s.Out)
 	if !ok {
 		return Flow{}, false
+	}
+	if mp := pt.r.MultiAt(id); mp != nil {
+		f.Region, f.HasRegion = mp.Region, true
 	}
 	f.VOut = pt.across(p, q, s.Out, s.OutRef)
 	f.IOut = 0 - iOut // 0 − x: no −0 for a part that delivers nothing

@@ -68,6 +68,7 @@ type reportSupply struct {
 	Taken, Loss  float64
 	Efficiency   *float64
 	Undetermined []string
+	Region       string
 	ListedUnder  string `json:"listed_under"`
 	Repeated     bool
 	InLoop       bool `json:"in_loop"`

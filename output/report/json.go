@@ -47,6 +47,9 @@ type jsonSupply struct {
 	Loss         float64    `json:"loss"`
 	Efficiency   *float64   `json:"efficiency"`
 	Undetermined []string   `json:"undetermined,omitempty"`
+	// Region is the state a regulator or converter settled in
+	// ("regulating", "dropout", "current limit"); omitted for others.
+	Region string `json:"region,omitempty"`
 	// ListedUnder names the supply that lists the parts of a rail shared
 	// with it; Repeated marks a supply met again round a loop of supplies
 	// (drawn in full where it first appears), InLoop where a loop is
@@ -121,6 +124,9 @@ func railJSON(s *Supply) *jsonSupply {
 			j.Efficiency = &e
 		}
 		j.Undetermined = unknowns(f.VoltageUnknown, f.CurrentUnknown)
+		if f.HasRegion {
+			j.Region = f.Region.String()
+		}
 	}
 	if s.Input != "" {
 		j.Input = &jsonInput{Rail: s.Input, Current: round(f.IIn), Power: round(f.PIn), Fed: !s.Unfed}

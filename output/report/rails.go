@@ -52,6 +52,8 @@ type Supply struct {
 	// unjudged, and said so.
 	Flow   rules.Flow
 	Judged bool
+	// Set is the part's value, the output it is set to hold.
+	Set float64
 	// Use is the worst use of its ratings, when HasUse.
 	Use    rules.Use
 	HasUse bool
@@ -171,7 +173,7 @@ func buildRails(d *circuit.Design, pt *rules.Point, uses [][]rules.Use) (roots [
 			flow.VOut, flow.IOut = 0-flow.VOut, 0-flow.IOut
 		}
 		n := &Supply{Name: d.NameOf(q), Kind: q.Kind, Rail: d.NetNameOf(&d.Nets[out]), Ref: d.NetNameOf(&d.Nets[ref]),
-			RefGround: sets.find(ref) == ground, Flow: flow, Judged: ok}
+			RefGround: sets.find(ref) == ground, Flow: flow, Judged: ok, Set: q.Value}
 		if w := rules.Worst(uses[id]); w >= 0 {
 			n.Use, n.HasUse = uses[id][w], true
 		}

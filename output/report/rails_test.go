@@ -332,3 +332,23 @@ func TestRailsRegulatorChain(t *testing.T) {
 		t.Errorf("no note on heat:\n%s", text)
 	}
 }
+
+// TestRailsDropout: a regulator whose input is below its set output plus
+// its dropout tracks its input, output = input − dropout (common
+// practice); the tree says it is in dropout and what it was set to, and
+// the JSON gives its region.
+func TestRailsDropout(t *testing.T) {
+	tab := tableOf(t, "ground gnd\nsource VB (vb, gnd) 3.4 V\nregulator U (in=vb, out=vo, common=gnd) 3.3 V dropout 250 mV\nload L (vo, gnd) 50 mA\n")
+	text, js := render(t, tab)
+	u := tab.Rails[0].Feeds[0]
+	if math.Abs(u.Flow.VOut-(3.4-0.25)) > 1e-9 || !strings.Contains(rails(text), "U (regulator) holds vo at 3.15 V (in dropout; set to 3.30 V)") {
+		t.Errorf("dropout: %g V\n%s", u.Flow.VOut, rails(text))
+	}
+	if !strings.Contains(js, `"region": "dropout"`) {
+		t.Errorf("JSON lacks the region:\n%s", js)
+	}
+	tab = tableOf(t, "ground gnd\nsource VB (vb, gnd) 5 V\nregulator U (in=vb, out=vo, common=gnd) 3.3 V dropout 250 mV\nload L (vo, gnd) 50 mA\n")
+	if text, js := render(t, tab); strings.Contains(rails(text), "dropout;") || !strings.Contains(js, `"region": "regulating"`) {
+		t.Errorf("regulating:\n%s", rails(text))
+	}
+}

@@ -11,6 +11,7 @@ import (
 
 	"nodal/output"
 	"nodal/rules"
+	"nodal/solve"
 	"nodal/units"
 )
 
@@ -90,6 +91,14 @@ func supplyHead(s *Supply) string {
 	}
 	if !s.RefGround {
 		h += " against " + output.TextSafe(s.Ref)
+	}
+	if s.Judged && s.Flow.HasRegion && s.Flow.Region != solve.Regulating {
+		// Out of regulation: its output is not the value it was set to.
+		state := "in dropout"
+		if s.Flow.Region == solve.Limiting {
+			state = "at its current limit"
+		}
+		h += " (" + state + "; set to " + units.Format(s.Set, units.Voltage) + ")"
 	}
 	if s.Loop {
 		return h + " (drawn above: these supplies feed each other in a loop)"
