@@ -141,9 +141,15 @@ func NewAMG(a *CSC, opt *AMGOptions) (*AMG, error) {
 		if budget >= 0 {
 			left, apLimit = budget-total, budget
 		}
-		ap, ok := mulCSCLimit(cur, lev.p, apLimit)
-		if ok {
-			cur, ok = mulCSCLimit(lev.pt, ap, left)
+		var ok bool
+		if o.Unsmoothed {
+			cur, ok = quotient(cur, lev.p, agg, left)
+		} else {
+			var ap *CSC
+			ap, ok = mulCSCLimit(cur, lev.p, apLimit)
+			if ok {
+				cur, ok = mulCSCLimit(lev.pt, ap, left)
+			}
 		}
 		if !ok {
 			return nil, &ComplexityExceeded{Level: len(m.levels), Max: o.MaxComplexity}

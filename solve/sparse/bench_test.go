@@ -160,3 +160,33 @@ func BenchmarkAMGCycleRandom(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkGalerkinPlain forms the first coarse matrix of a random weighted
+// Laplacian's plain-aggregation hierarchy in one pass over A (quotient),
+// and, as the baseline in the same run, as the two sparse products
+// P̂ᵀ·(A·P̂) (products).
+func BenchmarkGalerkinPlain(b *testing.B) {
+	a := randomLaplacian(300_000, 6, 3, 1)
+	diag := make([]float64, a.N)
+	for j := 0; j < a.M; j++ {
+		for p := a.P[j]; p < a.P[j+1]; p++ {
+			if int(a.I[p]) == j {
+				diag[j] += a.X[p]
+			}
+		}
+	}
+	agg, nagg := aggregate(a, diag, 0.08)
+	ph := tentativeProlongator(a.N, agg, nagg)
+	b.Run("quotient", func(b *testing.B) {
+		for b.Loop() {
+			quotient(a, ph, agg, -1)
+		}
+	})
+	b.Run("products", func(b *testing.B) {
+		for b.Loop() {
+			pt := ph.T()
+			ap, _ := mulCSCLimit(a, ph, -1)
+			mulCSCLimit(pt, ap, -1)
+		}
+	})
+}

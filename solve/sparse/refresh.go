@@ -39,6 +39,56 @@ func galerkinMap(a *CSC, agg []int32, ac *CSC) []int32 {
 	return g
 }
 
+// quotient returns the Galerkin product P̂ᵀ·A·P̂ of plain aggregation, the
+// quotient graph of A, in one pass over A: coarse column c sums, for each
+// fine column j of aggregate c (the column c of the tentative prolongator
+// ph lists them), each entry a_ij into row agg[i], gathered in a dense
+// work vector with a marker array as in Gustavson's product (ACM Trans.
+// Math. Softw. 4(3), 1978), of which it is the special case for a
+// prolongator of ones, without forming A·P̂. It gives up, returning nil and
+// false, once the product would hold more than limit entries (no limit
+// when limit < 0), as mulCSCLimit does.
+func quotient(a, ph *CSC, agg []int32, limit int) (*CSC, bool) {
+	nc := ph.M
+	c := &CSC{N: nc, M: nc, P: make([]int32, nc+1)}
+	capacity := a.Nnz()
+	if limit >= 0 {
+		capacity = min(capacity, limit)
+	}
+	c.I = make([]int32, 0, capacity)
+	c.X = make([]float64, 0, capacity)
+	mark := make([]int32, nc)
+	for i := range mark {
+		mark[i] = -1
+	}
+	w := make([]float64, nc)
+	for col := 0; col < nc; col++ {
+		start := len(c.I)
+		for t := ph.P[col]; t < ph.P[col+1]; t++ {
+			j := ph.I[t]
+			for q := a.P[j]; q < a.P[j+1]; q++ {
+				k := agg[a.I[q]]
+				if mark[k] != int32(col) {
+					mark[k] = int32(col)
+					c.I = append(c.I, k)
+					w[k] = a.X[q]
+				} else {
+					w[k] += a.X[q]
+				}
+			}
+		}
+		if limit >= 0 && len(c.I) > limit {
+			return nil, false
+		}
+		for q := start; q < len(c.I); q++ {
+			c.X = append(c.X, w[c.I[q]])
+		}
+		checkIndexRange(c.N, c.M, len(c.I))
+		c.P[col+1] = int32(len(c.I))
+	}
+	return c, true
+}
+
 // Refresh recomputes a plain-aggregation hierarchy (AMGOptions.Unsmoothed)
 // for new values of A on the pattern it was built for: the aggregates and
 // prolongators are kept, and each coarse matrix is the Galerkin product

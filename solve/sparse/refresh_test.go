@@ -40,11 +40,24 @@ func TestAMGRefreshMatchesDenseGalerkin(t *testing.T) {
 		if len(m.levels) < 3 {
 			t.Fatalf("seed %d: only %d levels", seed, len(m.levels))
 		}
+		// As built, and after a refresh for new values.
+		fine := denseOf(a)
+		for l := 0; l+1 < len(m.levels); l++ {
+			p := denseOf(m.levels[l].p)
+			var ap, want mat.Dense
+			ap.Mul(fine, p)
+			want.Mul(p.T(), &ap)
+			got := denseOf(m.levels[l+1].a)
+			if !mat.EqualApprox(got, &want, 1e-13*mat.Norm(&want, math.Inf(1))) {
+				t.Fatalf("seed %d, level %d as built differs from the dense Galerkin product", seed, l+1)
+			}
+			fine = got
+		}
 		b := rescaled(a, seed)
 		if err := m.Refresh(b); err != nil {
 			t.Fatal(err)
 		}
-		fine := denseOf(b)
+		fine = denseOf(b)
 		for l := 0; l+1 < len(m.levels); l++ {
 			p := denseOf(m.levels[l].p)
 			var ap, want mat.Dense
