@@ -47,6 +47,8 @@ type reportDoc struct {
 		// A battery's capacity (C) and runtime (s).
 		Capacity float64 `json:"capacity"`
 		Runtime  float64 `json:"runtime"`
+		// A port's drive range, bottom first.
+		DriveRange *[2]float64 `json:"drive_range"`
 	} `json:"parts"`
 	// The power tree.
 	Rails   []*reportSupply `json:"rails"`

@@ -192,6 +192,9 @@ type jsonPart struct {
 	// the design has no worst case.
 	WorstUse *float64 `json:"worst_use,omitempty"`
 	WorstAt  string   `json:"worst_at,omitempty"`
+	// DriveRange is a port's drive range [LOW, HIGH] (V or A), whose
+	// middle the operating point takes; omitted for other parts.
+	DriveRange *[2]float64 `json:"drive_range,omitempty"`
 }
 
 // key is a rating's name as a JSON key: "reverse voltage" → "reverse_voltage".
@@ -216,6 +219,9 @@ func (t *Table) WriteJSON(w io.Writer) error {
 		p := &t.Parts[i]
 		jp := jsonPart{Name: p.Name, Kind: p.Kind.String(), Voltage: round(p.Voltage), Current: round(p.Current),
 			Power: round(p.Power), Ratings: map[string]float64{}, Capacity: round(p.Capacity), Runtime: round(p.Runtime)}
+		if r := p.DriveRange; r != nil {
+			jp.DriveRange = &[2]float64{round(r[0]), round(r[1])}
+		}
 		if p.HasWorst {
 			u := round(p.WorstUse)
 			jp.WorstUse, jp.WorstAt = &u, p.WorstAt

@@ -89,6 +89,9 @@ type Part struct {
 	WorstUse float64
 	WorstAt  string
 	HasWorst bool
+	// DriveRange is the range of a port's drive written LOW to HIGH (V or
+	// A), whose middle the operating point takes; nil for other parts.
+	DriveRange *[2]float64
 }
 
 // Use returns the largest fraction of any rating, and false when the part
@@ -194,6 +197,9 @@ func NewAt(file string, d *circuit.Design, r *solve.Result, der rules.Derating, 
 			p.Runtime = p.Capacity / -qs.I // its current flows out of its first pin
 		}
 		p.Worst = rules.Worst(p.Ratings)
+		if r, ok := d.RangeOf(circuit.PartID(i)); ok {
+			p.DriveRange = &[2]float64{r.Low, r.High}
+		}
 		t.Parts[i], uses[i] = p, p.Ratings
 	}
 	t.Rails, t.OffRail = buildRails(d, pt, uses)
