@@ -326,3 +326,43 @@ func TestDriveRangeOrderFree(t *testing.T) {
 		}
 	}
 }
+
+// TestDriveRangeDropout: a regulator fed from a port driven over a range
+// is judged at the range's ends. In dropout a regulator's output is its
+// input less its dropout (the regulator model, common practice), and its
+// input is the drive V_L less the drop across R_s of the load current and
+// the quiescent current (Ohm's law), so the output is
+// (V_L − R_s·I_q − V_do)/(1 + R_s/R_L). With 4.5 V to 6 V behind 0.2 Ω, a
+// 1.5 V dropout and 3.3 V set, the middle (5.25 V) regulates and the bottom
+// falls into dropout, which the finding names; from 5 V to 6 V it
+// regulates throughout (near miss).
+func TestDriveRangeDropout(t *testing.T) {
+	const vl, rs, iq, vdo, rl = 4.5, 0.2, 50e-6, 1.5, 33.0
+	src := func(lo string) string {
+		return "ground gnd\nport vin " + lo + " to 6 V series 0.2 Ω\nregulator U1 (in=vin, out=v3, common=gnd) 3.3 V dropout 1.5 V quiescent 50 µA rated 500 mA, 2 W\nresistor RL (v3, gnd) 33 Ω rated 1 W\n"
+	}
+	res, err := Source("t.nodal", []byte(src("4.5 V")), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := fmt.Sprintf("falls to %.2f V", (vl-rs*iq-vdo)/(1+rs/rl))
+	found := false
+	for _, f := range res.Diags {
+		if f.Rule == "dropout" {
+			found = strings.Contains(f.Message, "port vin at 4.50 V (bottom of its range)") && strings.Contains(f.Message, want)
+			if !found {
+				t.Errorf("dropout: %q, want the bottom of the range named and %q", f.Message, want)
+			}
+		}
+	}
+	if !found {
+		t.Errorf("4.5 V to 6 V: findings %v, want dropout at the bottom of the range", driveRules(res))
+	}
+	res, err = Source("t.nodal", []byte(src("5 V")), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(res.Diags) > 0 {
+		t.Errorf("5 V to 6 V: findings %v, want none", driveRules(res))
+	}
+}
