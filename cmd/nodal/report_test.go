@@ -641,3 +641,25 @@ func TestReportRobust(t *testing.T) {
 		t.Errorf("panic: exit %d, stdout %q, stderr %q", code, out, errOut)
 	}
 }
+
+// The README's language tour shows the power tree that nodal report
+// prints for examples/valve_controller.nodal, as its golden file has it.
+func TestReadmeShowsPowerTree(t *testing.T) {
+	readme, err := os.ReadFile(filepath.Join("..", "..", "README.md"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	golden, err := os.ReadFile(filepath.Join("testdata", "report", "examples__valve_controller.nodal.txt"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	g := string(golden)
+	i := strings.Index(g, "\nRails:")
+	if i < 0 {
+		t.Fatal("the golden has no rails section")
+	}
+	tree, _, _ := strings.Cut(g[i+1:], "\n\n")
+	if !strings.Contains(string(readme), "$ nodal report examples/valve_controller.nodal\n...\n"+tree+"\n```") {
+		t.Error("README.md does not show the power tree of examples/valve_controller.nodal as testdata/report has it")
+	}
+}
