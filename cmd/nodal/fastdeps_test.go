@@ -282,3 +282,42 @@ func BenchmarkScanTree(b *testing.B) {
 		}
 	}
 }
+
+// The walk of a hostile work tree: a pipe named like a design is not
+// opened to wait on, and a design that is a link to a file outside (whose
+// text would include the library) or sits behind a link to an outside
+// folder is not read, so it is no includer, as git's listings with the
+// confined reader have it too.
+func TestFastDependentsHostileTree(t *testing.T) {
+	dir := libRepo(t)
+	outside := t.TempDir()
+	write(t, filepath.Join(outside, "evil.nodal"), "include \"../lib/loads.nodal\"\n")
+	write(t, filepath.Join(outside, "folder", "x.nodal"), "include \"../../lib/loads.nodal\"\n")
+	symlink(t, filepath.Join(outside, "evil.nodal"), filepath.Join(dir, "boards", "evil.nodal"))
+	symlink(t, filepath.Join(outside, "folder"), filepath.Join(dir, "boards", "ext"))
+	git(t, dir, "add", ".")
+	git(t, dir, "commit", "-qm", "links")
+	fifo(t, filepath.Join(dir, "boards", "pipe.nodal"))
+	t.Chdir(dir)
+	lay, ok, _ := fastRoot()
+	if !ok {
+		t.Fatal("no layout")
+	}
+	names := []string{filepath.Join(dir, "lib", "loads.nodal")}
+	got, ok := fastDependents(lay, changed{}, names)
+	want, err := listedDependents(lay.root, changed{}, names)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !ok || !slices.Equal(got, want) {
+		t.Fatalf("fast %v (answered %v), git %v", got, ok, want)
+	}
+	for _, d := range got {
+		if strings.Contains(d, "evil") || strings.Contains(d, "ext") || strings.Contains(d, "pipe") {
+			t.Errorf("%s counted as an includer", d)
+		}
+	}
+	if len(got) != 3 {
+		t.Errorf("dependents %v, want direct.nodal, top.nodal and middle.nodal", got)
+	}
+}
