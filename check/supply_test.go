@@ -131,3 +131,72 @@ resistor RL (v5, gnd) 10 Ω rated 2.55 W
 		}
 	}
 }
+
+// TestRegulatorStatements: a three-pin part binds its pins by position or
+// by name, in any order, inside blocks as at the top level; a wrong count
+// or name is a pin-count error that lists the kind's three pins.
+func TestRegulatorStatements(t *testing.T) {
+	for _, c := range []struct{ line, rule, says string }{
+		{"regulator U1 (vin, vout, gnd) 3.3 V dropout 300 mV", "", ""},
+		{"regulator U1 (common=gnd, out=vout, in=vin) 3.3 V dropout 300 mV", "", ""},
+		{"regulator U1 (vin, vout) 3.3 V dropout 300 mV", "pin-count", "has 2 pins; a regulator has three: (in, out, common)"},
+		{"regulator U1 (in=vin, out=vout, ref=gnd) 3.3 V dropout 300 mV", "pin-count", "its pins are in, out and common"},
+		{"regulator U1 (in=vin, vout, gnd) 3.3 V dropout 300 mV", "pin-count", "name all three (in=…, out=…, common=…) or none"},
+		{"converter U1 (vin, vout, gnd) 3.3 V efficiency 90% input 2 V to 1 V", "bad-value", "runs downwards"},
+	} {
+		src := "ground gnd\nsource VIN (vin, gnd) 5 V\n" + c.line + "\nresistor RL (vout, gnd) 33 Ω\n"
+		res, err := Source("t.nodal", []byte(src), nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var got []string
+		for _, dg := range res.Diags {
+			got = append(got, dg.Rule)
+			if dg.Rule == c.rule && !strings.Contains(dg.Message, c.says) {
+				t.Errorf("%s: %s", c.line, dg.Message)
+			}
+		}
+		if c.rule == "" && len(got) > 0 || c.rule != "" && (len(got) == 0 || got[0] != c.rule) {
+			t.Errorf("%s: findings %v, want %q", c.line, got, c.rule)
+		}
+		if c.rule == "" {
+			d := res.Build.Design
+			u := &d.Parts[partIndex(t, d, "U1")]
+			if d.NetName(u.Pins[0]) != "vin" || d.NetName(u.Pins[1]) != "vout" || d.NetName(u.Pins[2]) != "gnd" {
+				t.Errorf("%s: pins %v", c.line, u.Nets())
+			}
+		}
+	}
+	// In a block, expanded twice: each instance's regulator holds its own
+	// output (Ohm's law gives the load current, the energy balance the
+	// dissipation: (5 − 3.3)·0.1 + 5·0.001 W).
+	src := `ground gnd
+block ldo (vin, vout) [vset = 3.3 V] {
+  regulator U (vin, vout, gnd) vset dropout 300 mV quiescent 1 mA
+}
+source VIN (vin, gnd) 5 V
+ldo A (vin, va) [vset = 3.3 V]
+ldo B (vin, vb) [vset = 2.5 V]
+resistor RA (va, gnd) 33 Ω
+resistor RB (vb, gnd) 25 Ω
+`
+	res, err := Source("t.nodal", []byte(src), nil)
+	if err != nil || res.Solved == nil || res.Solved.OP == nil || len(res.Diags) > 0 {
+		t.Fatalf("%v %v", err, res.Diags)
+	}
+	d, r := res.Build.Design, res.Solved.OP
+	for name, want := range map[string][2]float64{"A.U": {3.3, (5-3.3)*0.1 + 5*0.001}, "B.U": {2.5, (5-2.5)*0.1 + 5*0.001}} {
+		var id int = -1
+		for i := range d.Parts {
+			if d.PartName(circuit.PartID(i)) == name {
+				id = i
+			}
+		}
+		if id < 0 {
+			t.Fatalf("no part %s", name)
+		}
+		if rel(r.V[id], want[0]) > 1e-9 || rel(r.P[id], want[1]) > 1e-9 {
+			t.Errorf("%s: %.12g V, dissipates %.12g W; want %g V, %.12g W", name, r.V[id], r.P[id], want[0], want[1])
+		}
+	}
+}
