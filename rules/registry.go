@@ -11,7 +11,7 @@ var All = []*Analyzer{
 	MissingParam, ParamUnit, ExpansionLimit, BadInclude,
 	FloatingNet, NoDCPath, SourceLoop, CurrentCutset, ShortedPart, CaseClash,
 	AcceptReason, StaleAccept, BadAccept,
-	SolveFailed, NoConvergence, StarvedLoad, Dropout, CurrentLimit, InputRange, IllConditioned,
+	SolveFailed, NoConvergence, StarvedLoad, Dropout, CurrentLimit, InputRange, Backfed, IllConditioned,
 	OverPower, OverCurrent, OverVoltage, ReverseVoltage, OverTemperature, CornerOverRating, NearRating, CornersNotJudged, UnratedParts,
 }
 

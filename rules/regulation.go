@@ -19,11 +19,11 @@ import (
 // which nominal returns a message at the operating point, or, when it
 // returns none there, corner does at the corners of the box of tolerances
 // and temperature (when every corner was solved: worst.Result.Supplies).
-func supplyRule(name, doc string, nominal func(d *circuit.Design, q *circuit.Part, s Flow, g solve.Region) string,
+func supplyRule(name string, sev diag.Severity, doc string, nominal func(d *circuit.Design, q *circuit.Part, s Flow, g solve.Region) string,
 	corner func(d *circuit.Design, q *circuit.Part, sr *worst.SupplyRange, where func(worst.Corner) string) string) *Analyzer {
 	return &Analyzer{
 		Name:     name,
-		Severity: diag.Error,
+		Severity: sev,
 		Requires: []*Analyzer{Solve, WorstCase},
 		Doc:      doc,
 		Run: func(p *Pass) (any, error) {
@@ -69,7 +69,7 @@ func fmtA(v float64) string { return units.Format(v, units.Current) }
 
 // Dropout reports linear regulators whose input is too low to hold their
 // output.
-var Dropout = supplyRule("dropout", `a regulator's input is too low to hold its output
+var Dropout = supplyRule("dropout", diag.Error, `a regulator's input is too low to hold its output
 A linear regulator holds its output at its set voltage only while its
 input is at least its dropout voltage above the output (common practice,
 from its datasheet). Below that its output tracks the input, less the
@@ -92,7 +92,7 @@ them is reported with that corner.`, func(d *circuit.Design, q *circuit.Part, s 
 })
 
 // CurrentLimit reports linear regulators held at their current limit.
-var CurrentLimit = supplyRule("current-limit", `a regulator is held at its current limit
+var CurrentLimit = supplyRule("current-limit", diag.Error, `a regulator is held at its current limit
 A linear regulator given a limit (limit 1.5 A) delivers at most that
 current: a load that asks for more pulls its output below its set
 voltage, and the regulator runs at the limit, hot. The finding gives the
@@ -113,7 +113,7 @@ the tolerances and ambient range where it happens.`, func(d *circuit.Design, q *
 
 // InputRange reports converters whose input lies outside their input
 // range.
-var InputRange = supplyRule("input-range", `a converter's input is outside its input range
+var InputRange = supplyRule("input-range", diag.Error, `a converter's input is outside its input range
 A switching converter regulates only over the input range its datasheet
 gives (input 6 V to 28 V). nodal models it as still holding its set
 output, so the operating point downstream is what the design intends, not
@@ -150,4 +150,27 @@ the input leaves it.`, func(d *circuit.Design, q *circuit.Part, s Flow, _ solve.
 			q.Kind, d.NameOf(q), fmtV(sr.InHigh), where(sr.HighAt), fmtV(c.InLow), fmtV(c.InHigh))
 	}
 	return ""
+})
+
+// Backfed reports linear regulators whose output the rest of the circuit
+// holds above their set voltage.
+var Backfed = supplyRule("back-fed", diag.Warning, `a regulator's output is held above its set voltage
+A linear regulator only sources current. Where the rest of the circuit
+holds its output above its set voltage (another supply on the same rail,
+a pull-up to a higher rail) it delivers nothing, and nodal solves it so:
+no current through it, only its quiescent current from its input. The
+finding gives the output and the set voltage. A regulator whose output
+is pulled above its input can be damaged by the reverse current; check
+its datasheet.`, func(d *circuit.Design, q *circuit.Part, s Flow, g solve.Region) string {
+	if g != solve.Backfed {
+		return ""
+	}
+	return fmt.Sprintf("%s %s is back-fed: the rest of the circuit holds its output at %s, above its %s set voltage, so it delivers nothing",
+		q.Kind, d.NameOf(q), fmtV(s.VOut), fmtV(q.Value))
+}, func(d *circuit.Design, q *circuit.Part, sr *worst.SupplyRange, where func(worst.Corner) string) string {
+	if sr.Region != solve.Backfed {
+		return ""
+	}
+	return fmt.Sprintf("%s %s is back-fed with %s: the rest of the circuit holds its output at %s, above its set voltage, so it delivers nothing",
+		q.Kind, d.NameOf(q), where(sr.Out), fmtV(sr.OutOut))
 })

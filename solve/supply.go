@@ -29,6 +29,11 @@ const (
 	// Limiting: the output current is held at the limit, the output
 	// below the set voltage.
 	Limiting
+	// Backfed: the rest of the circuit holds the output above the set
+	// voltage, or would have it sink current; a linear regulator only
+	// sources current, so it delivers none and its output is what the
+	// circuit makes it.
+	Backfed
 )
 
 func (g Region) String() string {
@@ -37,6 +42,8 @@ func (g Region) String() string {
 		return "dropout"
 	case Limiting:
 		return "current limit"
+	case Backfed:
+		return "back-fed"
 	}
 	return "regulating"
 }
@@ -129,6 +136,9 @@ func hasMulti(d *circuit.Design) bool {
 //     tracks the input), and the quiescent current from in to common;
 //   - in current limit: the limit current from in to out, and the
 //     quiescent current from in to common;
+//   - back-fed (the circuit would have its output sink current, or holds
+//     it above the set voltage; a linear regulator only sources): no
+//     current from in to out, and the quiescent current from in to common;
 //   - a converter: the set voltage from out to common, a constant-power
 //     load from in to common drawing the output power divided by the
 //     efficiency, and the quiescent current from in to common, so that
@@ -141,11 +151,12 @@ func hasMulti(d *circuit.Design) bool {
 // once. Around that, a state
 // iteration over the regions: after the draws settle, a regulator whose
 // region does not hold at the solution (regulating with less than the
-// dropout across it, past its limit; tracking its input above its set
-// voltage; limiting above its set voltage or into dropout) moves to the
+// dropout across it, past its limit, or sinking current; tracking its
+// input above its set voltage; limiting above its set voltage or into
+// dropout; back-fed with its output below its set voltage) moves to the
 // region that does, and the design is solved again. It terminates: an
 // assignment of regions is never tried twice (a repeat is reported as no
-// convergence) and there are finitely many, 3 to the number of
+// convergence) and there are finitely many, 4 to the number of
 // regulators; maxRegionTurns bounds the turns taken. A converter has one
 // region: outside its input range it is modelled as still regulating, and
 // the rules say that it does not.
@@ -225,7 +236,7 @@ func solveMulti(d *circuit.Design, opt *Options) (*Result, error) {
 		}
 		if key := s.regions(); tried[key] || turn >= maxRegionTurns {
 			return nil, &Error{Kind: NoConvergence, Parts: s.parts(),
-				Msg: fmt.Sprintf("the regions of %s (regulating, dropout, current limit) did not settle: %s came round again", s.names(), s.describeRegions())}
+				Msg: fmt.Sprintf("the regions of %s (regulating, dropout, current limit, back-fed) did not settle: %s came round again", s.names(), s.describeRegions())}
 		}
 	}
 }
@@ -340,6 +351,9 @@ func (s *multiSolve) standIns() *circuit.Design {
 		case st.region == Limiting:
 			sd.Parts[st.part] = mk(circuit.CurrentSource, in, out, p.Conv.Limit)
 			add(mk(circuit.CurrentSource, in, com, iq), in, com)
+		case st.region == Backfed:
+			sd.Parts[st.part] = mk(circuit.CurrentSource, in, out, 0)
+			add(mk(circuit.CurrentSource, in, com, iq), in, com)
 		default:
 			sd.Parts[st.part] = mk(circuit.VoltageSource, out, com, p.Value)
 			add(mk(circuit.CurrentSource, in, com, st.draw), in, com)
@@ -353,7 +367,7 @@ func (s *multiSolve) standIns() *circuit.Design {
 func (s *multiSolve) mainPins(st *supplyState) [2]int {
 	sp := s.d.Parts[st.part].Kind.Info().Supply
 	if st.conv == circuit.Linear && st.region != Regulating {
-		return [2]int{sp.In, sp.Out}
+		return [2]int{sp.In, sp.Out} // dropout, limit, back-fed: in to out
 	}
 	return [2]int{sp.Out, sp.OutRef}
 }
@@ -488,6 +502,8 @@ func (s *multiSolve) next(rs *Result) []float64 {
 		switch {
 		case st.conv == circuit.Linear && st.region == Limiting:
 			st.iout = p.Conv.Limit
+		case st.conv == circuit.Linear && st.region == Backfed:
+			st.iout = 0
 		case st.conv == circuit.Linear && st.region == InDropout:
 			st.iout = rs.I[i] // in → out through the stand-in
 		default:
@@ -525,6 +541,8 @@ func (s *multiSolve) judgeRegions(rs *Result) bool {
 		set := vout - vcom
 		lim := p.Conv.Limit
 		over := lim > 0 && st.iout > lim*(1+1e-9)
+		// Sinking: current into the output, past rounding.
+		sinking := st.iout < -(1e-9*(math.Abs(st.draw)+lim) + 1e-15)
 		next := st.region
 		switch st.region {
 		case Regulating:
@@ -533,6 +551,8 @@ func (s *multiSolve) judgeRegions(rs *Result) bool {
 				next = InDropout
 			case over:
 				next = Limiting
+			case sinking:
+				next = Backfed
 			}
 		case InDropout:
 			switch {
@@ -540,6 +560,12 @@ func (s *multiSolve) judgeRegions(rs *Result) bool {
 				next = Regulating
 			case over:
 				next = Limiting
+			case sinking:
+				next = Backfed
+			}
+		case Backfed:
+			if set < p.Value-tol {
+				next = Regulating
 			}
 		case Limiting:
 			switch {

@@ -321,3 +321,44 @@ func TestRegulatorsInParallel(t *testing.T) {
 		t.Fatalf("got %v", err)
 	}
 }
+
+// TestRegulatorBackfed: a linear regulator only sources current (common
+// practice). Pulled up through Rp from Vs into a load Rl, its output is
+// the divider's Vs·Rl/(Rp + Rl) where that is above its set voltage, and
+// it delivers nothing; below, it holds the set voltage and sources the
+// rest of the load's current. The output is continuous where the divider
+// meets the set voltage.
+func TestRegulatorBackfed(t *testing.T) {
+	const vs, rl, vset = 5.0, 100.0, 3.3
+	solveWith := func(rp float64) (float64, float64, Region) {
+		b := newBuilder()
+		b.v("vin", "gnd", vs)
+		u := b.reg("U1", "vin", "vout", "gnd", vset, 0.3, 1e-3, 0)
+		b.r("vin", "vout", rp)
+		b.r("vout", "gnd", rl)
+		r := b.solve(t, nil)
+		return r.NetV[b.net("vout")], figures(t, b, r, u).iout, r.MultiAt(u).Region
+	}
+	for _, rp := range []float64{10, 22, 47, 51.5151, 60, 100, 1000} {
+		out, iout, region := solveWith(rp)
+		div := vs * rl / (rp + rl)
+		switch {
+		case div > vset:
+			if region != Backfed || !near(out, div, 1e-9) || iout != 0 {
+				t.Errorf("Rp %g Ω: %v at %.12g V delivering %g A, want back-fed at %.12g V", rp, region, out, iout, div)
+			}
+		default:
+			want := vset/rl - (vs-vset)/rp
+			if region != Regulating || !near(out, vset, 1e-9) || !near(iout, want, 1e-9) {
+				t.Errorf("Rp %g Ω: %v at %.12g V delivering %.12g A, want %g V, %.12g A", rp, region, out, iout, vset, want)
+			}
+		}
+	}
+	// The divider meets 3.3 V at Rp = Rl·(Vs − Vset)/Vset.
+	edge := rl * (vs - vset) / vset
+	below, _, _ := solveWith(edge * (1 - 1e-6))
+	above, _, _ := solveWith(edge * (1 + 1e-6))
+	if math.Abs(below-above) > 1e-5 {
+		t.Errorf("output jumps from %.9g V to %.9g V across the edge", below, above)
+	}
+}
