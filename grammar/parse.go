@@ -63,8 +63,10 @@ type File struct {
 	Comments []Comment
 	Errors   []*SyntaxError
 
-	plain []plainChunk // ParsePlain's plain part lines, in order (plain.go)
-	src   string       // the text the plain lines' offsets point into
+	plain      []plainChunk // ParsePlain's plain part lines, in order (plain.go)
+	plainFirst []int        // the index of each chunk's first line
+	plainN     int
+	src        string // the text the plain lines' offsets point into
 }
 
 // Comment is a comment with its position, kept for suppression comments.
@@ -170,7 +172,7 @@ func parseRange(f *File, src string, from, to, line int, last bool, m mode) {
 		}
 		switch {
 		case len(toks) == first:
-		case m == modePlain && readPlain(&ch, toks[first:], line, off):
+		case m == modePlain && ch.room(&f.plain) && readPlain(&ch, toks[first:], line, off):
 			toks = toks[:first]
 		case m != modeReference:
 			eol := lexer.Position{Offset: end, Line: line, Column: end - off + 1}

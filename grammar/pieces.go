@@ -26,9 +26,12 @@ func parse(name, src string, m mode) *File {
 	if n <= 1 {
 		f := &File{Name: name, src: src}
 		parseRange(f, src, 0, len(src), 1, true, m)
+		f.indexPlain()
 		return f
 	}
-	return parsePieces(name, src, cuts(src, n), m)
+	f := parsePieces(name, src, cuts(src, n), m)
+	f.indexPlain()
+	return f
 }
 
 // cuts returns where the n pieces of src start, each at the start of a

@@ -25,6 +25,8 @@ package grammar
 // no switch states, no "at" or "to", no lists of values.
 
 import (
+	"sort"
+
 	"github.com/alecthomas/participle/v2/lexer"
 )
 
@@ -68,29 +70,59 @@ type plainChunk struct {
 	attrs []plainAttr
 }
 
+// A chunk holds up to maxChunk lines; the first of a piece holds
+// firstChunk, and each next one twice as many as the one before. A slice
+// of records grown by append would be copied at every quarter of its
+// growth, allocating about five times what it ends up holding.
+const (
+	firstChunk = 256
+	maxChunk   = 1 << 16
+)
+
+// room makes sure ch has room for one more line: when it is full it is
+// added to chunks and ch starts afresh, larger. It always reports true,
+// to be used in a condition before readPlain.
+func (ch *plainChunk) room(chunks *[]plainChunk) bool {
+	if len(ch.lines) < cap(ch.lines) {
+		return true
+	}
+	n := firstChunk
+	if len(ch.lines) > 0 {
+		*chunks = append(*chunks, *ch)
+		n = min(2*len(ch.lines), maxChunk)
+	}
+	*ch = plainChunk{lines: make([]plainLine, 0, n), attrs: make([]plainAttr, 0, n)}
+	return true
+}
+
+// indexPlain records where each chunk's lines start, once they are all
+// read.
+func (f *File) indexPlain() {
+	if len(f.plain) == 0 {
+		return
+	}
+	f.plainFirst, f.plainN = make([]int, len(f.plain)), 0
+	for c := range f.plain {
+		f.plainFirst[c] = f.plainN
+		f.plainN += len(f.plain[c].lines)
+	}
+}
+
 // maxPlainAttrs bounds the attributes of a line kept as a plain record.
 const maxPlainAttrs = 255
 
 // PlainLines returns how many lines of f are kept as plain records rather
 // than in Stmts. Only ParsePlain keeps any.
-func (f *File) PlainLines() int {
-	n := 0
-	for i := range f.plain {
-		n += len(f.plain[i].lines)
-	}
-	return n
-}
+func (f *File) PlainLines() int { return f.plainN }
 
 // plainAt returns plain line i and the chunk that holds it.
 func (f *File) plainAt(i int) (*plainLine, *plainChunk) {
-	for c := range f.plain {
-		ch := &f.plain[c]
-		if i < len(ch.lines) {
-			return &ch.lines[i], ch
-		}
-		i -= len(ch.lines)
+	if i < 0 || i >= f.plainN {
+		panic("grammar: plain line index out of range")
 	}
-	panic("grammar: plain line index out of range")
+	c := sort.SearchInts(f.plainFirst, i+1) - 1 // the last chunk starting at or before i
+	ch := &f.plain[c]
+	return &ch.lines[i-f.plainFirst[c]], ch
 }
 
 // PlainSpan returns where plain line i starts (its kind word) and ends

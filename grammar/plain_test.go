@@ -126,6 +126,9 @@ func TestPlainMatchesGrammarOnGenerated(t *testing.T) {
 	if plain := samePlain(t, "mesh", b.Bytes()); plain < lines-2 {
 		t.Errorf("mesh: %d of %d lines read as plain lines", plain, lines)
 	}
+	if f := ParsePlain("mesh", b.Bytes()); len(f.plain) < 3 {
+		t.Errorf("mesh: %d plain lines in %d chunks; the test is meant to cross chunks", f.PlainLines(), len(f.plain))
+	}
 	for seed := uint64(1); seed <= 4; seed++ {
 		b.Reset()
 		(&gen.Random{Parts: 3000, Seed: seed}).Write(&b)
@@ -193,6 +196,7 @@ func TestPiecesMatchWhole(t *testing.T) {
 	for _, m := range []mode{modeFast, modePlain} {
 		whole := &File{Name: "x", src: src}
 		parseRange(whole, src, 0, len(src), 1, true, m)
+		whole.indexPlain()
 		if m == modeFast && !reflect.DeepEqual(whole, Parse("x", []byte(src))) {
 			t.Fatal("parseRange over the whole file is not Parse")
 		}
@@ -206,6 +210,7 @@ func TestPiecesMatchWhole(t *testing.T) {
 					starts = starts[:2]
 				}
 				got := parsePieces("x", src, starts, m)
+				got.indexPlain()
 				if m == modeFast {
 					if !reflect.DeepEqual(got, whole) {
 						t.Fatalf("mode %d, cut at %v: the pieces differ from the whole file", m, starts)
