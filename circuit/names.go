@@ -365,3 +365,33 @@ func (d *Design) ShownPath(i int32) string {
 	}
 	return "…" + string(buf)
 }
+
+// NameBytes returns the bytes of the names of every part and net with
+// their instance paths: what a listing of them all holds (a report
+// table, say), counted without building any name.
+func (d *Design) NameBytes() int64 {
+	path := make([]int64, len(d.Instances)) // each instance's path and a dot
+	for i := range d.Instances {
+		in := &d.Instances[i]
+		path[i] = int64(len(in.Local)) + 1
+		if in.Parent >= 0 && int(in.Parent) < i {
+			path[i] += path[in.Parent]
+		}
+	}
+	var n int64
+	for i := range d.Parts {
+		p := &d.Parts[i]
+		n += int64(len(p.Local))
+		if p.Inst >= 0 && int(p.Inst) < len(path) {
+			n += path[p.Inst]
+		}
+	}
+	for i := range d.Nets {
+		net := &d.Nets[i]
+		n += int64(len(net.Local))
+		if net.Inst >= 0 && int(net.Inst) < len(path) {
+			n += path[net.Inst]
+		}
+	}
+	return n
+}

@@ -80,6 +80,16 @@ func TestNamesMatchJoinedPaths(t *testing.T) {
 		if got := d.PartName(PartID(len(d.Parts) - 1)); got != "top" {
 			t.Fatalf("a part at the top level is named %q", got)
 		}
+		var total int64
+		for i := range d.Parts {
+			total += int64(len(d.PartName(PartID(i))))
+		}
+		for i := range d.Nets {
+			total += int64(len(d.NetName(NetID(i))))
+		}
+		if got := d.NameBytes(); got != total {
+			t.Fatalf("seed %d: NameBytes() = %d, want %d", seed, got, total)
+		}
 	}
 }
 

@@ -276,7 +276,9 @@ func checkInTree(t *gitTree, loader *configLoader, p string, lim limits) (side *
 	for i := range side.Findings {
 		side.Findings[i].Design = p
 	}
-	if s := res.Solved; s != nil && s.OP != nil && res.Build != nil && res.Build.Design != nil {
+	if s := res.Solved; s != nil && s.OP != nil && res.Build != nil && res.Build.Design != nil && res.Build.Design.NameBytes() > maxListedNames {
+		side.NoOP = tooManyNames(res.Build.Design.NameBytes())
+	} else if s != nil && s.OP != nil && res.Build != nil && res.Build.Design != nil {
 		side.Table = report.NewAt(p, res.Build.Design, s.OP, rc.Derating, s.Ambient)
 		side.WorstUse, side.NetRange = worstOf(res)
 	} else {

@@ -359,3 +359,43 @@ func TestReportForgedNames(t *testing.T) {
 	}
 	checkSafe(t, "report", out, errOut)
 }
+
+// deepNames is a design of depth levels of blocks, each holding one
+// instance named with nameLen bytes, a leaf of leaf parts and top
+// instances of the outermost level, also long-named: every part's name
+// carries the whole chain of long names.
+func deepNames(depth, nameLen, leaf, top int) string {
+	var b strings.Builder
+	b.WriteString("block l0 (p, q) {\n")
+	for i := 0; i < leaf; i++ {
+		fmt.Fprintf(&b, "  resistor R%d (p, q) 1 kΩ\n", i)
+	}
+	b.WriteString("}\n")
+	for lv := 1; lv <= depth; lv++ {
+		fmt.Fprintf(&b, "block l%d (p, q) {\n  l%d N%d%s (p, m)\n  resistor RM (m, q) 1 kΩ\n}\n", lv, lv-1, lv, strings.Repeat("x", nameLen))
+	}
+	b.WriteString("block w (p, q) {\n")
+	for i := 0; i < top; i++ {
+		fmt.Fprintf(&b, "  l%d T%d%s (p, q)\n", depth, i, strings.Repeat("x", nameLen))
+	}
+	b.WriteString("}\nground gnd\nsource V (a, gnd) 1 V\nresistor RA (a, gnd) 1 kΩ\nw W (a, gnd)\n")
+	return b.String()
+}
+
+// The deep design of long names is checked (the model keeps each name
+// once), but nodal report, which lists every part by its whole path,
+// would list 3.7 GiB of names: it refuses, naming the limit, before
+// building any, and so does nodal diff for that side.
+func TestReportDeepNamesRefused(t *testing.T) {
+	dir := t.TempDir()
+	write(t, filepath.Join(dir, ".git", "HEAD"), "")
+	write(t, filepath.Join(dir, "deep.nodal"), deepNames(60, 4000, 100, 100))
+	t.Chdir(dir)
+	if code, out, errOut := runCLI(t, "", "check", "deep.nodal"); code != 0 {
+		t.Fatalf("check: exit %d\n%s\n%.2000s", code, out, errOut)
+	}
+	code, out, errOut := runCLI(t, "", "report", "deep.nodal")
+	if code != 2 || out != "" || !strings.Contains(errOut, "over the limit of 256 MiB") || len(errOut) > 1000 {
+		t.Errorf("report: exit %d, %d bytes out, stderr %.1000q", code, len(out), errOut)
+	}
+}

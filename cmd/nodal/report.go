@@ -168,6 +168,10 @@ func cmdReport(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		return 1
 	}
 
+	if n := res.Build.Design.NameBytes(); n > maxListedNames {
+		fmt.Fprintf(stderr, "nodal: %s: %s; \"nodal check %s\" checks the design\n", output.TextSafe(name), tooManyNames(n), output.TextSafe(path))
+		return 2
+	}
 	t := report.NewAt(name, res.Build.Design, res.Solved.OP, rc.Derating, res.Solved.Ambient)
 	if res.Worst != nil {
 		t.AddWorst(res.Build.Design, res.Worst.R, rc.Derating)
@@ -232,4 +236,15 @@ func count(l diag.List) (errs, warns int) {
 		}
 	}
 	return
+}
+
+// maxListedNames bounds the names a report table lists (every part and
+// net, instance paths included), for nodal report and nodal diff: deep
+// blocks with long names make paths of up to depth × name length bytes,
+// which the check itself never builds all at once.
+const maxListedNames = 256 << 20
+
+// tooManyNames says why a design's table is not made.
+func tooManyNames(n int64) string {
+	return fmt.Sprintf("its table would list %.1f MiB of part and net names, instance paths included, over the limit of %d MiB (nest fewer levels or use shorter names)", float64(n)/(1<<20), maxListedNames>>20)
 }
