@@ -427,7 +427,12 @@ var kinds = [numKinds]KindInfo{
 	Converter: {Word: "converter", Pins: supplyPins, Roles: supplyRoles, Ends: [2]uint8{1, 2},
 		Value: units.Voltage, ValueHint: ": its set output voltage in V",
 		Attrs: []string{"tol", "efficiency", "input", "quiescent"},
-		Needs: []Need{{"efficiency", "needs its efficiency at the load from its datasheet, e.g. efficiency 90%"}},
+		// Without its input range whether it regulates could not be
+		// judged: the range is asked for, not assumed.
+		Needs: []Need{
+			{"efficiency", "needs its efficiency at the load from its datasheet, e.g. efficiency 90%"},
+			{"input", "needs its input range from its datasheet, e.g. input 6 V to 28 V"},
+		},
 		Ratings: []Rating{
 			derated(outputCurrent, "converter-current", 0.80),
 			{Dim: units.Power, What: "power", Says: "dissipates %s"},

@@ -261,7 +261,7 @@ func TestRailsEscaped(t *testing.T) {
 const regulatorChain = `ground gnd
 source    VS   (vs, gnd) 12 V rated 2 A
 fuse      F1   (vs, vf) 1 A dcr 100 mΩ
-converter BUCK (in=vf, out=v5, common=gnd) 5 V efficiency 90% quiescent 1 mA rated 1 A
+converter BUCK (in=vf, out=v5, common=gnd) 5 V efficiency 90% input 6 V to 28 V quiescent 1 mA rated 1 A
 load      HOT  (v5, gnd) 200 mA
 regulator LA   (in=v5, out=v33, common=gnd) 3.3 V dropout 300 mV quiescent 50 µA rated 500 mA
 load      MCU  (v33, gnd) 100 mA

@@ -39,7 +39,7 @@ var forms = map[circuit.Kind][]string{
 	// Three-pin kinds: input from the supply, the two %s their output
 	// and common (harnesses).
 	circuit.Regulator: {"regulator X (top, %s, %s) 4 V dropout 300 mV quiescent 1 mA"},
-	circuit.Converter: {"converter X (top, %s, %s) 4 V efficiency 80%% quiescent 1 mA"},
+	circuit.Converter: {"converter X (top, %s, %s) 4 V efficiency 80%% input 1 V to 20 V quiescent 1 mA"},
 }
 
 // harnesses holds the harness of a kind that needs another: a supply-like
