@@ -87,8 +87,8 @@ them is reported with that corner.`, func(d *circuit.Design, q *circuit.Part, s 
 	if sr.Region != solve.InDropout {
 		return ""
 	}
-	return fmt.Sprintf("%s %s falls into dropout with %s: its input is %s above common, less than its dropout (%s) above its set output, so its output falls to %s",
-		q.Kind, d.NameOf(q), where(sr.Out), fmtV(sr.OutIn), fmtV(q.Conv.Dropout), fmtV(sr.OutOut))
+	return fmt.Sprintf("%s %s falls into dropout with %s: its input is %s above common, it needs %s (%s set + %s dropout), so its output falls to %s",
+		q.Kind, d.NameOf(q), where(sr.Out), fmtV(sr.OutIn), fmtV(sr.OutSet+q.Conv.Dropout), fmtV(sr.OutSet), fmtV(q.Conv.Dropout), fmtV(sr.OutOut))
 })
 
 // CurrentLimit reports linear regulators held at their current limit.

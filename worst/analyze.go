@@ -109,10 +109,11 @@ type SupplyRange struct {
 	InLow, InHigh float64
 	LowAt, HighAt Corner
 	// Region is Regulating when it regulates at every corner; otherwise
-	// its region at Out, with its input and output voltages there.
-	Region        solve.Region
-	Out           Corner
-	OutIn, OutOut float64
+	// its region at Out, with its input and output voltages and its set
+	// voltage (moved by its tolerance) there.
+	Region                solve.Region
+	Out                   Corner
+	OutIn, OutOut, OutSet float64
 }
 
 // Skipped says why a design's worst case was not judged.
@@ -454,6 +455,12 @@ func (a *analysis) recordSupplies(r *solve.Result, c Corner) {
 		if mp.Region != solve.Regulating && sr.Region == solve.Regulating {
 			sr.Region, sr.Out = mp.Region, at
 			sr.OutIn, sr.OutOut = vin, r.NetV[p.Pins[sp.Out]]-r.NetV[p.Pins[sp.OutRef]]
+			sr.OutSet = p.Value
+			for j, pm := range a.res.Params {
+				if pm.Part == mp.Part {
+					sr.OutSet = pm.valueAt(p.Value, c.S[j])
+				}
+			}
 		}
 	}
 }
