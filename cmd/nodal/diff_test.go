@@ -351,3 +351,18 @@ func TestDiffRename(t *testing.T) {
 		t.Errorf("findings %+v; want the floating net unchanged", f)
 	}
 }
+
+// The design of deep long names, changed between two commits: nodal diff
+// says its tables are not compared, naming the limit, instead of listing
+// 3.7 GiB of part and net names for each side.
+func TestDiffDeepNames(t *testing.T) {
+	dir := gitRepo(t)
+	write(t, filepath.Join(dir, "deep.nodal"), deepNames(60, 4000, 100, 100))
+	git(t, dir, "add", ".")
+	git(t, dir, "commit", "-qm", "deep")
+	write(t, filepath.Join(dir, "deep.nodal"), deepNames(60, 4000, 100, 100)+"resistor RB (a, gnd) 2 kΩ\n")
+	code, out, errs := runNodal(t, dir, "", "diff")
+	if code == 2 || len(out) > 20000 || strings.Count(out, "over the limit of 256 MiB") != 2 {
+		t.Errorf("exit %d, %d bytes:\n%.3000s\n%s", code, len(out), out, errs)
+	}
+}
