@@ -48,13 +48,17 @@ that ignores the discharge rate, temperature, age and cut-off voltage.
 
 After the parts comes the power tree ("rails" in JSON): each supply (a
 kind that holds a rail's voltage: a voltage source, a battery, a port's
-voltage drive) with the rail it holds, what it delivers into it and the
-share of its rating, where its power comes from (its own, or the rail it
-draws from), what it loses and how efficiently; then, one branch each, the
-supplies whose input is on that rail and every other part with a pin on
-it, with the current it takes there, worst use of a rating first. Nets
-tied to a rail by ideal shorts (wires, closed switches) are part of it.
-"off_rail" counts the parts that touch no rail.
+voltage drive, a regulator, a converter) with the rail it holds, what it
+delivers into it and the share of its rating, where its power comes from
+(its own, or the rail it draws from), what it loses and how efficiently,
+and whether a regulator is in dropout or at its current limit ("region");
+then, one branch each, the supplies whose input is on that rail and every
+other part with a pin on it, with the current it takes there, worst use of
+a rating first. Nets tied to a rail by ideal shorts (wires, closed
+switches) are part of it. Past a part that takes current from a rail into
+a net no supply drives (a fuse, a resistor), the tree lists what hangs on
+that net under it ("net", "feeds", "loads"), up to 8 parts deep;
+"off_rail" counts the parts the tree does not reach.
 
 Values the circuit does not fix (a section with no DC path to ground, the
 current around a loop of ideal shorts and voltage sources) are shown as

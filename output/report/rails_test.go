@@ -131,11 +131,35 @@ func TestRailsWorstFirstAnyOrder(t *testing.T) {
 	if got := strings.Join(names, " "); got != "RADIO RH CLK" {
 		t.Errorf("BAT feeds %s, want RADIO RH CLK", got)
 	}
-	text, js := render(t, tab)
+	text, _ := render(t, tab)
 	if !strings.Contains(rails(text), "BAT (battery) holds vbat") {
 		t.Fatalf("no rails section:\n%s", text)
 	}
-	lines := strings.Split(strings.TrimSpace(threeRails), "\n")
+	for _, src := range []string{threeRails, regulatorChain, fanIn} {
+		sameInAnyOrder(t, src)
+	}
+}
+
+// fanIn has a net reached from two rails (mid, through RA and RB): the
+// tree follows it past the first part by name, whatever the order.
+const fanIn = `ground gnd
+source   VA (va, gnd) 5 V
+source   VB (vb, gnd) 3.3 V
+resistor RB (vb, mid) 1 kΩ rated 100 mW
+resistor RA (va, mid) 1 kΩ rated 100 mW
+resistor RM (mid, gnd) 2 kΩ
+load     LB (vb, gnd) 10 mA
+`
+
+// sameInAnyOrder checks that the rails of src, text and JSON, are the same
+// with its statements shuffled.
+func sameInAnyOrder(t *testing.T, src string) {
+	t.Helper()
+	text, js := render(t, tableOf(t, src))
+	if rails(text) == "" {
+		t.Fatalf("no rails section:\n%s", text)
+	}
+	lines := strings.Split(strings.TrimSpace(src), "\n")
 	rng := rand.New(rand.NewSource(12))
 	for k := 0; k < 5; k++ {
 		body := append([]string(nil), lines[1:]...)
