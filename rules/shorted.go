@@ -20,13 +20,18 @@ shorted across itself is an error: no current can make its voltage hold.`,
 			q := &d.Parts[id]
 			a, _ := q.Ends()
 			net := netName(d, a)
+			pins := "both pins"
+			if ki := q.Kind.Info(); q.Multi() {
+				// A regulator's out and common.
+				pins = "its " + ki.Pins[ki.Ends[0]] + " and " + ki.Pins[ki.Ends[1]] + " pins"
+			}
 			if q.DC().Model == circuit.VoltageDrop {
 				p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Severity: diag.Error, Subject: d.NameOf(q),
-					Message: q.Kind.String() + " " + d.NameOf(q) + " (" + units.Format(q.Value, units.Voltage) + ") has both pins on net " + net + ": it is shorted across itself"})
+					Message: q.Kind.String() + " " + d.NameOf(q) + " (" + units.Format(q.Value, units.Voltage) + ") has " + pins + " on net " + net + ": it is shorted across itself"})
 				continue
 			}
 			p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: d.NameOf(q),
-				Message: q.Kind.String() + " " + d.NameOf(q) + " has both pins on net " + net + ", so it does nothing"})
+				Message: q.Kind.String() + " " + d.NameOf(q) + " has " + pins + " on net " + net + ", so it does nothing"})
 		}
 		return nil, nil
 	},
