@@ -242,6 +242,7 @@ func TestDriveRangeErrors(t *testing.T) {
 		{"port vin 5 V series 1 Ω to 2 Ω\n", "bad-attribute", "2:14", "only derate takes"},
 		{"port vin 5 V\nresistor R0 (vin, gnd) 1 kΩ to 2 kΩ\n", "bad-value", "3:30", "not a range"},
 		{"port vin to 5 V\n", "syntax", "2:10", "the bottom of the range before to"},
+		{"port vin -1.7e308 V to 1.7e308 V\n", "bad-value", "2:10", "wider than nodal can compute with"},
 	} {
 		src := "ground gnd\n" + c.src
 		if !strings.Contains(src, "resistor") {

@@ -5,6 +5,8 @@ package circuit
 // drives may take.
 
 import (
+	"math"
+
 	"nodal/grammar"
 	"nodal/units"
 )
@@ -57,6 +59,11 @@ func (b *builder) quantityRange(lo, hi *grammar.Value, what string) (low, high u
 	case low.Value > high.Value:
 		b.report(CodeBadValue, pos, end, "%s: %s to %s runs downwards; write the bottom of the range first: %s to %s", what, b.describe(lo), b.describe(hi), b.describe(hi), b.describe(lo))
 		return low, high, false
+	case math.IsInf(high.Value-low.Value, 0):
+		// Each end is finite, but not their difference: the range's
+		// width and middle could not be computed with.
+		b.report(CodeBadValue, pos, end, "%s: %s to %s is wider than nodal can compute with", what, b.describe(lo), b.describe(hi))
+		return low, high, false
 	}
 	return low, high, true
 }
@@ -81,7 +88,7 @@ func toAttr(p *Part, a *grammar.Attr, bad func(rule Code, format string, args ..
 func (b *builder) driveRange(low, high units.Quantity) {
 	d := b.r.Design
 	id := PartID(len(d.Parts) - 1)
-	d.Parts[id].Value = (low.Value + high.Value) / 2
+	d.Parts[id].Value = low.Value + (high.Value-low.Value)/2 // no overflow: the width is finite
 	d.DriveRanges = append(d.DriveRanges, DriveRange{Part: id, Low: low.Value, High: high.Value})
 }
 

@@ -46,7 +46,7 @@ func (p Param) valueAt(v, s float64) float64 {
 	case 1:
 		return p.High
 	}
-	return (p.Low+p.High)/2 + s*(p.High-p.Low)/2
+	return p.Low + (s+1)*(p.High-p.Low)/2
 }
 
 // Ambient is the ambient temperature range and the nominal temperature
