@@ -152,16 +152,16 @@ the input leaves it.`, func(d *circuit.Design, q *circuit.Part, s Flow, _ solve.
 	return ""
 })
 
-// Backfed reports linear regulators whose output the rest of the circuit
-// holds above their set voltage.
-var Backfed = supplyRule("back-fed", diag.Warning, `a regulator's output is held above its set voltage
-A linear regulator only sources current. Where the rest of the circuit
-holds its output above its set voltage (another supply on the same rail,
-a pull-up to a higher rail) it delivers nothing, and nodal solves it so:
-no current through it, only its quiescent current from its input. The
-finding gives the output and the set voltage. A regulator whose output
-is pulled above its input can be damaged by the reverse current; check
-its datasheet.`, func(d *circuit.Design, q *circuit.Part, s Flow, g solve.Region) string {
+// Backfed reports regulators and converters whose output the rest of the
+// circuit holds above their set voltage.
+var Backfed = supplyRule("back-fed", diag.Warning, `a regulator's or converter's output is held above its set voltage
+A linear regulator only sources current, and nodal takes a converter to
+do the same (most do). Where the rest of the circuit holds its output
+above its set voltage (another supply on the same rail, a pull-up to a
+higher rail) it delivers nothing, and nodal solves it so: no current out,
+only its quiescent current from its input. The finding gives the output
+and the set voltage. A regulator whose output is pulled above its input
+can be damaged by the reverse current; check its datasheet.`, func(d *circuit.Design, q *circuit.Part, s Flow, g solve.Region) string {
 	if g != solve.Backfed {
 		return ""
 	}

@@ -168,7 +168,7 @@ func solveMulti(d *circuit.Design, opt *Options) (*Result, error) {
 			continue
 		}
 		ki := p.Kind.Info()
-		if ki.Supply == nil || ki.Converts == circuit.NoConversion {
+		if ki.Supply == nil || ki.Converts == circuit.NoConversion || p.Conv == nil {
 			return nil, &Error{Kind: BadPart, Parts: []circuit.PartID{circuit.PartID(i)},
 				Msg: fmt.Sprintf("%s %s: the solver has no model for a %s", p.Kind, d.NameOf(p), p.Kind)}
 		}
@@ -341,6 +341,9 @@ func (s *multiSolve) standIns() *circuit.Design {
 		}
 		iq := quiescent(p)
 		switch {
+		case st.region == Backfed && st.conv == circuit.Switched:
+			sd.Parts[st.part] = mk(circuit.CurrentSource, out, com, 0)
+			add(mk(circuit.CurrentSource, in, com, iq), in, com)
 		case st.conv == circuit.Switched:
 			sd.Parts[st.part] = mk(circuit.VoltageSource, out, com, p.Value)
 			add(mk(circuit.PowerLoad, in, com, st.draw), in, com)
@@ -527,9 +530,6 @@ func (s *multiSolve) judgeRegions(rs *Result) bool {
 	moved := false
 	for k := range s.sup {
 		st := &s.sup[k]
-		if st.conv != circuit.Linear {
-			continue
-		}
 		p := &s.d.Parts[st.part]
 		sp := p.Kind.Info().Supply
 		vin := rs.NetV[p.Pins[sp.In]]
@@ -544,8 +544,17 @@ func (s *multiSolve) judgeRegions(rs *Result) bool {
 		// Sinking: current into the output, past rounding.
 		sinking := st.iout < -(1e-9*(math.Abs(st.draw)+lim) + 1e-15)
 		next := st.region
-		switch st.region {
-		case Regulating:
+		switch {
+		case st.conv == circuit.Switched:
+			// A converter regulates or, made to sink, is back-fed (taken
+			// as delivering nothing, as most do).
+			switch {
+			case st.region == Regulating && sinking:
+				next = Backfed
+			case st.region == Backfed && set < p.Value-tol:
+				next = Regulating
+			}
+		case st.region == Regulating:
 			switch {
 			case head < p.Conv.Dropout-tol:
 				next = InDropout
@@ -554,7 +563,7 @@ func (s *multiSolve) judgeRegions(rs *Result) bool {
 			case sinking:
 				next = Backfed
 			}
-		case InDropout:
+		case st.region == InDropout:
 			switch {
 			case set > p.Value+tol:
 				next = Regulating
@@ -563,11 +572,11 @@ func (s *multiSolve) judgeRegions(rs *Result) bool {
 			case sinking:
 				next = Backfed
 			}
-		case Backfed:
+		case st.region == Backfed:
 			if set < p.Value-tol {
 				next = Regulating
 			}
-		case Limiting:
+		case st.region == Limiting:
 			switch {
 			case set > p.Value+tol:
 				next = Regulating

@@ -362,3 +362,21 @@ func TestRegulatorBackfed(t *testing.T) {
 		t.Errorf("output jumps from %.9g V to %.9g V across the edge", below, above)
 	}
 }
+
+// TestConverterBackfed: a converter taken to source only (as most do):
+// pulled up above its set voltage through Rp from Vs into a load Rl, its
+// output is the divider's Vs·Rl/(Rp + Rl), it delivers nothing and draws
+// only its quiescent current; the rail feeding it then carries just that.
+func TestConverterBackfed(t *testing.T) {
+	b := newBuilder()
+	b.v("vin", "gnd", 12)
+	b.v("vhi", "gnd", 9)
+	u := b.conv("U1", "vin", "vout", "gnd", 5, 0.9, 1e-4)
+	b.r("vhi", "vout", 10)
+	b.r("vout", "gnd", 100)
+	r := b.solve(t, nil)
+	f := figures(t, b, r, u)
+	if r.MultiAt(u).Region != Backfed || !near(f.vout, 9*100/110.0, 1e-9) || f.iout != 0 || !near(f.iin, 1e-4, 1e-9) {
+		t.Errorf("%v at %.12g V, %g A out, %.12g A in", r.MultiAt(u).Region, f.vout, f.iout, f.iin)
+	}
+}
