@@ -75,6 +75,10 @@ func findClosing(d *circuit.Design) ([]bool, error) {
 type potentialUF struct {
 	parent []int32
 	pot    []float64
+	// vmax is the largest voltage joined so far: the potentials compared
+	// when a loop closes are sums along paths through such voltages, and
+	// carry their rounding.
+	vmax float64
 }
 
 func newPotentialUF(n int) *potentialUF {
@@ -103,12 +107,16 @@ func (u *potentialUF) find(x int32) (int32, float64) {
 
 // union joins a and b with V(a) − V(b) = v. When they are already joined
 // it returns false, by how much the existing potentials miss v, and the
-// largest of the voltages compared (for judging the miss).
+// scale to judge the miss by: the largest of the voltages compared and of
+// those joined so far, whose rounding the potentials carry (two wires in
+// parallel on a net 0.3 V below ground, reached through a 5 V source, can
+// miss by 1e-16 V with both potentials near 0).
 func (u *potentialUF) union(a, b int32, v float64) (joined bool, miss, scale float64) {
 	ra, pa := u.find(a)
 	rb, pb := u.find(b)
+	u.vmax = math.Max(u.vmax, math.Abs(v))
 	if ra == rb {
-		return false, (pa - pb) - v, math.Max(math.Abs(v), math.Max(math.Abs(pa), math.Abs(pb)))
+		return false, (pa - pb) - v, math.Max(u.vmax, math.Max(math.Abs(pa), math.Abs(pb)))
 	}
 	u.parent[ra], u.pot[ra] = rb, v-pa+pb
 	return true, 0, 0

@@ -105,3 +105,35 @@ func TestFloatingSectionSolvesTheRest(t *testing.T) {
 		t.Fatalf("floating %v, undetermined %v", r.Floating, r.Undetermined)
 	}
 }
+
+// TestParallelWiresBelowASource: two wires in parallel on a net that a
+// 300 mV source holds below ground, in a design with 5 V elsewhere, close
+// a loop whose voltages sum to zero (Kirchhoff's voltage law around two
+// ideal shorts), in every statement order: the potentials compared carry
+// the rounding of the 5 V path, which must not read as a contradiction.
+func TestParallelWiresBelowASource(t *testing.T) {
+	add := []func(b *builder){
+		func(b *builder) { b.v("n1", "gnd", 5) },
+		func(b *builder) { b.v("gnd", "n2", 0.3) },
+		func(b *builder) { b.r("n6", "gnd", 1) },
+		func(b *builder) { b.wire("n2", "n6") },
+		func(b *builder) { b.r("gnd", "n1", 1) },
+		func(b *builder) { b.r("n2", "gnd", 1) },
+		func(b *builder) { b.v("n1", "gnd", 5) },
+		func(b *builder) { b.wire("n2", "n6") },
+		func(b *builder) { b.i("gnd", "n1", 1e-3) },
+	}
+	for _, order := range [][]int{{0, 1, 2, 3, 4, 5, 6, 7, 8}, {0, 5, 2, 7, 4, 1, 6, 3, 8}, {8, 7, 6, 5, 4, 3, 2, 1, 0}, {3, 7, 1, 0, 6, 2, 5, 4, 8}} {
+		b := newBuilder()
+		for _, k := range order {
+			add[k](b)
+		}
+		r, err := Solve(b.d, nil)
+		if err != nil {
+			t.Fatalf("order %v: %v", order, err)
+		}
+		if v := b.volts(r, "n6"); !near(v, -0.3, 1e-12) {
+			t.Errorf("order %v: n6 at %.15g V, want −0.3 V", order, v)
+		}
+	}
+}
