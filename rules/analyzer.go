@@ -6,10 +6,12 @@
 // # Passes
 //
 // Some analyzers only compute: Topology runs the graph checks of package
-// topology and Solve (in a later version) the operating point. They report
-// nothing themselves; rules that need them list them in Requires and read
-// their results from Pass.ResultOf. Every analyzer runs at most once per
-// design, after the ones it requires.
+// topology, Solve finds the operating point, Ratings judges every part's
+// ratings there once (Judge) for all the rating rules, and WorstCase the
+// worst case over tolerances and temperature. They report nothing
+// themselves; rules that need them list them in Requires and read their
+// results from Pass.ResultOf. Every analyzer runs at most once per design,
+// after the ones it requires.
 //
 // # Findings
 //

@@ -74,20 +74,17 @@ func ratingRule(name, doc string) *Analyzer {
 	return &Analyzer{
 		Name:     name,
 		Severity: diag.Error,
-		Requires: []*Analyzer{Solve},
+		Requires: []*Analyzer{Solve, Ratings},
 		Doc:      doc,
 		Run: func(p *Pass) (any, error) {
-			r := op(p)
-			if r == nil {
+			if op(p) == nil {
 				return nil, nil
 			}
-			d, pt := p.Design, solved(p).Point()
-			for i := range d.Parts {
-				q := &d.Parts[i]
-				for _, u := range Judge(q, pt.Part(circuit.PartID(i)), p.Config.Derating) {
-					if u.Rule == name && u.Over() {
-						p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: p.Design.NameOf(q), Message: Describe(p.Design, q, u)})
-					}
+			d := p.Design
+			for _, f := range judged(p).Flagged {
+				if u := f.Use; u.Rule == name && u.Over() {
+					q := &d.Parts[f.Part]
+					p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: d.NameOf(q), Message: Describe(d, q, u)})
 				}
 			}
 			if name == "over-current" {
@@ -135,7 +132,7 @@ no finding.`)
 var NearRating = &Analyzer{
 	Name:     "near-rating",
 	Severity: diag.Warning,
-	Requires: []*Analyzer{Solve, WorstCase},
+	Requires: []*Analyzer{Solve, WorstCase, Ratings},
 	Doc: `a part is within its rating but past the usual derating limit
 Defaults (common practice, set in nodal.toml under [derating]): resistor
 power 60 %, capacitor voltage 80 %, diode and LED current 80 %, inductor
@@ -144,22 +141,32 @@ converter output current 80 %, regulator power 60 %. A part within the
 limit at nominal but past it at the worst corner of its tolerances and
 ambient temperature gets the warning too, naming the corner.`,
 	Run: func(p *Pass) (any, error) {
-		r := op(p)
-		if r == nil {
+		if op(p) == nil {
 			return nil, nil
 		}
-		d, pt := p.Design, solved(p).Point()
+		d, flagged := p.Design, judged(p).Flagged
+		reportNominal := func(f PartUse) {
+			if u := f.Use; u.Derated() {
+				q := &d.Parts[f.Part]
+				p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: d.NameOf(q), Message: Describe(d, q, u) + ", past the " + units.FormatPercent(u.Limit) + " derating limit"})
+			}
+		}
+		if worstOf(p).R == nil {
+			for _, f := range flagged {
+				reportNominal(f)
+			}
+			reportGroups(p, true)
+			return nil, nil
+		}
 		for i := range d.Parts {
 			q := &d.Parts[i]
-			nominal := Judge(q, pt.Part(circuit.PartID(i)), p.Config.Derating)
-			for _, u := range nominal {
-				if u.Derated() {
-					p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: p.Design.NameOf(q), Message: Describe(p.Design, q, u) + ", past the " + units.FormatPercent(u.Limit) + " derating limit"})
-				}
+			for len(flagged) > 0 && flagged[0].Part == circuit.PartID(i) {
+				reportNominal(flagged[0])
+				flagged = flagged[1:]
 			}
 			// The worst case too: within the limit at nominal, past it (but
 			// within the rating) at the worst corner.
-			_, worstUse, cases := worstUses(p, i)
+			nominal, worstUse, cases := worstUses(p, i)
 			for k, u := range worstUse {
 				if u.Derated() && !nominal[k].Derated() && !nominal[k].Over() {
 					p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: p.Design.NameOf(q), Message: Describe(p.Design, q, u) + ", past the " + units.FormatPercent(u.Limit) + " derating limit," + cornerText(p, cases[k])})

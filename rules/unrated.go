@@ -23,7 +23,7 @@ import (
 var UnratedParts = &Analyzer{
 	Name:     "unrated-parts",
 	Severity: diag.Warning,
-	Requires: []*Analyzer{Solve},
+	Requires: []*Analyzer{Solve, Ratings},
 	Doc: `ratings that could not be judged at the operating point
 A design that cannot be solved (it has errors that stop it from being
 modelled, no ground, contradictory sources, or is too large) has none of its
@@ -40,6 +40,10 @@ check, and shown once none does.`,
 			reportUnsolved(p, s)
 			return nil, nil
 		}
+		undetermined := judged(p).Undetermined
+		if len(undetermined) == 0 {
+			return nil, nil
+		}
 		pt := s.Point()
 		judgedGroup := map[circuit.PartID]bool{}
 		for _, g := range s.OP.Groups {
@@ -49,13 +53,9 @@ check, and shown once none does.`,
 				}
 			}
 		}
-		for i := range d.Parts {
-			q := &d.Parts[i]
-			id := circuit.PartID(i)
+		for _, id := range undetermined {
+			q := &d.Parts[id]
 			qs := pt.Part(id)
-			if !qs.VoltageUnknown && !qs.CurrentUnknown {
-				continue
-			}
 			all := qs
 			all.VoltageUnknown, all.CurrentUnknown = false, false
 			var missed []string

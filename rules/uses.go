@@ -166,7 +166,12 @@ func (u Use) Derated() bool { return u.Limit > 0 && u.Frac > u.Limit*overLimit &
 // reverse current, and that use and its power reported by reverse-voltage
 // (breakdownUse).
 func Judge(p *circuit.Part, q Quantities, der Derating) []Use {
-	var out []Use
+	return appendUses(nil, p, q, der)
+}
+
+// appendUses appends Judge's uses of p to out and returns the extended
+// slice, so that a pass over every part can reuse one buffer.
+func appendUses(out []Use, p *circuit.Part, q Quantities, der Derating) []Use {
 	rs := p.Kind.Info().Ratings
 	for i := range rs {
 		r := &rs[i]
