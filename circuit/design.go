@@ -167,13 +167,13 @@ type Design struct {
 	// Value is its range's midpoint.
 	DriveRanges []DriveRange
 
-	netIndex map[string]NetID // nets outside instances, by name
-	index    *nameIndex       // the rest, built when first asked (names.go)
+	netIndex netIndex   // nets outside instances, by name (netindex.go)
+	index    *nameIndex // the rest, built when first asked (names.go)
 }
 
 // NewDesign returns an empty design for the named file.
 func NewDesign(file string) *Design {
-	return &Design{File: file, Ground: NoNet, netIndex: make(map[string]NetID), index: &nameIndex{}}
+	return &Design{File: file, Ground: NoNet, index: &nameIndex{}}
 }
 
 // Reserve makes room for about parts parts and nets nets, so that building
@@ -185,20 +185,24 @@ func (d *Design) Reserve(parts, nets int) {
 	if cap(d.Nets)-len(d.Nets) < nets {
 		d.Nets = append(make([]Net, 0, len(d.Nets)+nets), d.Nets...)
 	}
-	if len(d.netIndex) == 0 && nets > 0 {
-		d.netIndex = make(map[string]NetID, nets)
-	}
+	d.netIndex.reserve(d.netIndex.n + nets)
 }
 
 // Net returns the id of the named net, adding it if new; pos is recorded as
 // its first use.
 func (d *Design) Net(name string, pos, end diag.Pos) NetID {
-	if id, ok := d.netIndex[name]; ok {
+	x := &d.netIndex
+	if 2*(x.n+1) > len(x.slots) {
+		x.reserve(2 * (x.n + 1))
+	}
+	h := netHash(name)
+	slot, id := x.find(name, h, d.Nets)
+	if id != NoNet {
 		return id
 	}
-	id := NetID(len(d.Nets))
+	id = NetID(len(d.Nets))
 	d.Nets = append(d.Nets, Net{Local: name, Pos: pos, End: end, Inst: -1})
-	d.netIndex[name] = id
+	x.add(slot, h, id)
 	return id
 }
 
@@ -229,10 +233,7 @@ func (d *Design) InstanceRelated(inst int32) []diag.Related {
 // path), or NoNet. When a quoted top-level name spells the path of a net
 // inside an instance, the one made first is found.
 func (d *Design) LookupNet(name string) NetID {
-	best := NoNet
-	if id, ok := d.netIndex[name]; ok {
-		best = id
-	}
+	best := d.netIndex.lookup(name, d.Nets)
 	if len(d.Instances) == 0 {
 		return best
 	}

@@ -158,7 +158,6 @@ ambient temperature gets the warning too, naming the corner.`,
 			reportGroups(p, true)
 			return nil, nil
 		}
-		pt := solved(p).Point() // once: reading the point scans the design
 		for i := range d.Parts {
 			q := &d.Parts[i]
 			for len(flagged) > 0 && flagged[0].Part == circuit.PartID(i) {
@@ -167,7 +166,7 @@ ambient temperature gets the warning too, naming the corner.`,
 			}
 			// The worst case too: within the limit at nominal, past it (but
 			// within the rating) at the worst corner.
-			nominal, worstUse, cases := worstUses(p, pt, i)
+			nominal, worstUse, cases := worstUses(p, i)
 			for k, u := range worstUse {
 				if u.Derated() && !nominal[k].Derated() && !nominal[k].Over() {
 					p.Report(diag.Diagnostic{Pos: q.Pos, End: q.End, Subject: p.Design.NameOf(q), Message: Describe(p.Design, q, u) + ", past the " + units.FormatPercent(u.Limit) + " derating limit," + cornerText(p, cases[k])})

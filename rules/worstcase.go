@@ -86,16 +86,15 @@ func worstOf(p *Pass) *WorstResult {
 	return w
 }
 
-// worstUses returns, for part i, each rating's use at nominal (read from
-// pt, the nominal point) and at its worst case, with the case; nil when
-// the design has no worst case.
-func worstUses(p *Pass, pt *Point, i int) (nominal, worstUse []Use, cases []worst.Case) {
+// worstUses returns, for part i, each rating's use at nominal and at its
+// worst case, with the case; nil when the design has no worst case.
+func worstUses(p *Pass, i int) (nominal, worstUse []Use, cases []worst.Case) {
 	w := worstOf(p).R
 	if w == nil || w.Worst[i] == nil {
 		return nil, nil, nil
 	}
 	q := &p.Design.Parts[i]
-	nominal = Judge(q, pt.Part(circuit.PartID(i)), p.Config.Derating)
+	nominal = Judge(q, solved(p).Point().Part(circuit.PartID(i)), p.Config.Derating)
 	cases = w.Worst[i]
 	for k, c := range cases {
 		us := Judge(q, Quantities{V: c.V, I: c.I, P: c.V * c.I, Ambient: c.T, HasAmbient: true}, p.Config.Derating)
@@ -140,12 +139,8 @@ over-power, over-current, over-voltage, reverse-voltage or over-temperature
 finding instead.`,
 	Run: func(p *Pass) (any, error) {
 		d := p.Design
-		if worstOf(p).R == nil {
-			return nil, nil
-		}
-		pt := solved(p).Point() // once: reading the point scans the design
 		for i := range d.Parts {
-			nominal, worstUse, cases := worstUses(p, pt, i)
+			nominal, worstUse, cases := worstUses(p, i)
 			q := &d.Parts[i]
 			for k, u := range worstUse {
 				if nominal[k].Over() || !u.Over() {
