@@ -187,7 +187,7 @@ const (
 )
 
 // Conversion is how a supply-like kind with an input rail turns its input
-// into its output; package solve models each (solve/supply.go).
+// into its output; package solve models each (solve/standin.go).
 type Conversion uint8
 
 const (

@@ -59,7 +59,7 @@ type Options struct {
 	MNA bool
 
 	// label names a part in the solver's messages when it stands for a
-	// piece of a part with more pins (supply.go); nil for none.
+	// piece of a part with more pins (standin.go); nil for none.
 	label func(circuit.PartID) (string, bool)
 }
 
