@@ -34,7 +34,8 @@ type Flow struct {
 	// source.
 	Loss float64
 	// Efficiency is POut / Taken, when HasEfficiency: only while the part
-	// converts power into its rail (Taken > 0).
+	// converts power into its rail (Taken > 0, POut ≥ 0); a part driven
+	// backwards has none.
 	Efficiency    float64
 	HasEfficiency bool
 	// VoltageUnknown and CurrentUnknown are the part's quantities' own:
@@ -92,7 +93,7 @@ func (pt *Point) SupplyFlow(p *circuit.Part, id circuit.PartID) (f Flow, ok bool
 		f.Taken = f.POut // an ideal voltage loses nothing
 	}
 	f.Loss = f.Taken - f.POut
-	if f.Taken > 0 && !f.CurrentUnknown && !f.VoltageUnknown {
+	if f.Taken > 0 && f.POut >= 0 && !f.CurrentUnknown && !f.VoltageUnknown {
 		f.Efficiency, f.HasEfficiency = f.POut/f.Taken, true
 	}
 	return f, true
@@ -109,7 +110,10 @@ func (pt *Point) across(p *circuit.Part, q Quantities, a, b int) float64 {
 	case int(e[0]) == b && int(e[1]) == a:
 		return 0 - q.V
 	}
-	return pt.Net(p.Pins[a]) - pt.Net(p.Pins[b])
+	// Cleaned as a part's own voltage is: two nets tied by an ideal short
+	// may differ by rounding in the last place, depending on the order
+	// the shorts were joined in, and that must read 0 in every order.
+	return Clean(pt.Net(p.Pins[a])-pt.Net(p.Pins[b]), pt.vs, FloorV)
 }
 
 // PinCurrent returns the current flowing into part id, p, at its pin (an
