@@ -58,7 +58,8 @@ var batchParser = sync.OnceValue(func() *participle.Parser[fastBatch] {
 	)
 })
 
-// partNodes holds the nodes of a typical part line in one allocation.
+// partNodes holds the nodes of a typical part line in one allocation: the
+// fast reader's, and the part of a plain line's (PlainNodes).
 type partNodes struct {
 	st         Statement
 	part       Part

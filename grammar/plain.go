@@ -146,21 +146,16 @@ func (f *File) PlainName(i int) string {
 
 func (f *File) text(w word) string { return f.src[w.off : w.off+w.n] }
 
-// PlainNodes holds the nodes of one plain line. A builder that looks at
-// one line at a time reuses one PlainNodes for all of them.
+// PlainNodes holds the nodes of one plain line: those of its part line
+// (partNodes, as the fast reader's) and of its attributes. A builder that
+// looks at one line at a time reuses one PlainNodes for all of them.
 type PlainNodes struct {
-	st         Statement
-	part       Part
-	kind, name Name
-	pinNames   [2]Name
-	pins       [2]Pin
-	pinPtrs    [2]*Pin
-	value      Value
-	attrs      []Attr
-	keys       []Name
-	values     []Value
-	valuePtrs  []*Value
-	attrPtrs   []*Attr
+	partNodes
+	attrs     []Attr
+	keys      []Name
+	values    []Value
+	valuePtrs []*Value
+	attrPtrs  []*Attr
 }
 
 // PlainStatement returns the statement of plain line i, the one the
