@@ -105,3 +105,54 @@ func TestSupplyAcrossShortIsOrderFree(t *testing.T) {
 		}
 	}
 }
+
+// TestCurrentSourceIntoSupplyCertified: a current source that feeds a
+// voltage source directly, beside resistors that carry nothing (their
+// ends at one voltage, or a net with one pin), is solved exactly — the
+// supply takes the source's 10 mA (Kirchhoff's current law at n1) — and
+// certified in every statement order. Found by
+// TestStatementOrderDoesNotMatter: the certification floor was scaled by
+// the largest current through a conductance, here only rounding noise, so
+// one order was certified and the other said it could not be.
+func TestCurrentSourceIntoSupplyCertified(t *testing.T) {
+	lines := []string{
+		"resistor R1 (n2, n1) 1 Ω rated 100 mW",
+		"resistor R2 (n3, n2) 1 Ω rated 100 mW",
+		"resistor R3 (n4, gnd) 1 Ω rated 100 mW",
+		"resistor R4 (n5, gnd) 1 Ω rated 100 mW",
+		"resistor R5 (n6, gnd) 1 Ω rated 100 mW",
+		"resistor R6 (n1, n2) 4.7 kΩ rated 100 mW",
+		"source I7 (gnd, n1) 10 mA",
+		"source V1 (n1, gnd) 5 V rated 20 mA",
+	}
+	orders := [][]int{{0, 1, 2, 3, 4, 5, 6, 7}, {1, 0, 2, 3, 4, 5, 6, 7}}
+	rng := rand.New(rand.NewPCG(5, 6))
+	for k := 0; k < 30; k++ {
+		orders = append(orders, rng.Perm(len(lines)))
+	}
+	for n, o := range orders {
+		perm := make([]string, len(o))
+		for i, j := range o {
+			perm[i] = lines[j]
+		}
+		d, v, i := opOf(t, "ground gnd\n"+strings.Join(perm, "\n")+"\n")
+		res, err := Source("t.nodal", []byte("ground gnd\n"+strings.Join(perm, "\n")+"\n"), nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if op := res.Solved.OP; op == nil {
+			t.Fatalf("order %d: not solved", n)
+		} else {
+			for k, u := range op.Uncertified {
+				if u {
+					t.Fatalf("order %d: %s not certified", n, d.PartName(circuit.PartID(k)))
+				}
+			}
+		}
+		for k := range d.Parts {
+			if d.PartName(circuit.PartID(k)) == "V1" && (math.Abs(math.Abs(i[k])-10e-3) > 1e-12*10e-3 || math.Abs(v[k]-5) > 1e-12*5) {
+				t.Fatalf("order %d: V1 at %.17g V, %.17g A; want 5 V and 10 mA", n, v[k], i[k])
+			}
+		}
+	}
+}

@@ -4,6 +4,7 @@ package solve
 
 import (
 	"fmt"
+	"math"
 
 	"nodal/circuit"
 )
@@ -165,6 +166,7 @@ func (m *model) assemble(lambda, gmin float64) {
 				s.rhs[k] = lambda*p.Value - lambda*(m.off[p.Pins[0]]-m.off[p.Pins[1]])
 			}
 		case circuit.CurrentFlow:
+			m.sourceI = math.Max(m.sourceI, math.Abs(p.Value))
 			s.inject(m.node[p.Pins[0]], -lambda*p.Value)
 			s.inject(m.node[p.Pins[1]], lambda*p.Value)
 		case circuit.Junction:

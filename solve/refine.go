@@ -225,6 +225,13 @@ func (m *model) certify(d, x, xlo []float64) float64 {
 	for k := m.nNodes; k < m.n; k++ {
 		imax = math.Max(imax, math.Abs(x[k]))
 	}
+	// A current source's current is one of the design's currents too,
+	// though no conductance carries it: a source feeding a contracted
+	// voltage source directly would otherwise leave imax at the rounding
+	// noise of currents that are 0, and the floor with it, so that
+	// whether the solve is certified would hang on whether that noise is
+	// exactly 0 — on the order of the statements.
+	imax = math.Max(imax, math.Abs(m.lambda)*m.sourceI)
 	worst := 0.0
 	judge := func(err, allow float64) {
 		if r := err / allow; !(r <= worst) {

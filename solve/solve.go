@@ -181,6 +181,11 @@ type model struct {
 	// could not certify (nil when it certified all); refineSteps counts
 	// refinement steps in all.
 	uncertified []bool
+	// sourceI is the largest current of a current source in the design
+	// (A, at full source strength), set by assemble: one of the design's
+	// currents for the certification floor, though no conductance
+	// carries it.
+	sourceI     float64
 	refineSteps int
 	// closing marks the parts that close a loop of ideal shorts and
 	// voltage sources, and floating the nets with no DC path to ground
