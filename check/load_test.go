@@ -101,3 +101,29 @@ func TestCurrentLoad(t *testing.T) {
 		t.Errorf("load at %g V, %g A; want 9.5 V, 250 mA", v[l], i[l])
 	}
 }
+
+// TestIdleConverterAtZeroVolts: a converter whose input is tied to its
+// common and whose output feeds nothing asks for no power (energy balance:
+// Pin = Pout/η = 0), so it is not a load "demanding more power than the
+// rail can deliver" (it said "demands 0 W"); what is wrong is that its
+// input, 0 V, is below its input range.
+func TestIdleConverterAtZeroVolts(t *testing.T) {
+	src := `ground gnd
+source V1 (vin, gnd) 12 V
+resistor RB (vin, gnd) 1 kΩ
+converter U1 (in=gnd, out=v5, common=gnd) 5 V efficiency 90% input 6 V to 28 V rated 1 A
+resistor RL (v5, x) 1 kΩ
+port x
+`
+	res, err := Source("t.nodal", []byte(src), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var rules []string
+	for _, f := range res.Diags {
+		rules = append(rules, f.Rule)
+	}
+	if got := strings.Join(rules, " "); got != "input-range" {
+		t.Fatalf("findings %q, want only input-range:\n%v", got, res.Diags)
+	}
+}

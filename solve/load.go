@@ -107,6 +107,9 @@ func (m *model) updateLoads(xn []float64) bool {
 			v = 0
 		}
 		switch disc := l.vth*l.vth - 4*pw*rth; {
+		case !(rth > 0) && v == 0 && pw == 0:
+			// Held at no voltage and asked for no power: it draws nothing.
+			l.vth, l.next = v, 0
 		case !(rth > 0) && v == 0:
 			// Held at no voltage: no current can draw its power.
 			l.vth, l.starved = v, true
