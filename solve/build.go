@@ -68,6 +68,7 @@ func build(d *circuit.Design, vt float64, mna bool) (*model, error) {
 			}
 			m.node[i], m.off[i] = idx[r], o
 		}
+		m.offMax = math.Max(m.offMax, math.Abs(m.off[i]))
 	}
 	// Internal nodes of diodes with series resistance, then source currents.
 	var badParts []circuit.PartID

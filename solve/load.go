@@ -102,8 +102,12 @@ func (m *model) updateLoads(xn []float64) bool {
 		l.vth, l.rth, l.starved = v+rth*l.i, rth, false
 		// Across pins tied by shorts and sources (a == b) the voltage is a
 		// difference of offsets: 0 to rounding when the pins are shorted,
-		// whatever order the offsets were summed in.
-		if a == b && math.Abs(v) <= 1e-12*(math.Abs(m.netV(xn, p.Pins[0]))+math.Abs(m.netV(xn, p.Pins[1]))) {
+		// whatever order the offsets were summed in. The rounding is that
+		// of the offsets summed on the way, which may be larger than the
+		// two nets' own voltages (two nets at 0 V reached through a 1.8 V
+		// source and back), so it is judged against the largest offset
+		// too.
+		if a == b && math.Abs(v) <= 1e-12*(math.Abs(m.netV(xn, p.Pins[0]))+math.Abs(m.netV(xn, p.Pins[1]))+math.Abs(m.lambda)*m.offMax) {
 			v = 0
 		}
 		switch disc := l.vth*l.vth - 4*pw*rth; {

@@ -185,7 +185,11 @@ type model struct {
 	// (A, at full source strength), set by assemble: one of the design's
 	// currents for the certification floor, though no conductance
 	// carries it.
-	sourceI     float64
+	sourceI float64
+	// offMax is the largest |offset| of a net above its group's unknown
+	// (V, at full source strength): the scale of the rounding in a
+	// difference of offsets.
+	offMax      float64
 	refineSteps int
 	// closing marks the parts that close a loop of ideal shorts and
 	// voltage sources, and floating the nets with no DC path to ground
