@@ -36,24 +36,6 @@ var RenamedRules = map[string]string{
 // FileName is the name Find looks for.
 const FileName = "nodal.toml"
 
-// Derating keys and their defaults, in percent of the part's rating. All
-// are common practice, not a standard; a project sets its own.
-var deratingDefaults = []struct {
-	Key     string
-	Percent float64
-}{
-	{"resistor-power", 60},
-	{"capacitor-voltage", 80},
-	{"diode-current", 80},
-	{"led-current", 80},
-	{"inductor-current", 80},
-	{"fuse-current", 75},
-	{"supply-current", 90},
-	{"regulator-current", 80},
-	{"regulator-power", 60},
-	{"converter-current", 80},
-}
-
 // Limit defaults: how deep blocks may nest, how many parts a design may
 // expand to, and the largest file (in MiB) a check reads.
 const (
@@ -69,8 +51,11 @@ type Config struct {
 	File string
 	// Severity overrides rule severities; Off silences a rule.
 	Severity map[string]diag.Severity
-	// Derating maps a derating key (see DeratingKeys) to a fraction of
-	// the rating, 0 < f ≤ 1.
+	// Derating holds the [derating] table as read: a derating key to a
+	// fraction of the rating, 0 < f ≤ 1, with its line in Origin. The
+	// keys and their defaults are declared with the kinds' ratings, above
+	// this package, which passes the keys to Parse and fills in the
+	// defaults of the keys not set here.
 	Derating map[string]float64
 	// Skip holds globs, relative to the folder of File, of paths not to
 	// check. "**" matches any number of folders.
@@ -92,23 +77,10 @@ type Config struct {
 	Origin map[string]string
 }
 
-// DeratingKeys lists the derating keys in a fixed order.
-func DeratingKeys() []string {
-	out := make([]string, len(deratingDefaults))
-	for i, d := range deratingDefaults {
-		out[i] = d.Key
-	}
-	return out
-}
-
 // Default returns the configuration used when there is no nodal.toml.
 func Default() *Config {
 	c := &Config{Severity: map[string]diag.Severity{}, Derating: map[string]float64{},
 		Depth: DefaultDepth, Parts: DefaultParts, FileMiB: DefaultFileMiB, Origin: map[string]string{}, Thermal: defaultThermal()}
-	for _, d := range deratingDefaults {
-		c.Derating[d.Key] = d.Percent / 100
-		c.Origin["derating."+d.Key] = "default"
-	}
 	c.Origin["limits.depth"] = "default"
 	c.Origin["limits.parts"] = "default"
 	c.Origin["limits.file-mib"] = "default"
@@ -166,8 +138,9 @@ type raw struct {
 }
 
 // Parse reads the text of a nodal.toml named name. known reports whether a
-// rule id exists.
-func Parse(name string, src []byte, known func(string) bool, suggest func(string) string) (*Config, error) {
+// rule id exists; deratingKeys lists the keys [derating] takes, in the
+// order an error names them.
+func Parse(name string, src []byte, known func(string) bool, suggest func(string) string, deratingKeys []string) (*Config, error) {
 	c := Default()
 	c.File = name
 	var r raw
@@ -231,14 +204,14 @@ func Parse(name string, src []byte, known func(string) bool, suggest func(string
 		c.Origin[key] = origin(key)
 	}
 	valid := map[string]bool{}
-	for _, k := range DeratingKeys() {
+	for _, k := range deratingKeys {
 		valid[k] = true
 	}
 	for _, k := range sortedKeys(r.Derating) {
 		key := "derating." + k
 		v := r.Derating[k]
 		if !valid[k] {
-			msg := "unknown derating key; the keys are " + strings.Join(DeratingKeys(), ", ")
+			msg := "unknown derating key; the keys are " + strings.Join(deratingKeys, ", ")
 			bad(key, "%s", msg)
 			continue
 		}

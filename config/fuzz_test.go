@@ -25,7 +25,7 @@ func FuzzParse(f *testing.F) {
 		f.Add([]byte(s))
 	}
 	f.Fuzz(func(t *testing.T, src []byte) {
-		c, err := Parse("p/nodal.toml", src, known, suggest)
+		c, err := Parse("p/nodal.toml", src, known, suggest, testDerating)
 		lines := strings.Count(string(src), "\n") + 1
 		if err != nil {
 			var errs Errors

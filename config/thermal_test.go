@@ -8,7 +8,7 @@ import (
 func TestThermalTable(t *testing.T) {
 	known := func(string) bool { return true }
 	none := func(string) string { return "" }
-	c, err := Parse("nodal.toml", []byte("[thermal]\nambient = [0, 50.5]\nresistor-knee = 85\n"), known, none)
+	c, err := Parse("nodal.toml", []byte("[thermal]\nambient = [0, 50.5]\nresistor-knee = 85\n"), known, none, testDerating)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -18,7 +18,7 @@ func TestThermalTable(t *testing.T) {
 	if c.Origin["thermal.ambient"] != "nodal.toml:2" || c.Origin["thermal.resistor-knee"] != "nodal.toml:3" {
 		t.Errorf("origins %v", c.Origin)
 	}
-	if c, err := Parse("nodal.toml", []byte("[thermal]\nambient = 40\n"), known, none); err != nil || c.Thermal.AmbientLow != 40 || c.Thermal.AmbientHigh != 40 {
+	if c, err := Parse("nodal.toml", []byte("[thermal]\nambient = 40\n"), known, none, testDerating); err != nil || c.Thermal.AmbientLow != 40 || c.Thermal.AmbientHigh != 40 {
 		t.Errorf("one value: %+v, %v", c, err)
 	}
 	if d := Default().Thermal; d.AmbientSet || d.Knee != 70 || d.Zero != 155 {
@@ -34,7 +34,7 @@ func TestThermalTable(t *testing.T) {
 		"[thermal]\nambient = [1, 2, 3]\n":       "or a range",
 		"[thermal]\nresistor-knee = \"70 °C\"\n": "wrong type",
 	} {
-		_, err := Parse("nodal.toml", []byte(src), known, none)
+		_, err := Parse("nodal.toml", []byte(src), known, none, testDerating)
 		if err == nil || !strings.Contains(err.Error(), want) {
 			t.Errorf("%q: error %v, want one containing %q", src, err, want)
 		}

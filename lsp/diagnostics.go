@@ -266,7 +266,8 @@ func loadConfig(dir, top string, read func(string) ([]byte, error)) (*config.Con
 	}
 	known := func(id string) bool { return rules.Lookup(id) != nil }
 	suggest := func(id string) string { return diag.Suggest(id, rules.Names()) }
-	return config.Parse(p, src, known, suggest)
+	keys, _ := rules.DeratingDefaults()
+	return config.Parse(p, src, known, suggest, keys)
 }
 
 func topFinding(t *text, msg string) published {

@@ -1,13 +1,10 @@
 package rules
 
 import (
-	"math"
-	"slices"
 	"strings"
 	"testing"
 
 	"nodal/circuit"
-	"nodal/config"
 	"nodal/solve"
 )
 
@@ -48,20 +45,22 @@ func TestFormatUse(t *testing.T) {
 	}
 }
 
-// TestDeratingKeysMatchConfig: nodal.toml accepts exactly the derating
-// keys the kind table declares, with the same defaults.
-func TestDeratingKeysMatchConfig(t *testing.T) {
+// TestDeratingDefaultsAgree: kinds that share a derating key share its
+// default, a fraction of the rating in (0, 1], so that the key has one
+// default whichever kind comes first in the table.
+func TestDeratingDefaultsAgree(t *testing.T) {
 	keys, def := DeratingDefaults()
-	cfg := config.Default()
-	ck := config.DeratingKeys()
-	slices.Sort(keys)
-	slices.Sort(ck)
-	if !slices.Equal(keys, ck) {
-		t.Errorf("kind table derating keys %v, nodal.toml keys %v", keys, config.DeratingKeys())
+	if len(keys) != len(def) {
+		t.Fatalf("keys %v, defaults %v", keys, def)
 	}
-	for k, f := range def {
-		if math.Abs(cfg.Derating[k]-f) > 1e-12 {
-			t.Errorf("derating %s: kind table default %v, nodal.toml default %v", k, f, cfg.Derating[k])
+	for _, k := range circuit.Kinds() {
+		for _, r := range k.Info().Ratings {
+			if r.Derating == "" {
+				continue
+			}
+			if r.Default != def[r.Derating] || !(r.Default > 0 && r.Default <= 1) {
+				t.Errorf("%s: %s default %v, the key's %v", k.Info().Word, r.Derating, r.Default, def[r.Derating])
+			}
 		}
 	}
 }

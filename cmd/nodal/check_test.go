@@ -9,6 +9,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"nodal/circuit"
 )
 
 const goodDesign = `ground gnd
@@ -234,5 +236,58 @@ func TestDocsURLFromEnvironment(t *testing.T) {
 	errb.Reset()
 	if st := run([]string{"check", f}, strings.NewReader(""), &out, &errb); st != 2 || !strings.Contains(errb.String(), "NODAL_DOCS_URL") {
 		t.Fatalf("relative NODAL_DOCS_URL: status %d, stderr %q; want 2 and a message", st, errb.String())
+	}
+}
+
+// TestConfigDeratingKeysFromKinds: every derating key a kind's rating
+// names is shown by nodal config with its default and is accepted in
+// nodal.toml; a key no kind declares is refused at its line.
+func TestConfigDeratingKeysFromKinds(t *testing.T) {
+	declared := map[string]float64{}
+	for _, k := range circuit.Kinds() {
+		for _, r := range k.Info().Ratings {
+			if r.Derating != "" {
+				declared[r.Derating] = r.Default
+			}
+		}
+	}
+	if len(declared) == 0 {
+		t.Fatal("no kind declares a derating key")
+	}
+	dir := t.TempDir()
+	write(t, filepath.Join(dir, "a.nodal"), goodDesign)
+	code, out, errs := runNodal(t, dir, "", "config", "a.nodal")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	_, section, _ := strings.Cut(out, "\n[derating]\n")
+	section, _, _ = strings.Cut(section, "\n\n")
+	shown := map[string]bool{}
+	for _, line := range strings.Split(section, "\n") {
+		key, _, _ := strings.Cut(line, " = ")
+		shown[key] = true
+		if _, ok := declared[key]; !ok {
+			t.Errorf("nodal config shows %q, which no kind declares", line)
+		}
+	}
+	for key, f := range declared {
+		line := regexp.MustCompile(`(?m)^` + regexp.QuoteMeta(key) + ` = ` + regexp.QuoteMeta(strconv.FormatFloat(f*100, 'g', -1, 64)) + ` +# default$`)
+		if !shown[key] || !line.MatchString(section) {
+			t.Errorf("nodal config does not show %s = %g # default:\n%s", key, f*100, section)
+		}
+		write(t, filepath.Join(dir, "nodal.toml"), "[derating]\n"+key+" = 55\n")
+		code, out, errs := runNodal(t, dir, "", "config", "a.nodal")
+		if code != 0 || !strings.Contains(out, key+" = 55") || !strings.Contains(out, "nodal.toml:2") {
+			t.Errorf("%s = 55: exit %d, stderr %q, output:\n%s", key, code, errs, out)
+		}
+	}
+	const undeclared = "resistor-current"
+	if _, ok := declared[undeclared]; ok {
+		t.Fatalf("%s is declared; pick another undeclared key", undeclared)
+	}
+	write(t, filepath.Join(dir, "nodal.toml"), "# settings\n[derating]\n"+undeclared+" = 50\n")
+	code, _, errs = runNodal(t, dir, "", "check", "a.nodal")
+	if want := "nodal.toml:3: derating." + undeclared + ": unknown derating key; the keys are "; code != 2 || !strings.Contains(errs, want) {
+		t.Errorf("exit %d, stderr %q; want 2 and %q", code, errs, want)
 	}
 }

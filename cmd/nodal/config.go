@@ -129,8 +129,13 @@ func writeConfig(w io.Writer, p string, c *config.Config) {
 		fmt.Fprintf(tw, "%s = %q\t# %s\n", a.Name, sev.String(), origin("rules."+a.Name))
 	}
 	fmt.Fprintf(tw, "\n[derating]\n")
-	for _, k := range config.DeratingKeys() {
-		fmt.Fprintf(tw, "%s = %g\t# %s\n", k, c.Derating[k]*100, origin("derating."+k))
+	keys, def := rules.DeratingDefaults()
+	for _, k := range keys {
+		f, set := c.Derating[k]
+		if !set {
+			f = def[k]
+		}
+		fmt.Fprintf(tw, "%s = %g\t# %s\n", k, f*100, origin("derating."+k))
 	}
 	fmt.Fprintf(tw, "\n[limits]\n")
 	fmt.Fprintf(tw, "depth = %d\t# %s\n", c.Depth, origin("limits.depth"))

@@ -54,6 +54,12 @@ func knownRule(id string) bool { return rules.Lookup(id) != nil }
 
 func suggestRule(id string) string { return diag.Suggest(id, rules.Names()) }
 
+// deratingKeys lists the [derating] keys the kinds table declares.
+func deratingKeys() []string {
+	keys, _ := rules.DeratingDefaults()
+	return keys
+}
+
 // forFile returns the configuration for a checked file.
 func (l *configLoader) forFile(name string) (*config.Config, error) {
 	l.mu.Lock()
@@ -135,7 +141,7 @@ func (l *configLoader) parse(p string, src []byte) (*config.Config, error) {
 		}
 		src = b
 	}
-	c, err := config.Parse(p, src, knownRule, suggestRule)
+	c, err := config.Parse(p, src, knownRule, suggestRule, deratingKeys())
 	if err != nil {
 		return nil, err
 	}
