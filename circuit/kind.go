@@ -8,6 +8,7 @@ package circuit
 // reference's tests read this table rather than naming kinds.
 
 import (
+	"slices"
 	"strings"
 
 	"nodal/units"
@@ -70,6 +71,10 @@ type KindInfo struct {
 	Needs []Need
 	// Attrs lists the attributes the kind takes besides "rated".
 	Attrs []string
+	// ValueNotAtDC says the value plays no part at DC (a capacitor's
+	// capacitance, an inductor's inductance), so the worst case does not
+	// vary it by its "tol"; see Kind.Toleranced.
+	ValueNotAtDC bool
 	// Ratings lists what "rated" takes on the kind and how each rating is
 	// judged, in the order they are judged; a rating read from the value
 	// (a fuse's current) is listed too, with FromValue.
@@ -341,11 +346,11 @@ var kinds = [numKinds]KindInfo{
 		Ratings: []Rating{derated(ratedPower, "resistor-power", 0.60), ratedVoltage},
 		DC:      func(p *Part) DC { return DC{Model: Conductance, R: p.Value} }},
 	Capacitor: {Word: "capacitor", Pins: plainPins, Roles: plainRoles, Value: units.Capacitance,
-		Attrs:   []string{"tol"},
+		Attrs: []string{"tol"}, ValueNotAtDC: true,
 		Ratings: []Rating{derated(ratedVoltage, "capacitor-voltage", 0.80)},
 		DC:      func(*Part) DC { return DC{Model: Open} }},
 	Inductor: {Word: "inductor", Pins: plainPins, Roles: plainRoles, Value: units.Inductance,
-		Attrs:   []string{"tol", "dcr"},
+		Attrs: []string{"tol", "dcr"}, ValueNotAtDC: true,
 		Ratings: []Rating{derated(ratedCurrent, "inductor-current", 0.80)},
 		DC:      shortUnlessDCR},
 	VoltageSource: {Word: "source", Name: "voltage source", Pins: []string{"pos", "neg"},
@@ -469,6 +474,19 @@ func Kinds() []Kind {
 
 // Info returns k's declaration.
 func (k Kind) Info() *KindInfo { return &kinds[k] }
+
+// Toleranced reports whether the worst case varies a part of kind k by
+// its tolerance: the kind takes "tol" and its value acts at DC (a
+// resistance, a source's value, a regulator's set output voltage).
+func (k Kind) Toleranced() bool { return toleranced[k] }
+
+// toleranced holds Kind.Toleranced for every kind, from the table.
+var toleranced = func() (t [numKinds]bool) {
+	for k := range kinds {
+		t[k] = !kinds[k].ValueNotAtDC && slices.Contains(kinds[k].Attrs, "tol")
+	}
+	return t
+}()
 
 // String returns how messages name the kind: its keyword, or for kinds
 // that share one, their Name ("voltage source").

@@ -51,3 +51,29 @@ func TestSupplyPins(t *testing.T) {
 		}
 	}
 }
+
+// TestValueNotAtDC: a kind that says its value plays no part at DC has
+// the same DC behaviour at two values, and is not varied by the worst
+// case although it takes "tol".
+func TestValueNotAtDC(t *testing.T) {
+	n := 0
+	for _, k := range Kinds() {
+		info := k.Info()
+		if !info.ValueNotAtDC {
+			continue
+		}
+		n++
+		if a, b := info.DC(&Part{Kind: k, Value: 1e-6}), info.DC(&Part{Kind: k, Value: 2}); a != b {
+			t.Errorf("%s: DC %+v at one value, %+v at another", info.Word, a, b)
+		}
+		if k.Toleranced() {
+			t.Errorf("%s: varied by the worst case", info.Word)
+		}
+	}
+	if n == 0 {
+		t.Error("no kind's value is left out at DC")
+	}
+	if !Resistor.Toleranced() || !Regulator.Toleranced() || Switch.Toleranced() {
+		t.Error("a resistor and a regulator are varied by their tol, a switch (no tol) is not")
+	}
+}

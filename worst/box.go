@@ -61,8 +61,8 @@ type Corner struct {
 	T float64
 }
 
-// params lists the parameters of d: every resistor and source with a
-// tolerance and every port's drive written as a range, in the order of
+// params lists the parameters of d: every part with a tolerance whose
+// kind the worst case varies (circuit.Kind.Toleranced) and every port's drive written as a range, in the order of
 // d's parts, and the ambient temperature last when it is a range.
 func params(d *circuit.Design, amb Ambient) (ps []Param, hasT bool) {
 	var ranges map[circuit.PartID]circuit.DriveRange // nil, and never read, without ranges
@@ -80,13 +80,8 @@ func params(d *circuit.Design, amb Ambient) (ps []Param, hasT bool) {
 			ps = append(ps, Param{Part: circuit.PartID(i), Low: r.Low, High: r.High})
 			continue
 		}
-		switch p.Kind {
-		case circuit.Resistor, circuit.VoltageSource, circuit.CurrentSource,
-			circuit.Battery, circuit.CurrentLoad, circuit.PowerLoad,
-			circuit.Regulator, circuit.Converter: // their set output voltage
-			if p.Tol > 0 {
-				ps = append(ps, Param{Part: circuit.PartID(i), Tol: p.Tol})
-			}
+		if p.Tol > 0 && p.Kind.Toleranced() {
+			ps = append(ps, Param{Part: circuit.PartID(i), Tol: p.Tol})
 		}
 	}
 	return ps, amb.High > amb.Low
