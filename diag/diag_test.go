@@ -144,6 +144,13 @@ func TestDistanceAndSuggest(t *testing.T) {
 	if s := Suggest("a", []string{"b"}); s != "" {
 		t.Errorf("one-letter names get suggestions: %q", s)
 	}
+	// Equally close candidates: the first in byte order, in any order of
+	// the list (nets come in the order statements name them).
+	for _, list := range [][]string{{"n4", "n2", "gnd"}, {"gnd", "n2", "n4"}, {"n4", "gnd", "n2"}} {
+		if s := Suggest("n3", list); s != "n2" {
+			t.Errorf("Suggest(n3, %q) = %q; want n2", list, s)
+		}
+	}
 }
 
 // Comparing one name against every net of a large design must not

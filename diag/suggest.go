@@ -40,7 +40,9 @@ func Distance(a, b string, max int) int {
 
 // Suggest returns the candidate closest to name within a small edit
 // distance (1 for short names, 2 from five bytes on), or "" when none is
-// close. Ties go to the candidate listed first. name itself is never
+// close. Ties go to the candidate first in byte order, so that the answer
+// does not depend on the order of the candidates (nets listed in the
+// order a design's statements name them, say). name itself is never
 // suggested.
 func Suggest(name string, candidates []string) string {
 	max := 1
@@ -55,7 +57,7 @@ func Suggest(name string, candidates []string) string {
 		if c == name {
 			continue
 		}
-		if d := Distance(name, c, max); d < bestD {
+		if d := Distance(name, c, max); d < bestD || d == bestD && c < best {
 			best, bestD = c, d
 		}
 	}

@@ -78,7 +78,12 @@ func (r *Result) multiAt(id circuit.PartID) *MultiPoint {
 const (
 	maxDrawSolves  = 60
 	maxRegionTurns = 40
-	drawTol        = 1e-13
+	// drawTol is how closely a draw must reproduce itself: the
+	// solve's own certified accuracy (certTol), not tighter, since a draw
+	// read from a solution is known no better than that solution; held
+	// to 1e-13, a converter's 305 µW draw behind 100 kΩ swung by 7e-13
+	// between two values and never settled in one statement order.
+	drawTol = certTol
 	// maxDrawGain bounds ‖(S − I)⁻¹‖₁ of the draws' Jacobian that
 	// Newton's method on them trusts: how many times a mismatch in the
 	// draws a step may multiply.
