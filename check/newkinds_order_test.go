@@ -75,21 +75,8 @@ func TestSupplyAcrossShortIsOrderFree(t *testing.T) {
 		"source V1 (n1, gnd) 5 V rated 10 mA",
 		"resistor R1 (n2, gnd) 1 Ω rated 100 mW",
 	}
-	orders := [][]int{{0, 1, 2, 3, 4, 5, 6, 7, 8}, {0, 8, 2, 3, 4, 5, 6, 1, 7}}
-	rng := rand.New(rand.NewPCG(3, 4))
-	for k := 0; k < 20; k++ {
-		orders = append(orders, rng.Perm(len(lines)))
-	}
 	var first string
-	for n, o := range orders {
-		perm := make([]string, len(o))
-		for i, j := range o {
-			perm[i] = lines[j]
-		}
-		res, err := Source("t.nodal", []byte("ground gnd\n"+strings.Join(perm, "\n")+"\n"), nil)
-		if err != nil {
-			t.Fatal(err)
-		}
+	inOrders(t, lines, [][]int{{0, 1, 2, 3, 4, 5, 6, 7, 8}, {0, 8, 2, 3, 4, 5, 6, 1, 7}}, 20, 3, func(n int, _ string, res *Result) {
 		var msg string
 		for _, f := range res.Diags {
 			if f.Rule == "dropout" {
@@ -104,7 +91,7 @@ func TestSupplyAcrossShortIsOrderFree(t *testing.T) {
 		} else if msg != first {
 			t.Fatalf("order %d: %q, first order %q", n, msg, first)
 		}
-	}
+	})
 }
 
 // TestCurrentSourceIntoSupplyCertified: a current source that feeds a
@@ -126,21 +113,8 @@ func TestCurrentSourceIntoSupplyCertified(t *testing.T) {
 		"source I7 (gnd, n1) 10 mA",
 		"source V1 (n1, gnd) 5 V rated 20 mA",
 	}
-	orders := [][]int{{0, 1, 2, 3, 4, 5, 6, 7}, {1, 0, 2, 3, 4, 5, 6, 7}}
-	rng := rand.New(rand.NewPCG(5, 6))
-	for k := 0; k < 30; k++ {
-		orders = append(orders, rng.Perm(len(lines)))
-	}
-	for n, o := range orders {
-		perm := make([]string, len(o))
-		for i, j := range o {
-			perm[i] = lines[j]
-		}
-		d, v, i := opOf(t, "ground gnd\n"+strings.Join(perm, "\n")+"\n")
-		res, err := Source("t.nodal", []byte("ground gnd\n"+strings.Join(perm, "\n")+"\n"), nil)
-		if err != nil {
-			t.Fatal(err)
-		}
+	inOrders(t, lines, [][]int{{0, 1, 2, 3, 4, 5, 6, 7}, {1, 0, 2, 3, 4, 5, 6, 7}}, 30, 5, func(n int, src string, res *Result) {
+		d, v, i := opOf(t, src)
 		if op := res.Solved.OP; op == nil {
 			t.Fatalf("order %d: not solved", n)
 		} else {
@@ -155,7 +129,7 @@ func TestCurrentSourceIntoSupplyCertified(t *testing.T) {
 				t.Fatalf("order %d: V1 at %.17g V, %.17g A; want 5 V and 10 mA", n, v[k], i[k])
 			}
 		}
-	}
+	})
 }
 
 // TestShortedConverterInputOrderFree: a converter whose input is tied to
@@ -177,20 +151,7 @@ func TestShortedConverterInputOrderFree(t *testing.T) {
 		"converter U7 (gnd, n4, n2) 3.3 V efficiency 85% input 4 V to 16 V quiescent 50 µA rated 100 mA",
 		"source V1 (n1, gnd) 5 V rated 10 mA",
 	}
-	orders := [][]int{{0, 1, 2, 3, 4, 5, 6, 7}, {3, 1, 2, 6, 4, 5, 0, 7}}
-	rng := rand.New(rand.NewPCG(7, 8))
-	for k := 0; k < 30; k++ {
-		orders = append(orders, rng.Perm(len(lines)))
-	}
-	for n, o := range orders {
-		perm := make([]string, len(o))
-		for i, j := range o {
-			perm[i] = lines[j]
-		}
-		res, err := Source("t.nodal", []byte("ground gnd\n"+strings.Join(perm, "\n")+"\n"), nil)
-		if err != nil {
-			t.Fatal(err)
-		}
+	inOrders(t, lines, [][]int{{0, 1, 2, 3, 4, 5, 6, 7}, {3, 1, 2, 6, 4, 5, 0, 7}}, 30, 7, func(n int, _ string, res *Result) {
 		found := false
 		for _, f := range res.Diags {
 			if f.Rule == "no-convergence" {
@@ -203,7 +164,7 @@ func TestShortedConverterInputOrderFree(t *testing.T) {
 		if !found {
 			t.Fatalf("order %d: no starved-load finding for U7: %v", n, res.Diags)
 		}
-	}
+	})
 }
 
 // TestDrawsSettleToTheSolvesAccuracy: a converter drawing 305 µW for a
@@ -225,21 +186,8 @@ func TestDrawsSettleToTheSolvesAccuracy(t *testing.T) {
 		"wire W8 (n2, n6) rated 500 mA",
 		"source V1 (n1, gnd) 5 V rated 10 mA",
 	}
-	orders := [][]int{{0, 1, 2, 3, 4, 5, 6, 7, 8}, {2, 1, 0, 3, 4, 5, 6, 7, 8}}
-	rng := rand.New(rand.NewPCG(9, 10))
-	for k := 0; k < 30; k++ {
-		orders = append(orders, rng.Perm(len(lines)))
-	}
 	var first string
-	for n, o := range orders {
-		perm := make([]string, len(o))
-		for i, j := range o {
-			perm[i] = lines[j]
-		}
-		res, err := Source("t.nodal", []byte("ground gnd\n"+strings.Join(perm, "\n")+"\n"), nil)
-		if err != nil {
-			t.Fatal(err)
-		}
+	inOrders(t, lines, [][]int{{0, 1, 2, 3, 4, 5, 6, 7, 8}, {2, 1, 0, 3, 4, 5, 6, 7, 8}}, 30, 9, func(n int, _ string, res *Result) {
 		var got []string
 		for _, f := range res.Diags {
 			got = append(got, f.Rule+": "+f.Message)
@@ -254,5 +202,30 @@ func TestDrawsSettleToTheSolvesAccuracy(t *testing.T) {
 		} else if s != first {
 			t.Fatalf("order %d:\n%s\nfirst order:\n%s", n, s, first)
 		}
+	})
+}
+
+// inOrders checks the design of lines, after "ground gnd", in the orders
+// given (each a permutation of the lines' indices) and in n more random
+// ones drawn from seed, and hands each order's number, source and result
+// to judge.
+func inOrders(t *testing.T, lines []string, given [][]int, n int, seed uint64, judge func(order int, src string, res *Result)) {
+	t.Helper()
+	orders := append([][]int(nil), given...)
+	rng := rand.New(rand.NewPCG(seed, seed+1))
+	for k := 0; k < n; k++ {
+		orders = append(orders, rng.Perm(len(lines)))
+	}
+	for i, o := range orders {
+		perm := make([]string, len(o))
+		for k, j := range o {
+			perm[k] = lines[j]
+		}
+		src := "ground gnd\n" + strings.Join(perm, "\n") + "\n"
+		res, err := Source("t.nodal", []byte(src), nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		judge(i, src, res)
 	}
 }
