@@ -252,22 +252,7 @@ func TestDriveRangeErrors(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		found := false
-		for _, f := range res.Diags {
-			if f.Rule == c.rule {
-				found = true
-				pos := res.Fset.Position(f.Pos)
-				if at := fmt.Sprintf("%d:%d", pos.Line, pos.Column); at != c.at || !strings.Contains(f.Message, c.says) {
-					t.Errorf("%q: %s at %s %q, want at %s saying %q", c.src, f.Rule, at, f.Message, c.at, c.says)
-				}
-			}
-		}
-		if !found {
-			t.Errorf("%q: findings %v, want %s", c.src, driveRules(res), c.rule)
-		}
-		if res.Solved != nil && res.Solved.OP != nil {
-			t.Errorf("%q: judged although its drive is refused", c.src)
-		}
+		wantRefused(t, c.src, res, c.rule, c.at, c.says, "is refused")
 	}
 }
 

@@ -129,22 +129,7 @@ func TestPortDriveErrors(t *testing.T) {
 			}
 			continue
 		}
-		found := false
-		for _, f := range res.Diags {
-			if f.Rule == c.rule {
-				found = true
-				pos := res.Fset.Position(f.Pos)
-				if at := fmt.Sprintf("%d:%d", pos.Line, pos.Column); at != c.at || !strings.Contains(f.Message, c.says) {
-					t.Errorf("%q: %s at %s %q, want at %s saying %q", c.src, f.Rule, at, f.Message, c.at, c.says)
-				}
-			}
-		}
-		if !found {
-			t.Errorf("%q: findings %v, want %s", c.src, driveRules(res), c.rule)
-		}
-		if res.Solved != nil && res.Solved.OP != nil {
-			t.Errorf("%q: judged although its drive could not be placed", c.src)
-		}
+		wantRefused(t, c.src, res, c.rule, c.at, c.says, "could not be placed")
 	}
 }
 
@@ -227,5 +212,28 @@ func TestPortDriveWorstCase(t *testing.T) {
 	wantLo, wantHi := v*r2/(rs+r1*(1+tol)+r2), v*r2/(rs+r1*(1-tol)+r2)
 	if rel(lo, wantLo) > 1e-9 || rel(hi, wantHi) > 1e-9 {
 		t.Errorf("tap spans %.12g … %.12g V, voltage division gives %.12g … %.12g V", lo, hi, wantLo, wantHi)
+	}
+}
+
+// wantRefused checks that the design src gave a finding of rule at at
+// (line:column) whose message says says, and was not judged (why says
+// what became of its drive).
+func wantRefused(t *testing.T, src string, res *Result, rule, at, says, why string) {
+	t.Helper()
+	found := false
+	for _, f := range res.Diags {
+		if f.Rule == rule {
+			found = true
+			pos := res.Fset.Position(f.Pos)
+			if got := fmt.Sprintf("%d:%d", pos.Line, pos.Column); got != at || !strings.Contains(f.Message, says) {
+				t.Errorf("%q: %s at %s %q, want at %s saying %q", src, f.Rule, got, f.Message, at, says)
+			}
+		}
+	}
+	if !found {
+		t.Errorf("%q: findings %v, want %s", src, driveRules(res), rule)
+	}
+	if res.Solved != nil && res.Solved.OP != nil {
+		t.Errorf("%q: judged although its drive %s", src, why)
 	}
 }
