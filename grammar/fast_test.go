@@ -157,27 +157,39 @@ func mutate(r *rand.Rand, line string) string {
 
 func TestFastPathMatchesGrammarOnRandomLines(t *testing.T) {
 	r := rand.New(rand.NewPCG(6, 6))
-	var valid []string
+	valid := validLines()
+	for round := 0; round < 300; round++ {
+		sameTree(t, "random lines", randomSource(r, valid))
+	}
+}
+
+// validLines returns lines the grammar takes: a generated random design's
+// and the statements of testdata/statements.nodal, and then extra.
+func validLines(extra ...string) []string {
 	var b bytes.Buffer
 	(&gen.Random{Parts: 400, Seed: 9}).Write(&b)
-	valid = strings.Split(b.String(), "\n")
+	valid := strings.Split(b.String(), "\n")
 	td, _ := os.ReadFile("testdata/statements.nodal")
 	valid = append(valid, strings.Split(string(td), "\n")...)
-	for round := 0; round < 300; round++ {
-		var src strings.Builder
-		for i := 0; i < 1+r.IntN(300); i++ {
-			switch r.IntN(3) {
-			case 0:
-				src.WriteString(randomLine(r))
-			case 1:
-				src.WriteString(mutate(r, valid[r.IntN(len(valid))]))
-			default:
-				src.WriteString(valid[r.IntN(len(valid))])
-			}
-			src.WriteByte('\n')
+	return append(valid, extra...)
+}
+
+// randomSource returns up to 300 lines, each a random line, a valid one
+// mutated, or a valid one as it is.
+func randomSource(r *rand.Rand, valid []string) []byte {
+	var src strings.Builder
+	for i := 0; i < 1+r.IntN(300); i++ {
+		switch r.IntN(3) {
+		case 0:
+			src.WriteString(randomLine(r))
+		case 1:
+			src.WriteString(mutate(r, valid[r.IntN(len(valid))]))
+		default:
+			src.WriteString(valid[r.IntN(len(valid))])
 		}
-		sameTree(t, "random lines", []byte(src.String()))
+		src.WriteByte('\n')
 	}
+	return []byte(src.String())
 }
 
 func FuzzFastPath(f *testing.F) {

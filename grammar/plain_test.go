@@ -146,27 +146,10 @@ func TestPlainMatchesGrammarOnGenerated(t *testing.T) {
 
 func TestPlainMatchesGrammarOnRandomLines(t *testing.T) {
 	r := rand.New(rand.NewPCG(7, 7))
-	var b bytes.Buffer
-	(&gen.Random{Parts: 400, Seed: 9}).Write(&b)
-	valid := strings.Split(b.String(), "\n")
-	td, _ := os.ReadFile("testdata/statements.nodal")
-	valid = append(valid, strings.Split(string(td), "\n")...)
-	valid = append(valid, "resistor h0_1 (n0_1, n0_2) 10 mΩ rated 1 W", "resistor R2 (a, b) 4k7 tol 1% rated 250 mW",
+	valid := validLines("resistor h0_1 (n0_1, n0_2) 10 mΩ rated 1 W", "resistor R2 (a, b) 4k7 tol 1% rated 250 mW",
 		"source V1 (a, gnd) -5 V", "resistor R3 (x, y) 1 kΩ tol -1 %", `resistor "R 4" ("+5V", out) 2R2 dcr R47`)
 	for round := 0; round < 300; round++ {
-		var src strings.Builder
-		for i := 0; i < 1+r.IntN(300); i++ {
-			switch r.IntN(3) {
-			case 0:
-				src.WriteString(randomLine(r))
-			case 1:
-				src.WriteString(mutate(r, valid[r.IntN(len(valid))]))
-			default:
-				src.WriteString(valid[r.IntN(len(valid))])
-			}
-			src.WriteByte('\n')
-		}
-		samePlain(t, "random lines", []byte(src.String()))
+		samePlain(t, "random lines", randomSource(r, valid))
 	}
 }
 
