@@ -110,12 +110,8 @@ func TestHoverPastRatingWarns(t *testing.T) {
 }
 
 func TestHoverEscapesNames(t *testing.T) {
-	s := newSession(t, Options{})
-	s.initialize()
 	src := "ground gnd\nsource V1 (\"<img src=x>*\", gnd) 5 V\nresistor R1 (\"<img src=x>*\", gnd) 1 kΩ\n"
-	u := s.write("odd.nodal", src)
-	s.open(u, src)
-	s.diagnostics(u, 1)
+	s, u := openChecked(t, "odd.nodal", src)
 	h := hoverText(t, s, u, pos(t, src, "<img", 1, 0))
 	if strings.Contains(strings.ReplaceAll(h, `\<`, ""), "<img") || !strings.Contains(h, `\<img src\=x\>\*`) || !strings.Contains(h, "5\\.00 V") {
 		t.Errorf("net name not escaped:\n%s", h)
@@ -238,12 +234,8 @@ func TestFormatting(t *testing.T) {
 }
 
 func TestCodeActions(t *testing.T) {
-	s := newSession(t, Options{})
-	s.initialize()
 	src := "ground gnd\nsource V1 (vin, gnd) 5 V\nresistor R1 (vin, gnd) 1 kΩ\nresistor R2 (vim, gnd) 4.7\n"
-	u := s.write("a.nodal", src)
-	s.open(u, src)
-	s.diagnostics(u, 1)
+	s, u := openChecked(t, "a.nodal", src)
 	acts, err := s.server.CodeAction(s.ctx, &protocol.CodeActionParams{TextDocument: protocol.TextDocumentIdentifier{URI: u},
 		Range: protocol.Range{Start: protocol.Position{Line: 3}, End: protocol.Position{Line: 3, Character: 30}}})
 	if err != nil {
@@ -304,12 +296,8 @@ func endPos(src string) protocol.Position {
 // case and a net's range. The divider is invented: 12 V over 1 kΩ and
 // 2 kΩ, each 5 %; the tap moves around 8 V.
 func TestHoverWorstCase(t *testing.T) {
-	s := newSession(t, Options{})
-	s.initialize()
 	src := "ground gnd\nsource V1 (vin, gnd) 12 V\nresistor R1 (vin, tap) 1 kΩ tol 5% rated 250 mW\nresistor R2 (tap, gnd) 2 kΩ tol 5% rated 250 mW\n"
-	u := s.write("w.nodal", src)
-	s.open(u, src)
-	s.diagnostics(u, 1)
+	s, u := openChecked(t, "w.nodal", src)
 	if h := hoverText(t, s, u, pos(t, src, "R2", 0, 0)); !strings.Contains(h, "worst case over the tolerances") {
 		t.Errorf("hover on R2 without its worst case:\n%s", h)
 	}
@@ -322,12 +310,8 @@ func TestHoverWorstCase(t *testing.T) {
 // range, the middle it is solved at, and the net's range. The port sits
 // behind no resistance here, so its net spans the drive's range exactly.
 func TestHoverDriveRange(t *testing.T) {
-	s := newSession(t, Options{})
-	s.initialize()
 	src := "ground gnd\nport vin 4.5 V to 5.5 V\nresistor R1 (vin, gnd) 1 kΩ\nport vb 2 V series 10 Ω\nresistor R2 (vb, gnd) 1 kΩ\n"
-	u := s.write("r.nodal", src)
-	s.open(u, src)
-	s.diagnostics(u, 1)
+	s, u := openChecked(t, "r.nodal", src)
 	h := hoverText(t, s, u, pos(t, src, "vin", 0, 0))
 	for _, want := range []string{"voltage drive of 4\\.50 V to 5\\.50 V", "5\\.00 V", "from 4\\.50 V to 5\\.50 V over the tolerances and drive ranges"} {
 		if !strings.Contains(h, want) {
@@ -342,12 +326,8 @@ func TestHoverDriveRange(t *testing.T) {
 // TestHoverRegulator: hover on a regulator in dropout says what it
 // delivers, draws and dissipates, and its region.
 func TestHoverRegulator(t *testing.T) {
-	s := newSession(t, Options{})
-	s.initialize()
 	src := "ground gnd\nsource VB (vb, gnd) 3.4 V\nregulator U1 (vb, v3, gnd) 3.3 V dropout 300 mV quiescent 1 mA\nresistor RL (v3, gnd) 31 Ω\n"
-	u := s.write("r.nodal", src)
-	s.open(u, src)
-	s.diagnostics(u, 1)
+	s, u := openChecked(t, "r.nodal", src)
 	h := hoverText(t, s, u, pos(t, src, "U1", 0, 0))
 	// 3.1 V into 31 Ω: 100 mA out, 101 mA in at 3.4 V; (3.4 − 3.1)·0.1 +
 	// 3.4·0.001 = 33.4 mW dissipated (energy balance).
@@ -356,4 +336,16 @@ func TestHoverRegulator(t *testing.T) {
 			t.Errorf("hover on U1 lacks %q:\n%s", want, h)
 		}
 	}
+}
+
+// openChecked starts a session, writes src to a file of that name, opens
+// it and waits for its first diagnostics: the design has been checked.
+func openChecked(t *testing.T, name, src string) (*session, uri.URI) {
+	t.Helper()
+	s := newSession(t, Options{})
+	s.initialize()
+	u := s.write(name, src)
+	s.open(u, src)
+	s.diagnostics(u, 1)
+	return s, u
 }
