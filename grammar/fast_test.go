@@ -47,6 +47,15 @@ func lineOf(src []byte, n int) string {
 
 // Every .nodal file in the repository's test data and examples.
 func TestFastPathMatchesGrammarOnTestdata(t *testing.T) {
+	if n := eachNodalFile(t, func(p string, src []byte) { sameTree(t, p, src) }); n == 0 {
+		t.Fatal("no test data found")
+	}
+}
+
+// eachNodalFile hands every .nodal file of the package's and the
+// repository's test data and the examples to f, and returns how many.
+func eachNodalFile(t *testing.T, f func(path string, src []byte)) int {
+	t.Helper()
 	n := 0
 	for _, root := range []string{"testdata", "../testdata", "../examples"} {
 		filepath.WalkDir(root, func(p string, e fs.DirEntry, err error) error {
@@ -57,14 +66,12 @@ func TestFastPathMatchesGrammarOnTestdata(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			sameTree(t, p, src)
+			f(p, src)
 			n++
 			return nil
 		})
 	}
-	if n == 0 {
-		t.Fatal("no test data found")
-	}
+	return n
 }
 
 func TestFastPathMatchesGrammarOnGenerated(t *testing.T) {

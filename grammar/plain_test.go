@@ -2,10 +2,8 @@ package grammar
 
 import (
 	"bytes"
-	"io/fs"
 	"math/rand/v2"
 	"os"
-	"path/filepath"
 	"reflect"
 	"slices"
 	"strings"
@@ -97,21 +95,8 @@ func samePlain(t *testing.T, what string, src []byte) (plain int) {
 }
 
 func TestPlainMatchesGrammarOnTestdata(t *testing.T) {
-	n, plain := 0, 0
-	for _, root := range []string{"testdata", "../testdata", "../examples"} {
-		filepath.WalkDir(root, func(p string, e fs.DirEntry, err error) error {
-			if err != nil || e.IsDir() || !strings.HasSuffix(p, ".nodal") {
-				return nil
-			}
-			src, err := os.ReadFile(p)
-			if err != nil {
-				t.Fatal(err)
-			}
-			plain += samePlain(t, p, src)
-			n++
-			return nil
-		})
-	}
+	plain := 0
+	n := eachNodalFile(t, func(p string, src []byte) { plain += samePlain(t, p, src) })
 	if n == 0 || plain == 0 {
 		t.Fatalf("%d files, %d plain lines: no test data found", n, plain)
 	}
