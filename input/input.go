@@ -23,9 +23,11 @@
 // # Size
 //
 // Every read is capped (DefaultMaxSize unless set). A file past the cap is
-// refused with a *TooLargeError before its content is read; a file that
-// grows while it is read is cut at the cap and refused too. ReadAll applies
-// the same cap to a stream such as standard input.
+// refused with a *TooLargeError before its content is read. A file is read
+// into one buffer of the size it states; one that grows past the cap while
+// it is read is refused with a *TooLargeError, and one that otherwise grows,
+// shrinks or changes under the read with ErrChanged. ReadAll applies the
+// same cap to a stream such as standard input.
 //
 // # Identity
 //
@@ -57,6 +59,9 @@ var ErrOutside = errors.New("outside the folders nodal reads")
 
 // ErrNotRegular is returned for a device, pipe, socket or folder.
 var ErrNotRegular = errors.New("not a regular file (a device, pipe, socket or folder)")
+
+// ErrChanged is returned for a file that changed while it was read.
+var ErrChanged = errors.New("changed while it was read; check it again once it is written")
 
 // TooLargeError is returned for a file or stream past the size cap.
 type TooLargeError struct {
@@ -218,25 +223,102 @@ func readRegular(name, path string, max int64) ([]byte, error) {
 	if !info.Mode().IsRegular() {
 		return fail(ErrNotRegular)
 	}
-	b, err := ReadAll(f, max)
+	b, err := readOpen(f, info, max)
 	if err != nil {
 		return fail(err)
 	}
 	return b, nil
 }
 
+// openFile is what readOpen needs of an open file.
+type openFile interface {
+	io.Reader
+	Stat() (fs.FileInfo, error)
+}
+
+// readOpen reads the open regular file f, whose Stat gave info, into one
+// buffer of the size info states: no copies, no buffer regrown. A file
+// that grows or shrinks while it is read, or whose size or time of change
+// differs once it is read, is refused with ErrChanged (with a
+// *TooLargeError when it grew past max): what was read is not a version of
+// the file that ever was. A file that states no size (0, as some virtual
+// files do) is read as a stream within max.
+func readOpen(f openFile, info fs.FileInfo, max int64) ([]byte, error) {
+	size := info.Size()
+	if size > max {
+		return nil, &TooLargeError{Size: size, Limit: max}
+	}
+	if size == 0 {
+		return readAtMost(f, 0, max)
+	}
+	b := make([]byte, size)
+	if _, err := io.ReadFull(f, b); err != nil {
+		if err == io.ErrUnexpectedEOF || err == io.EOF {
+			return nil, ErrChanged // shorter than it was
+		}
+		return nil, err
+	}
+	// One byte more would be a file that grew: how far (up to the cap)
+	// decides which error it is.
+	if n, err := io.Copy(io.Discard, io.LimitReader(f, max-size+1)); err != nil {
+		return nil, err
+	} else if n > 0 {
+		if size+n > max {
+			return nil, &TooLargeError{Size: max + 1, Limit: max}
+		}
+		return nil, ErrChanged
+	}
+	after, err := f.Stat()
+	if err != nil {
+		return nil, err
+	}
+	if after.Size() != size || !after.ModTime().Equal(info.ModTime()) {
+		return nil, ErrChanged
+	}
+	return b, nil
+}
+
 // ReadAll reads a stream to its end, or fails with a *TooLargeError as
-// soon as it passes maxSize bytes (0: DefaultMaxSize).
+// soon as it passes maxSize bytes (0: DefaultMaxSize). A regular file (a
+// redirected standard input) is read into one buffer of the size it has
+// left; what it holds past that is read too, within the cap.
 func ReadAll(rd io.Reader, maxSize int64) ([]byte, error) {
 	if maxSize <= 0 {
 		maxSize = DefaultMaxSize
 	}
-	b, err := io.ReadAll(io.LimitReader(rd, maxSize+1))
-	if err != nil {
-		return nil, err
+	hint := int64(0)
+	if f, ok := rd.(*os.File); ok {
+		if info, err := f.Stat(); err == nil && info.Mode().IsRegular() {
+			if at, err := f.Seek(0, io.SeekCurrent); err == nil && at < info.Size() {
+				hint = info.Size() - at
+			}
+		}
 	}
-	if int64(len(b)) > maxSize {
-		return nil, &TooLargeError{Size: maxSize + 1, Limit: maxSize}
+	return readAtMost(rd, hint, maxSize)
+}
+
+// readAtMost reads rd to its end into a buffer sized for hint bytes (grown
+// if there are more), failing with a *TooLargeError past max.
+func readAtMost(rd io.Reader, hint, max int64) ([]byte, error) {
+	// One byte past the hint, so that a read that fills the buffer
+	// exactly can find the end without growing it.
+	b := make([]byte, 0, min(hint, max)+1)
+	lr := io.LimitReader(rd, max+1)
+	for {
+		if len(b) == cap(b) {
+			b = append(b, 0)[:len(b)] // grows by the runtime's rule
+		}
+		n, err := lr.Read(b[len(b):cap(b)])
+		b = b[:len(b)+n]
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			return nil, err
+		}
+	}
+	if int64(len(b)) > max {
+		return nil, &TooLargeError{Size: max + 1, Limit: max}
 	}
 	return b, nil
 }

@@ -2,12 +2,14 @@ package input
 
 import (
 	"errors"
+	"io"
 	"io/fs"
 	"os"
 	"path/filepath"
 	"strings"
 	"syscall"
 	"testing"
+	"time"
 )
 
 // tree makes root/{repo/.git, repo/a.nodal, repo/sub/b.nodal,
@@ -198,5 +200,136 @@ func TestTreeRoot(t *testing.T) {
 	want, _ = filepath.EvalSymlinks(outside)
 	if err != nil || got != want {
 		t.Errorf("TreeRoot(outside) = %q, %v; want %q (outside a repository, the folder itself)", got, err, want)
+	}
+}
+
+// changing is an open file that something changes as its first read
+// begins.
+type changing struct {
+	*os.File
+	change func()
+}
+
+func (c *changing) Read(p []byte) (int, error) {
+	if c.change != nil {
+		c.change()
+		c.change = nil
+	}
+	return c.File.Read(p)
+}
+
+func TestChangedWhileRead(t *testing.T) {
+	const text = "ground gnd\nresistor R1 a gnd 1 kohm\n"
+	for _, c := range []struct {
+		name   string
+		max    int64
+		change func(t *testing.T, p string)
+		want   error // nil: the text is read
+	}{
+		{"unchanged", 100, func(*testing.T, string) {}, nil},
+		{"grows", 100, func(t *testing.T, p string) { appendTo(t, p, "ground g2\n") }, ErrChanged},
+		{"grows past the cap", int64(len(text)) + 2, func(t *testing.T, p string) { appendTo(t, p, "ground g2\n") }, &TooLargeError{}},
+		{"shrinks", 100, func(t *testing.T, p string) {
+			if err := os.Truncate(p, 5); err != nil {
+				t.Fatal(err)
+			}
+		}, ErrChanged},
+		{"rewritten at the same size", 100, func(t *testing.T, p string) {
+			info, err := os.Stat(p)
+			if err != nil {
+				t.Fatal(err)
+			}
+			write(t, p, strings.ToUpper(text))
+			later := info.ModTime().Add(time.Hour)
+			if err := os.Chtimes(p, later, later); err != nil {
+				t.Fatal(err)
+			}
+		}, ErrChanged},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			p := filepath.Join(t.TempDir(), "a.nodal")
+			write(t, p, text)
+			f, err := os.Open(p)
+			if err != nil {
+				t.Fatal(err)
+			}
+			defer f.Close()
+			info, err := f.Stat()
+			if err != nil {
+				t.Fatal(err)
+			}
+			b, err := readOpen(&changing{File: f, change: func() { c.change(t, p) }}, info, c.max)
+			var tl *TooLargeError
+			switch want := c.want.(type) {
+			case nil:
+				if err != nil || string(b) != text {
+					t.Errorf("got %q, %v; want the text", b, err)
+				}
+			case *TooLargeError:
+				if !errors.As(err, &tl) || tl.Limit != c.max {
+					t.Errorf("got %v, want a file past the cap of %d", err, c.max)
+				}
+			default:
+				if !errors.Is(err, want) {
+					t.Errorf("got %q, %v; want %v", b, err, want)
+				}
+			}
+			if err != nil && b != nil {
+				t.Errorf("refused, yet returned %q", b)
+			}
+		})
+	}
+}
+
+func appendTo(t *testing.T, p, s string) {
+	t.Helper()
+	f, err := os.OpenFile(p, os.O_APPEND|os.O_WRONLY, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	if _, err := f.WriteString(s); err != nil {
+		t.Fatal(err)
+	}
+}
+
+// A redirected standard input is a regular file: ReadAll reads what is
+// left of it from where it stands, within the cap.
+func TestReadAllRegularFile(t *testing.T) {
+	p := filepath.Join(t.TempDir(), "in.nodal")
+	write(t, p, "ground gnd\n")
+	f, err := os.Open(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	if _, err := f.Seek(7, io.SeekStart); err != nil {
+		t.Fatal(err)
+	}
+	if b, err := ReadAll(f, 100); err != nil || string(b) != "gnd\n" {
+		t.Errorf("from byte 7: %q, %v", b, err)
+	}
+	if _, err := f.Seek(0, io.SeekStart); err != nil {
+		t.Fatal(err)
+	}
+	var tl *TooLargeError
+	if _, err := ReadAll(f, 10); !errors.As(err, &tl) || tl.Limit != 10 {
+		t.Errorf("11 bytes past a 10-byte cap: %v", err)
+	}
+	if b, err := ReadAll(f, 100); err != nil || len(b) != 0 {
+		t.Errorf("at the end: %q, %v", b, err)
+	}
+}
+
+// A file that states no size (a virtual file) is still read, to its end.
+func TestReadNoStatedSize(t *testing.T) {
+	const p = "/proc/self/status"
+	info, err := os.Stat(p)
+	if err != nil || info.Size() != 0 {
+		t.Skipf("no sizeless virtual file here: %v", err)
+	}
+	b, err := ReadRegular(p, 0)
+	if err != nil || !strings.Contains(string(b), "Name:") {
+		t.Errorf("%s: %d bytes, %v", p, len(b), err)
 	}
 }
