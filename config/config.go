@@ -18,6 +18,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"sync"
 
 	"github.com/BurntSushi/toml"
 	"github.com/bmatcuk/doublestar/v4"
@@ -120,8 +121,11 @@ func (es Errors) Error() string {
 }
 
 // libError is the form of the TOML library's decoding errors that are not
-// a ParseError, such as a number where a string belongs.
-var libError = regexp.MustCompile(`^toml: line (\d+) \(last key "([^"]*)"\): (.*)$`)
+// a ParseError, such as a number where a string belongs. It is compiled
+// when such an error is first worded, not at every start of the program.
+var libError = sync.OnceValue(func() *regexp.Regexp {
+	return regexp.MustCompile(`^toml: line (\d+) \(last key "([^"]*)"\): (.*)$`)
+})
 
 // raw is the shape of nodal.toml.
 type raw struct {
@@ -154,7 +158,7 @@ func Parse(name string, src []byte, known func(string) bool, suggest func(string
 			}
 			return nil, &Error{File: name, Line: pe.Position.Line, Key: pe.LastKey, Msg: msg}
 		}
-		if m := libError.FindStringSubmatch(err.Error()); m != nil {
+		if m := libError().FindStringSubmatch(err.Error()); m != nil {
 			line, _ := strconv.Atoi(m[1])
 			return nil, &Error{File: name, Line: line, Key: m[2], Msg: "wrong type of value: " + m[3]}
 		}

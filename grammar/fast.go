@@ -11,14 +11,18 @@ package grammar
 //   - one participle call reads as many consecutive part lines as it can,
 //     through the Parseable fastRun, each line by readPart, a hand-written
 //     reader of the subset of Part
-//     that has no expressions in parentheses. It builds exactly the tree the
+//     that has no expressions in parentheses, or by readHeader, which reads
+//     the design, ground and include lines. They build exactly the tree the
 //     grammar builds (the same nodes, values and positions: see
-//     TestFastPathMatchesGrammar) and gives up with participle.NextMatch on
+//     TestFastPathMatchesGrammar) and give up with participle.NextMatch on
 //     anything else;
 //   - the line it stopped at is read by the grammar alone, on its own, as
 //     ParseReference reads every line, so that other statements, syntax
 //     errors and their messages are always the grammar's; then the fast
 //     path goes on with the next line.
+//
+// The batch parser is small (its one node is fastRun) and cheap to build;
+// the grammar's parser is built only when a line needs it (parse.go).
 
 import (
 	"sync"
@@ -131,6 +135,10 @@ func (r *fastRun) Parse(lex *lexer.PeekingLexer) error {
 			r.sts = append(r.sts, st)
 			continue
 		}
+		if st := readHeader(lex); st != nil {
+			r.sts = append(r.sts, st)
+			continue
+		}
 		if len(r.sts) == 0 {
 			return participle.NextMatch
 		}
@@ -151,6 +159,51 @@ func (r *fastRun) readPartLine(lex *lexer.PeekingLexer, nodes *partNodes) *State
 	nodes.st.Pos = nodes.part.Pos
 	nodes.st.Part = &nodes.part
 	return &nodes.st
+}
+
+// readHeader reads a design, ground or include line and its Newline as
+// the grammar reads them (design NAME "title"?, ground NAME, include
+// "path"), or consumes nothing and returns nil. The grammar's String node
+// ends where the next token starts, the Newline here.
+func readHeader(lex *lexer.PeekingLexer) *Statement {
+	t := lex.Peek()
+	if t.Type != TokKeyword {
+		return nil
+	}
+	cp := lex.MakeCheckpoint()
+	lex.Next()
+	str := func() *String {
+		s := lex.Peek()
+		if s.Type != TokString {
+			return nil
+		}
+		lex.Next()
+		return &String{Pos: s.Pos, EndPos: lex.Peek().Pos, Text: s.Value}
+	}
+	st := &Statement{Pos: t.Pos}
+	switch t.Value {
+	case "design":
+		d := &Design{Name: &Name{}}
+		if readName(lex, d.Name) {
+			d.Title = str()
+			st.Design = d
+		}
+	case "ground":
+		g := &Ground{Net: &Name{}}
+		if readName(lex, g.Net) {
+			st.Ground = g
+		}
+	case "include":
+		if p := str(); p != nil {
+			st.Include = &Include{Path: p}
+		}
+	}
+	if st.Design == nil && st.Ground == nil && st.Include == nil || lex.Peek().Type != TokNewline {
+		lex.LoadCheckpoint(cp)
+		return nil
+	}
+	lex.Next()
+	return st
 }
 
 func readName(lex *lexer.PeekingLexer, n *Name) bool {

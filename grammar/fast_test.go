@@ -115,6 +115,32 @@ func TestFastPathIsTaken(t *testing.T) {
 	}
 }
 
+// The design, ground and include lines are the fast path's too, so that a
+// design of them and part lines needs no grammar parser built.
+func TestFastPathTakesHeaders(t *testing.T) {
+	src := "design rig \"bench rig\"\nground gnd\ninclude \"parts/common.nodal\"\nresistor R1 (a, gnd) 1 kΩ\ndesign d2\n"
+	pl, err := (definition{}).Lex("x", strings.NewReader(src))
+	if err != nil {
+		t.Fatal(err)
+	}
+	pk, err := lexerUpgrade(pl.(*sliceLexer))
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := batchParser().ParseFromLexer(pk)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if b.Run == nil || len(b.Run.sts) != 5 {
+		t.Fatalf("the fast path read %+v, not the five lines", b.Run)
+	}
+	sts := b.Run.sts
+	if sts[0].Design == nil || sts[0].Design.Title == nil || sts[1].Ground == nil || sts[2].Include == nil || sts[3].Part == nil || sts[4].Design == nil || sts[4].Design.Title != nil {
+		t.Fatalf("the fast path read the wrong statements: %+v", sts)
+	}
+	sameTree(t, "headers", []byte(src))
+}
+
 // vocabulary of tokens for random lines: every token type, the words the
 // grammar treats specially, and punctuation in and out of place.
 var vocabulary = []string{

@@ -12,6 +12,7 @@ import (
 	"regexp"
 	"strconv"
 	"strings"
+	"sync"
 )
 
 // FingerprintName is the key of nodal's entry in a SARIF result's
@@ -20,23 +21,29 @@ const FingerprintName = "nodalFinding/v1"
 
 // numberRE matches a number standing on its own: not the digits of a name
 // such as R1 or ROW2.C4, but a value ("1.44 W", "4k7"), a line ("line 4")
-// or a position ("lib.nodal:4:1").
-var numberRE = regexp.MustCompile(`(^|[^\pL\pN_.])[-+]?[0-9]+(\.[0-9]+)?([eE][-+]?[0-9]+)?`)
+// or a position ("lib.nodal:4:1"). Both expressions are compiled when first
+// used, not at every start of the program: the Unicode classes alone take
+// a tenth of a millisecond, and most runs print no fingerprint.
+var numberRE = sync.OnceValue(func() *regexp.Regexp {
+	return regexp.MustCompile(`(^|[^\pL\pN_.])[-+]?[0-9]+(\.[0-9]+)?([eE][-+]?[0-9]+)?`)
+})
 
 // lineRE matches a reference to a line in a message: "line 4", or
 // "lib/stages.nodal:4" with an optional column.
-var lineRE = regexp.MustCompile(`(\bline |\.nodal:)[0-9]+(:[0-9]+)?`)
+var lineRE = sync.OnceValue(func() *regexp.Regexp {
+	return regexp.MustCompile(`(\bline |\.nodal:)[0-9]+(:[0-9]+)?`)
+})
 
 // Shape returns a message with its numbers masked: what stays when values
 // and line numbers change.
 func Shape(msg string) string {
-	return numberRE.ReplaceAllString(msg, "${1}#")
+	return numberRE().ReplaceAllString(msg, "${1}#")
 }
 
 // Lineless returns a message with its references to lines masked: two
 // findings whose Lineless messages are equal say the same thing.
 func Lineless(msg string) string {
-	return lineRE.ReplaceAllString(msg, "${1}#")
+	return lineRE().ReplaceAllString(msg, "${1}#")
 }
 
 // Key identifies a finding without its line: the rule, the design, and
