@@ -112,22 +112,16 @@ type builder struct {
 	failed  []string // includes that could not be read, for later messages
 
 	// plain is the checked file's tree, whose plain lines (see topStmt)
-	// are made into nodes, one at a time, in nodes (see lend).
+	// are built ahead (ahead.go).
 	plain *grammar.File
-	nodes grammar.PlainNodes
+	// sink, when set, takes the findings reported instead of found: a
+	// builder that fills plain lines ahead keeps them for the walk in file
+	// order to add (ahead.go).
+	sink *[]Finding
 }
 
-// lend gives st, when it is a plain line, its statement's nodes for as
-// long as it is looked at; giveBack takes them back. The nodes are reused
-// for the next plain line lent, so nothing may keep them.
-func (b *builder) lend(st *bodyStmt) {
-	if st.plain > 0 {
-		st.pt = b.plain.PlainStatement(int(st.plain-1), &b.nodes).Part
-	}
-}
-
-// partName is st's part or instance name, without lending a plain line
-// its nodes.
+// partName is st's part or instance name, without making a plain line's
+// nodes.
 func (b *builder) partName(st *bodyStmt) string {
 	if st.plain > 0 {
 		return b.plain.PlainName(int(st.plain - 1))
@@ -135,19 +129,13 @@ func (b *builder) partName(st *bodyStmt) string {
 	return st.pt.Name.Text
 }
 
-// partKind is st's kind or block word, without lending a plain line its
+// partKind is st's kind or block word, without making a plain line's
 // nodes.
 func (b *builder) partKind(st *bodyStmt) string {
 	if st.plain > 0 {
 		return b.plain.PlainKind(int(st.plain - 1))
 	}
 	return st.pt.Kind.Text
-}
-
-func (st *bodyStmt) giveBack() {
-	if st.plain > 0 {
-		st.pt = nil
-	}
 }
 
 // subject is a name being elaborated, inside instance inst (-1: the top
@@ -183,6 +171,10 @@ func (b *builder) reportSev(code Code, sev diag.Severity, pos, end diag.Pos, for
 		if !b.probing {
 			f.Inst = sc.inst // the scratch design's instances are not kept
 		}
+	}
+	if b.sink != nil {
+		*b.sink = append(*b.sink, f)
+		return
 	}
 	b.found.Add(f)
 }
@@ -276,6 +268,7 @@ func (b *builder) run(ast *grammar.File) {
 
 	b.file = topFile
 	topScope := &scope{blk: b.top, inst: -1}
+	plain := b.startAhead(topFile)
 	next := 0
 	var ports []pendingDrive
 	for _, ts := range top {
@@ -284,7 +277,7 @@ func (b *builder) run(ast *grammar.File) {
 			if bs := b.top.body[next]; !b.firstPart.IsValid() {
 				b.firstPart = bs.pos
 			}
-			b.stmt(topScope, b.top.body[next])
+			b.placePlain(plain.take(next))
 			next++
 			continue
 		}
@@ -330,6 +323,7 @@ func (b *builder) run(ast *grammar.File) {
 			next++
 		}
 	}
+	plain.finish()
 	b.drives(ports)
 	b.probeUnused()
 	b.unusedBlocks()

@@ -191,11 +191,15 @@ func (d *Design) Reserve(parts, nets int) {
 // Net returns the id of the named net, adding it if new; pos is recorded as
 // its first use.
 func (d *Design) Net(name string, pos, end diag.Pos) NetID {
+	return d.hashedNet(name, netHash(name), pos, end)
+}
+
+// hashedNet is Net for a name whose netHash h is known.
+func (d *Design) hashedNet(name string, h uint64, pos, end diag.Pos) NetID {
 	x := &d.netIndex
 	if 2*(x.n+1) > len(x.slots) {
 		x.reserve(2 * (x.n + 1))
 	}
-	h := netHash(name)
 	slot, id := x.find(name, h, d.Nets)
 	if id != NoNet {
 		return id

@@ -13,13 +13,13 @@ import (
 	"nodal/units"
 )
 
-// stmt elaborates one prepared statement in scope sc.
+// stmt elaborates one prepared statement in scope sc; the top level's
+// plain lines are built by ahead.go instead.
 func (b *builder) stmt(sc *scope, st *bodyStmt) {
-	b.lend(st)
 	b.sc = sc
 	savedSubject := b.subject
 	b.subject = subject{sc.inst, st.pt.Name.Text}
-	defer func() { b.sc, b.subject = nil, savedSubject; st.giveBack() }()
+	defer func() { b.sc, b.subject = nil, savedSubject }()
 	nets := make([]NetID, len(st.nets))
 	for i := range st.nets {
 		nets[i] = b.net(sc, st, i)

@@ -122,7 +122,7 @@ type netRef struct {
 
 // bodyStmt is one prepared part or instance statement.
 type bodyStmt struct {
-	pt       *grammar.Part // nil for a plain line but while it is lent (builder.lend)
+	pt       *grammar.Part // nil for a plain line (ahead.go reads it)
 	plain    int32         // 1 + the checked file's plain line it is, or 0
 	pos, end diag.Pos
 	kind     Kind

@@ -29,34 +29,52 @@ func (b *builder) part(sc *scope, st *bodyStmt, nets []NetID) {
 	// as the attribute table's setters take its address.
 	d.Parts = append(d.Parts, Part{Kind: kind, Local: pt.Name.Text, Pos: pos, End: end, Inst: sc.inst})
 	p := &d.Parts[len(d.Parts)-1]
-	drop := func() {
+	placed, invalid := b.fill(p, pt, nets)
+	if invalid {
+		b.r.Invalid = true
+	}
+	if !placed {
 		d.Parts = d.Parts[:len(d.Parts)-1]
 		b.countOnly(nets)
+		return
 	}
+	b.placed(p)
+}
 
+// fill reads a part statement's value, its pins (bound to nets, the
+// statement's nets in the order written) and its attributes into p, which
+// holds its kind, name and place. It reports whether p can be placed, and
+// whether it has a value the solver cannot use; what is wrong has been
+// reported. It reads nothing but the statement, so that plain lines are
+// filled on any goroutine (ahead.go).
+func (b *builder) fill(p *Part, pt *grammar.Part, nets []NetID) (placed, invalid bool) {
 	// Value first: for a source its unit decides the kind, and so the pins.
 	valueOK := b.value(p, pt)
 	if !valueOK {
-		b.r.Invalid = true
+		invalid = true
 		if p.Kind.shared() {
 			// Without a usable value a source is neither kind: its
 			// pins cannot be placed.
-			drop()
-			return
+			return false, invalid
 		}
 	}
 	info := p.Kind.Info()
 	if !b.pins(p, pt, nets, info) {
-		drop()
-		return
+		return false, invalid
 	}
 	// A refused value has said what the kind needs instead.
 	if !b.attrs(p, pt, info, valueOK || pt.Value == nil) {
-		b.r.Invalid = true
+		invalid = true
 	}
+	return true, invalid
+}
+
+// placed counts part p, just appended to the design, and its pins on
+// their nets (as AddPart counts them).
+func (b *builder) placed(p *Part) {
 	b.count++
-	for _, n := range p.Pins {
-		d.Nets[n].Pins++ // as AddPart counts them
+	for _, n := range p.Nets() {
+		b.r.Design.Nets[n].Pins++
 	}
 }
 

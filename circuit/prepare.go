@@ -91,16 +91,21 @@ func (b *builder) prepare(bd *blockDef) {
 	pinUsed := make([]bool, len(bd.pins))
 	defer func() { b.subject = subject{inst: -1} }()
 	for k, st := range bd.body {
-		if k > 0 {
-			bd.body[k-1].giveBack()
-		}
-		b.lend(st)
-		pt := st.pt
 		st.ok = true
 		b.subject = subject{inst: -1}
 		if bd.isTop {
-			b.subject.name = pt.Name.Text // a block's text has no instance path
+			b.subject.name = b.partName(st) // a block's text has no instance path
 		}
+		if st.plain > 0 {
+			// A plain line of the top level: a built-in part (collect.go)
+			// whose nets are read as it is built (ahead.go).
+			st.kind, _ = kindOf(b.partKind(st))
+			if r := repeats[k]; r >= 0 {
+				b.repeated(st, bd.body[r])
+			}
+			continue
+		}
+		pt := st.pt
 		if len(pt.Pins) <= len(st.pinNets) {
 			st.nets = st.pinNets[:len(pt.Pins)]
 		} else {
@@ -139,27 +144,29 @@ func (b *builder) prepare(bd *blockDef) {
 			continue
 		}
 		if r := repeats[k]; r >= 0 {
-			prev := bd.body[r]
-			what := prev.kind.String()
-			if prev.blk != nil {
-				what = prev.pt.Kind.Text // an instance is never a lent plain line
-			}
-			b.report(CodeDuplicateName, st.pos, st.end, "part name %s is already used by the %s on line %d", pt.Name.Text, what, b.file.Position(prev.pos).Line)
-			st.ok = false
+			b.repeated(st, bd.body[r])
 			continue
 		}
 		if st.blk != nil {
 			st.ok = b.bindInstance(bd, st)
 		}
 	}
-	if len(bd.body) > 0 {
-		bd.body[len(bd.body)-1].giveBack()
-	}
 	for j, used := range pinUsed {
 		if !used {
 			b.reportSev(CodeFloatingNet, diag.Warning, bd.pinPos[j], bd.pinPos[j]+diag.Pos(len(bd.pins[j])), "pin %s of block %s is connected to nothing inside the block; connect it, or remove it from the pin list", bd.pins[j], bd.name)
 		}
 	}
+}
+
+// repeated reports statement st, whose name statement prev already uses,
+// and leaves it out.
+func (b *builder) repeated(st, prev *bodyStmt) {
+	what := prev.kind.String()
+	if prev.blk != nil {
+		what = b.partKind(prev)
+	}
+	b.report(CodeDuplicateName, st.pos, st.end, "part name %s is already used by the %s on line %d", b.partName(st), what, b.file.Position(prev.pos).Line)
+	st.ok = false
 }
 
 // defaultUnits evaluates the parameter defaults once, in order, so that an
