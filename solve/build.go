@@ -139,10 +139,37 @@ func joinMsgs(s []string) string {
 
 // assemble stamps the equations linearised at the junctions' current
 // points, with sources scaled by lambda and gmin from every node to ground.
+// The parts whose stamps do not depend on the junctions' points come first
+// and are stamped once for each lambda (see linearStamps); each Newton step
+// then adds only the junctions, the constant-power loads and gmin.
 func (m *model) assemble(lambda, gmin float64) {
 	s := m.sys
-	s.begin()
 	m.lambda = lambda
+	if !m.linear.restore(s, lambda) {
+		s.begin()
+		m.stampLinear(lambda)
+		m.linear.save(s, lambda)
+	}
+	m.stampLoads()
+	for k := range m.junc {
+		j := &m.junc[k]
+		id, gd := j.eval(j.vj)
+		m.conductance(j.a, j.oa, j.c, j.oc, gd+Leakage)
+		ieq := id - gd*j.vj
+		s.inject(j.a, -ieq)
+		s.inject(j.c, ieq)
+	}
+	for k := 0; k < m.nNodes; k++ {
+		s.add(int32(k), int32(k), gmin)
+	}
+	s.end()
+}
+
+// stampLinear stamps the parts whose equations are fixed for a given
+// lambda: conductances, eliminated and branch-current sources, current
+// sources and the series resistance of junctions.
+func (m *model) stampLinear(lambda float64) {
+	s := m.sys
 	d := m.d
 	for i := range d.Parts {
 		p := &d.Parts[i]
@@ -176,19 +203,6 @@ func (m *model) assemble(lambda, gmin float64) {
 			}
 		}
 	}
-	m.stampLoads()
-	for k := range m.junc {
-		j := &m.junc[k]
-		id, gd := j.eval(j.vj)
-		m.conductance(j.a, j.oa, j.c, j.oc, gd+Leakage)
-		ieq := id - gd*j.vj
-		s.inject(j.a, -ieq)
-		s.inject(j.c, ieq)
-	}
-	for k := 0; k < m.nNodes; k++ {
-		s.add(int32(k), int32(k), gmin)
-	}
-	s.end()
 }
 
 func (m *model) netConductance(a, b circuit.NetID, g float64) {

@@ -170,6 +170,8 @@ type model struct {
 	junc   []junction
 	loads  []powerLoad
 	sys    *system
+	// linear is the system after its fixed stamps (see assemble).
+	linear linearStamps
 	lin    linearSolver
 	lambda float64
 	x, dx  []float64

@@ -124,3 +124,46 @@ func (s *system) residual(r, x, xlo []float64) {
 		r[i] = acc[i].hi + acc[i].lo
 	}
 }
+
+// linearStamps holds a system as it stood after the stamps that do not
+// change between Newton steps (model.stampLinear), for one lambda: the
+// diagonal and the right side with what their double-double sums carry
+// below them, and how many off-diagonal stamps had been written. Those
+// stamps come first in every assembly, so restoring this state and
+// stamping the rest gives, bit for bit, the system a full assembly gives;
+// the off-diagonal values they wrote stay in place between assemblies.
+type linearStamps struct {
+	ok           bool
+	lambda       float64
+	k            int
+	diag, diagLo []float64
+	rhs, rhsLo   []float64
+}
+
+// save records s after the fixed stamps for lambda.
+func (c *linearStamps) save(s *system, lambda float64) {
+	c.ok, c.lambda = true, lambda
+	c.k = s.k
+	if s.recording {
+		c.k = len(s.val)
+	}
+	c.diag = append(c.diag[:0], s.diag...)
+	c.diagLo = append(c.diagLo[:0], s.diagLo...)
+	c.rhs = append(c.rhs[:0], s.rhs...)
+	c.rhsLo = append(c.rhsLo[:0], s.rhsLo...)
+}
+
+// restore begins an assembly of s from the state saved for lambda and
+// reports whether there was one; a system still recording its first
+// assembly is never restored.
+func (c *linearStamps) restore(s *system, lambda float64) bool {
+	if !c.ok || c.lambda != lambda || s.recording {
+		return false
+	}
+	s.k = c.k
+	copy(s.diag, c.diag)
+	copy(s.diagLo, c.diagLo)
+	copy(s.rhs, c.rhs)
+	copy(s.rhsLo, c.rhsLo)
+	return true
+}
