@@ -14,6 +14,12 @@ package circuit
 // collector, so that the design and the findings are the ones a walk that
 // built each line itself would make.
 //
+// With workers, the walk does not copy a part into the design either: it
+// takes the part's slot in the part table (reserved for the whole design
+// by measure.go, so the table never moves) and hands the batch back to the
+// workers, which write its parts into their slots with the nets the walk
+// interned. The table is complete once finish returns.
+//
 // A line's record depends on nothing but the line: each worker has a
 // builder of its own (its own table of quantities, nodes and findings),
 // and binds the line's pins to stand-in nets 0 and 1, which the walk
@@ -68,6 +74,11 @@ type aheadLine struct {
 	from, to int32 // the line's findings: the batch's finds[from:to]
 	placed   bool  // else the walk only counts its nets (countOnly)
 	invalid  bool  // a value the solver cannot use
+	// nets are the nets the walk interned, and slot the index in the
+	// part table it gave the part, for a worker to write it there; -1
+	// when the walk wrote it, or there is none.
+	nets [2]NetID
+	slot int
 }
 
 // aheadBatch holds the records of a run of the top level's statements, in
@@ -98,10 +109,14 @@ type ahead struct {
 	// from free (so that the batches being built are always the first
 	// ones not yet taken by the walk, and a buffer is always on its way
 	// to the walk), and sent on ready[i] once built.
+	// The walk hands each batch back on place when parts has the
+	// design's part table at its full capacity, and on free otherwise.
 	ready []chan *aheadBatch
 	free  chan *aheadBatch
+	place chan *aheadBatch
 	next  atomic.Int64
 	wg    sync.WaitGroup
+	parts []Part
 
 	cur   *aheadBatch
 	batch int // cur's batch number; -1 before the first
@@ -138,24 +153,60 @@ func (b *builder) startAhead(file *diag.File) *ahead {
 	}
 	buffers := workers + 2
 	a.free = make(chan *aheadBatch, buffers)
+	a.place = make(chan *aheadBatch, buffers)
 	for range buffers {
 		a.free <- &aheadBatch{lines: make([]aheadLine, a.lines)}
 	}
+	if d := b.r.Design; len(d.Parts) == 0 && int64(cap(d.Parts)) >= b.top.parts && b.top.size <= b.opt.MaxParts {
+		// reserve made room for every part the top level can make.
+		a.parts = d.Parts[:cap(d.Parts)]
+	}
 	for range workers {
 		w := newWorker()
-		a.wg.Go(func() {
-			for {
-				bt := <-a.free
-				i := int(a.next.Add(1) - 1)
-				if i >= a.n {
-					return
-				}
-				w.build(a, bt, i)
-				a.ready[i] <- bt
-			}
-		})
+		a.wg.Go(func() { w.serve(a) })
 	}
 	return a
+}
+
+// serve builds batches until there are none left, and places the parts of
+// the batches the walk hands back until the walk is done.
+func (w *aheadWorker) serve(a *ahead) {
+	free := a.free
+	for {
+		select {
+		case bt, ok := <-a.place:
+			if !ok {
+				return
+			}
+			a.placeBatch(bt)
+			a.free <- bt
+		case bt := <-free:
+			i := int(a.next.Add(1) - 1)
+			if i >= a.n {
+				a.free <- bt
+				free = nil // no batch left to build
+				continue
+			}
+			w.build(a, bt, i)
+			a.ready[i] <- bt
+		}
+	}
+}
+
+// placeBatch writes the parts of bt that the walk gave a slot into the
+// part table.
+func (a *ahead) placeBatch(bt *aheadBatch) {
+	for k := range bt.lines {
+		l := &bt.lines[k]
+		if l.slot < 0 {
+			continue
+		}
+		p := &a.parts[l.slot]
+		*p = l.part
+		for j, n := range p.Nets() {
+			p.Pins[j] = l.nets[n]
+		}
+	}
 }
 
 // build builds batch i into bt.
@@ -163,7 +214,9 @@ func (w *aheadWorker) build(a *ahead, bt *aheadBatch, i int) {
 	lo, hi := i*a.lines, min(len(a.body), (i+1)*a.lines)
 	bt.finds = bt.finds[:0]
 	w.b.sink = &bt.finds
+	bt.lines = bt.lines[:hi-lo]
 	for k, st := range a.body[lo:hi] {
+		bt.lines[k].slot = -1
 		if st.plain > 0 {
 			w.line(&bt.lines[k], st)
 		}
@@ -212,36 +265,49 @@ func (a *ahead) advance() {
 		a.self.build(a, a.cur, a.batch)
 		return
 	}
-	if a.cur != nil {
-		a.free <- a.cur
-	}
+	a.handBack()
 	a.cur = <-a.ready[a.batch]
 }
 
+// handBack hands cur back to the workers: to place its parts, or to be
+// built again.
+func (a *ahead) handBack() {
+	switch {
+	case a.cur == nil:
+	case a.parts != nil:
+		a.place <- a.cur
+	default:
+		a.free <- a.cur
+	}
+	a.cur = nil
+}
+
 // finish waits for the workers to end, the batches the walk did not need
-// taken.
-func (a *ahead) finish() {
+// taken and every part placed in the part table.
+func (a *ahead) finish(d *Design) {
 	if a.free == nil {
 		return
 	}
 	for a.batch < a.n-1 {
 		a.advance()
 	}
-	if a.cur != nil {
-		a.free <- a.cur
-		a.cur = nil
-	}
+	a.handBack()
+	close(a.place)
 	a.wg.Wait()
+	if a.parts != nil && len(d.Parts) > 0 && &d.Parts[0] != &a.parts[0] {
+		panic("circuit: the part table moved while plain lines were placed in it")
+	}
 }
 
-// placePlain does, for a plain line built ahead into l with findings
-// finds, what stmt does for a statement in the walk's order: its nets
-// interned, its findings added, its part placed or its nets counted.
-func (b *builder) placePlain(l *aheadLine, finds []Finding) {
+// placePlain does, for plain statement k of the top level (an index into
+// its body), built ahead, what stmt does for a statement in the walk's
+// order: its nets interned, its findings added, its part placed (or given
+// its slot, for a worker to write) or its nets counted.
+func (b *builder) placePlain(a *ahead, k int) {
+	l, finds := a.take(k)
 	d := b.r.Design
-	var nets [2]NetID
-	for k := range nets {
-		nets[k] = d.hashedNet(l.net[k], l.hash[k], l.netPos[k], l.netEnd[k])
+	for k := range l.nets {
+		l.nets[k] = d.hashedNet(l.net[k], l.hash[k], l.netPos[k], l.netEnd[k])
 	}
 	for i := range finds {
 		b.found.Add(finds[i])
@@ -250,13 +316,23 @@ func (b *builder) placePlain(l *aheadLine, finds []Finding) {
 		b.r.Invalid = true
 	}
 	if !l.placed {
-		b.countOnly(nets[:])
+		b.countOnly(l.nets[:])
+		return
+	}
+	if a.parts != nil {
+		// A worker writes the part into its slot (placeBatch).
+		l.slot = len(d.Parts)
+		d.Parts = d.Parts[:l.slot+1]
+		b.count++
+		for _, n := range l.part.Nets() {
+			d.Nets[l.nets[n]].Pins++
+		}
 		return
 	}
 	d.Parts = append(d.Parts, l.part)
 	p := &d.Parts[len(d.Parts)-1]
 	for k, n := range p.Nets() {
-		p.Pins[k] = nets[n]
+		p.Pins[k] = l.nets[n]
 	}
 	b.placed(p)
 }

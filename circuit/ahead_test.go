@@ -61,10 +61,20 @@ func troubled(t *testing.T, parts int) []byte {
 // and their order, flags.
 func TestAheadAnySplit(t *testing.T) {
 	src := troubled(t, 6000)
+	// With a limit below the design's size no part table is reserved,
+	// and the walk writes every part itself.
+	for _, limit := range []int64{0, 3000} {
+		sameAnySplit(t, src, &Options{MaxParts: limit})
+	}
+}
+
+func sameAnySplit(t *testing.T, src []byte, opt *Options) {
+	t.Helper()
 	build := func(parse func(string, []byte) *grammar.File) *Result {
 		fset := diag.NewFileSet()
 		file := fset.AddFile("t.nodal", src)
-		return BuildFile(fset, file, src, parse("t.nodal", src), nil)
+		o := *opt
+		return BuildFile(fset, file, src, parse("t.nodal", src), &o)
 	}
 	want := build(grammar.ParseShared)
 	if len(want.Findings) < 100 || len(want.Design.Parts) < 5000 {

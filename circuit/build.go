@@ -277,7 +277,7 @@ func (b *builder) run(ast *grammar.File) {
 			if bs := b.top.body[next]; !b.firstPart.IsValid() {
 				b.firstPart = bs.pos
 			}
-			b.placePlain(plain.take(next))
+			b.placePlain(plain, next)
 			next++
 			continue
 		}
@@ -323,7 +323,7 @@ func (b *builder) run(ast *grammar.File) {
 			next++
 		}
 	}
-	plain.finish()
+	plain.finish(d)
 	b.drives(ports)
 	b.probeUnused()
 	b.unusedBlocks()
