@@ -10,8 +10,19 @@
 // ratings there once (Judge) for all the rating rules, and WorstCase the
 // worst case over tolerances and temperature. They report nothing
 // themselves; rules that need them list them in Requires and read their
-// results from Pass.ResultOf. Every analyzer runs at most once per design,
-// after the ones it requires.
+// results from Pass.ResultOf, which holds the results of the analyzers a
+// rule requires (directly or through another) and no others. Every
+// analyzer runs at most once per design, after the ones it requires.
+//
+// # Concurrency
+//
+// On a large design the analyzers whose requirements have run run at the
+// same time, on up to GOMAXPROCS goroutines: the solve beside the wiring
+// rules and the case-clash rule, the rating rules beside each other. What
+// a run gives (findings, results, errors) is what running them one after
+// another gives (see schedule.go). An analyzer's Run may therefore be
+// called concurrently with another's on the same design: it must treat the
+// design, the build and its requirements' results as read-only.
 //
 // # Findings
 //
@@ -145,42 +156,7 @@ func RunResults(fset *diag.FileSet, b *circuit.Result, analyzers []*Analyzer, cf
 	}
 	var found circuit.Findings
 	found.Use(b.Design)
-	results := map[*Analyzer]any{}
-	done := map[*Analyzer]bool{}
-	var run func(a *Analyzer) error
-	run = func(a *Analyzer) error {
-		if done[a] {
-			return nil
-		}
-		done[a] = true
-		for _, r := range a.Requires {
-			if err := run(r); err != nil {
-				return err
-			}
-		}
-		if a.Run == nil {
-			return nil // elaboration or a later pass reports it
-		}
-		if s, has := cfg.severity(a); has && s == diag.Off && a.Severity != diag.Off {
-			return nil // its findings would all be dropped
-		}
-		pass := &Pass{Analyzer: a, Fset: fset, Build: b, Design: b.Design, ResultOf: results, Config: cfg}
-		pass.report = func(d diag.Diagnostic) {
-			found.Add(circuit.Finding{Diagnostic: d, Inst: circuit.Unresolved})
-		}
-		res, err := a.Run(pass)
-		if err != nil {
-			return fmt.Errorf("%s: %w", a.Name, err)
-		}
-		results[a] = res
-		return nil
-	}
-	var err error
-	for _, a := range analyzers {
-		if err = run(a); err != nil {
-			break
-		}
-	}
+	results, done, err := newPlan(fset, b, analyzers, cfg, &found).run(workersFor(b.Design))
 	var owner [circuit.NumCodes]*Analyzer
 	for a := range done {
 		for _, c := range a.Codes {

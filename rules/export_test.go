@@ -1,0 +1,5 @@
+package rules
+
+// ConcurrentFrom lets the tests run the analyzers concurrently on designs
+// of any size.
+var ConcurrentFrom = &concurrentFrom
