@@ -141,13 +141,17 @@ func newJacobian(d *circuit.Design, r *solve.Result, tK float64, maxUnknowns int
 	// The symbolic Cholesky analysis of the (symmetric) pattern bounds the
 	// fill before anything is factored: networks without small
 	// separators (random ones) fill in far past what their sensitivities
-	// are worth.
-	var ch sparse.Cholesky
-	if err := ch.AnalyzeBudget(a, maxFill); err != nil {
-		return nil, &Skipped{Reason: fmt.Sprintf("its linearised equations would fill in past %d entries when factored", maxFill)}
-	}
-	if err := budget(j.n, 2*ch.NnzL()); err != nil {
-		return nil, err
+	// are worth. A factor of n unknowns has at most n(n+1)/2 entries: when
+	// a full one would pass both bounds, the analysis could only say so,
+	// and a small design is spared it (it costs as much as the factoring).
+	if full := j.n * (j.n + 1) / 2; full > maxFill || budget(j.n, 2*full) != nil {
+		var ch sparse.Cholesky
+		if err := ch.AnalyzeBudget(a, maxFill); err != nil {
+			return nil, &Skipped{Reason: fmt.Sprintf("its linearised equations would fill in past %d entries when factored", maxFill)}
+		}
+		if err := budget(j.n, 2*ch.NnzL()); err != nil {
+			return nil, err
+		}
 	}
 	if err := j.lu.Factor(a); err != nil {
 		return nil, &Skipped{Reason: fmt.Sprintf("its linearised equations are singular (%v), as with voltage sources in parallel", err)}

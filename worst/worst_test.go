@@ -2,6 +2,7 @@ package worst
 
 import (
 	"math"
+	"strings"
 	"testing"
 
 	"pgregory.net/rapid"
@@ -240,5 +241,42 @@ func TestPowerLoadFirstOrder(t *testing.T) {
 	out := b.d.LookupNet("out")
 	if res.Corners || math.Abs(res.NetLow[out]-(v0-half)) > 1e-9*v0 || math.Abs(res.NetHigh[out]-(v0+half)) > 1e-9*v0 {
 		t.Errorf("first order: %.12g … %.12g V, the closed form's derivatives give %.12g … %.12g V", res.NetLow[out], res.NetHigh[out], v0-half, v0+half)
+	}
+}
+
+// TestWorkBudgetReadsTheRealFill checks the work bound against the
+// factor's real fill, not the n(n+1)/2 entries a full factor of n unknowns
+// could have: a series string of toleranced resistors fills in hardly at
+// all, so a budget between the two is judged, and one below the real work
+// is skipped with the reason.
+func TestWorkBudgetReadsTheRealFill(t *testing.T) {
+	b := newBuilder()
+	const n = 40
+	b.add(circuit.VoltageSource, "V1", "n0", "gnd", 12, 0.02)
+	for i := 0; i < n; i++ {
+		to := "gnd"
+		if i < n-1 {
+			to = "n" + string(rune('A'+i/26)) + string(rune('a'+i%26))
+		}
+		from := "n0"
+		if i > 0 {
+			from = "n" + string(rune('A'+(i-1)/26)) + string(rune('a'+(i-1)%26))
+		}
+		b.add(circuit.Resistor, "R"+string(rune('A'+i/26))+string(rune('a'+i%26)), from, to, 1e3, 0.01)
+	}
+	none := func(circuit.PartID, float64, float64, float64, float64) []float64 { return nil }
+	// 41 parameters on 41 unknowns: a full factor would make the work
+	// about 1.4e5 operations, the chain's about 2e4.
+	res := analyze(t, b.d, room, none, Options{MaxCorners: -1, MaxWork: 6e4})
+	if res == nil || res.Corners || len(res.NetLow) == 0 {
+		t.Fatalf("a budget above the chain's real work was not judged: %+v", res)
+	}
+	r, err := solve.Solve(b.d, &solve.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, err = Analyze(b.d, r, room, none, Options{MaxCorners: -1, MaxWork: 5e3})
+	if s, ok := err.(*Skipped); !ok || !strings.Contains(s.Reason, "more work than") {
+		t.Fatalf("a budget below the chain's real work gave %v, not the work it skips", err)
 	}
 }
