@@ -205,10 +205,13 @@ func radixSortHigh(keys, tmp []uint64) {
 		slices.Sort(keys)
 		return
 	}
-	var count [1 << 16]int
+	// The counters are on the heap: as an array on the stack they made
+	// the frame 512 KiB even on the small path above, and every check
+	// grew its goroutine's stack to a megabyte to call this.
+	count := make([]int, 1<<16)
 	src, dst := keys, tmp
 	for shift := uint(32); shift < 64; shift += 16 {
-		clear(count[:])
+		clear(count)
 		for _, k := range src {
 			count[(k>>shift)&0xffff]++
 		}
