@@ -241,7 +241,8 @@ func (w *aheadWorker) line(l *aheadLine, st *bodyStmt) {
 	l.placed, l.invalid = false, false
 	if st.ok {
 		b.subject.name = pt.Name.Text
-		l.part = Part{Kind: st.kind, Local: pt.Name.Text, Pos: st.pos, End: st.end, Inst: -1}
+		kind, _ := kindOf(pt.Kind.Text) // a built-in kind (collect.go)
+		l.part = Part{Kind: kind, Local: pt.Name.Text, Pos: st.pos, End: st.end, Inst: -1}
 		l.placed, l.invalid = b.fill(&l.part, pt, standIn[:])
 	}
 	l.from, l.to = int32(from), int32(len(*b.sink))

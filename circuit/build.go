@@ -233,14 +233,18 @@ func (b *builder) run(ast *grammar.File) {
 		}
 	}
 	b.top = &blockDef{file: topFile, isTop: true}
-	n := 0
+	n, trees := 0, 0
 	for _, ts := range top {
-		if ts.st == nil || ts.st.Part != nil {
+		switch {
+		case ts.st == nil:
 			n++
+		case ts.st.Part != nil:
+			n++
+			trees++
 		}
 	}
-	// The top level's statements, in one allocation.
-	slab := make([]bodyStmt, n)
+	// The top level's statements, in two allocations.
+	slab, treeSlab := make([]bodyStmt, n), make([]stmtTree, trees)
 	b.top.body = make([]*bodyStmt, 0, n)
 	for _, ts := range top {
 		switch st := ts.st; {
@@ -248,7 +252,10 @@ func (b *builder) run(ast *grammar.File) {
 			start, end := ast.PlainSpan(ts.plain)
 			slab[len(b.top.body)] = bodyStmt{plain: int32(ts.plain) + 1, pos: b.pos(start), end: b.pos(end)}
 		case st.Part != nil:
-			slab[len(b.top.body)] = bodyStmt{pt: st.Part, pos: b.pos(st.Start()), end: b.pos(st.End())}
+			tree := &treeSlab[0]
+			treeSlab = treeSlab[1:]
+			tree.pt = st.Part
+			slab[len(b.top.body)] = bodyStmt{pos: b.pos(st.Start()), end: b.pos(st.End()), stmtTree: tree}
 		default:
 			continue
 		}

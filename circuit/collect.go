@@ -80,7 +80,7 @@ func (b *builder) collect(ast *grammar.File, stack []string) []topStmt {
 			}
 			b.include(st.Include, pos, end, stack)
 		case open != nil && st.Part != nil:
-			open.body = append(open.body, &bodyStmt{pt: st.Part, pos: pos, end: end})
+			open.body = append(open.body, treeStmt(st.Part, pos, end))
 		case open != nil:
 			what := "ground"
 			switch {

@@ -104,7 +104,9 @@ func (b *builder) drives(ports []pendingDrive) {
 		}
 		id := d.Net(name, b.pos(first.Start()), b.nameEnd(first))
 		placed := len(d.Parts)
-		b.part(&scope{blk: b.top, inst: -1}, &bodyStmt{pt: stmt, pos: pd.pos, end: pd.end, kind: VoltageDrive}, []NetID{id, d.Ground})
+		st := treeStmt(stmt, pd.pos, pd.end)
+		st.kind = VoltageDrive
+		b.part(&scope{blk: b.top, inst: -1}, st, []NetID{id, d.Ground})
 		if pt.DriveHigh != nil && len(d.Parts) > placed {
 			b.driveRange(low, high)
 		}

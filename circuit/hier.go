@@ -120,19 +120,47 @@ type netRef struct {
 	name string
 }
 
-// bodyStmt is one prepared part or instance statement.
+// bodyStmt is one prepared part or instance statement. A plain line of the
+// checked file's top level (plain > 0) holds no more than these few words
+// (its nodes are made when it is built, ahead.go); a statement of the tree
+// holds its stmtTree besides.
 type bodyStmt struct {
-	pt       *grammar.Part // nil for a plain line (ahead.go reads it)
-	plain    int32         // 1 + the checked file's plain line it is, or 0
 	pos, end diag.Pos
-	kind     Kind
+	plain    int32 // 1 + the checked file's plain line it is, or 0
+	kind     Kind  // a built-in part's kind; a plain line's is read when it is built
+	ok       bool  // false: the statement cannot be placed
+	*stmtTree
+}
+
+// stmtTree is what a statement of the tree holds: its part node and what
+// prepare resolves of it.
+type stmtTree struct {
+	pt       *grammar.Part
 	blk      *blockDef // set for an instance
-	ok       bool      // false: the statement cannot be placed
 	nets     []netRef  // one per written pin
 	pinNets  [2]netRef // nets of a two-pin statement, without an allocation
 	bind     []int     // instance: for each pin of blk, the index in nets
 	assign   []int     // instance: for each parameter of blk, the index in pt.Params, or -1
 	valueErr bool      // instance: carries a value or attributes it cannot take
+}
+
+// treeStmt returns the statement of part node pt, at pos … end, in one
+// allocation.
+func treeStmt(pt *grammar.Part, pos, end diag.Pos) *bodyStmt {
+	s := &struct {
+		bodyStmt
+		stmtTree
+	}{bodyStmt: bodyStmt{pos: pos, end: end}, stmtTree: stmtTree{pt: pt}}
+	s.bodyStmt.stmtTree = &s.stmtTree
+	return &s.bodyStmt
+}
+
+// block is the block st instantiates, or nil.
+func (st *bodyStmt) block() *blockDef {
+	if st.stmtTree == nil {
+		return nil
+	}
+	return st.blk
 }
 
 // scope is one block instance being expanded (or the top level).

@@ -40,7 +40,7 @@ func (b *builder) measure(bd *blockDef, stack []*blockDef) {
 		if !st.ok {
 			continue
 		}
-		c := st.blk
+		c := st.block()
 		if c == nil {
 			size = addSat(size, 1)
 			parts = addSat(parts, 1)

@@ -93,17 +93,17 @@ func (b *builder) prepare(bd *blockDef) {
 	for k, st := range bd.body {
 		st.ok = true
 		b.subject = subject{inst: -1}
-		if bd.isTop {
-			b.subject.name = b.partName(st) // a block's text has no instance path
-		}
 		if st.plain > 0 {
 			// A plain line of the top level: a built-in part (collect.go)
-			// whose nets are read as it is built (ahead.go).
-			st.kind, _ = kindOf(b.partKind(st))
+			// whose kind and nets are read as it is built (ahead.go).
 			if r := repeats[k]; r >= 0 {
+				b.subject.name = b.partName(st)
 				b.repeated(st, bd.body[r])
 			}
 			continue
+		}
+		if bd.isTop {
+			b.subject.name = st.pt.Name.Text // a block's text has no instance path
 		}
 		pt := st.pt
 		if len(pt.Pins) <= len(st.pinNets) {
@@ -162,7 +162,11 @@ func (b *builder) prepare(bd *blockDef) {
 // and leaves it out.
 func (b *builder) repeated(st, prev *bodyStmt) {
 	what := prev.kind.String()
-	if prev.blk != nil {
+	switch {
+	case prev.plain > 0:
+		k, _ := kindOf(b.partKind(prev))
+		what = k.String()
+	case prev.blk != nil:
 		what = b.partKind(prev)
 	}
 	b.report(CodeDuplicateName, st.pos, st.end, "part name %s is already used by the %s on line %d", b.partName(st), what, b.file.Position(prev.pos).Line)

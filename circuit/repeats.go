@@ -14,6 +14,7 @@ import (
 	"hash/maphash"
 	"math/bits"
 	"slices"
+	"sync"
 )
 
 var nameSeed = maphash.MakeSeed()
@@ -32,15 +33,11 @@ func (b *builder) repeats(bd *blockDef) []int {
 	// The index takes the low bits of each key, the hash the rest, so
 	// that keys sort by hash and, within a hash, in file order.
 	shift := uint(bits.Len(uint(n)))
-	keys := make([]uint64, 0, n)
-	for k, st := range bd.body {
+	for k := range first {
 		first[k] = -1
-		if !b.knownWord(b.partKind(st)) {
-			continue
-		}
-		keys = append(keys, nameHash(b.partName(st))<<shift|uint64(k))
 	}
-	slices.Sort(keys)
+	_, workers := aheadSplit(n, n)
+	keys := b.sortedKeys(bd, shift, workers > 0)
 	index := func(key uint64) int { return int(key & (1<<shift - 1)) }
 	var reps []int // the distinct names of one run of equal hashes, by first use
 	for i := 0; i < len(keys); {
@@ -67,6 +64,59 @@ func (b *builder) repeats(bd *blockDef) []int {
 		i = j
 	}
 	return first
+}
+
+// sortedKeys returns the keys of bd's statements of known kind or block,
+// sorted: each its name's hash above its index (shift bits). With halves
+// set, two goroutines make them, each for half of the statements, and sort
+// them, one the keys whose top bit is 0 and the other the rest; the keys
+// are distinct, so the result is the same either way.
+func (b *builder) sortedKeys(bd *blockDef, shift uint, halves bool) []uint64 {
+	n := len(bd.body)
+	keyOf := func(k int) (uint64, bool) {
+		st := bd.body[k]
+		if !b.knownWord(b.partKind(st)) {
+			return 0, false
+		}
+		return nameHash(b.partName(st))<<shift | uint64(k), true
+	}
+	if !halves {
+		keys := make([]uint64, 0, n)
+		for k := range n {
+			if key, ok := keyOf(k); ok {
+				keys = append(keys, key)
+			}
+		}
+		slices.Sort(keys)
+		return keys
+	}
+	var part [2][2][]uint64 // by half of the statements, then by top bit
+	var wg sync.WaitGroup
+	for h := range 2 {
+		wg.Go(func() {
+			lo, hi := h*n/2, (h+1)*n/2
+			for t := range part[h] {
+				part[h][t] = make([]uint64, 0, (hi-lo)/2+(hi-lo)/16)
+			}
+			for k := lo; k < hi; k++ {
+				if key, ok := keyOf(k); ok {
+					part[h][key>>63] = append(part[h][key>>63], key)
+				}
+			}
+		})
+	}
+	wg.Wait()
+	keys := make([]uint64, 0, n)
+	for t := range 2 {
+		for h := range 2 {
+			keys = append(keys, part[h][t]...)
+		}
+	}
+	low := len(part[0][0]) + len(part[1][0])
+	wg.Go(func() { slices.Sort(keys[:low]) })
+	slices.Sort(keys[low:])
+	wg.Wait()
+	return keys
 }
 
 // knownWord reports whether a statement's kind word is a built-in kind or
