@@ -7,6 +7,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"sync"
 
 	"nodal/circuit"
 	"nodal/diag"
@@ -39,6 +40,11 @@ type SolveResult struct {
 	// (°C), and Nominal the temperature of the nominal operating point
 	// OP: 25 °C, or the end of the range nearest to it.
 	Ambient Ambient
+
+	// point is OP's reader, made once: the rules that read the operating
+	// point (some of them once per part) may run at the same time.
+	point     *Point
+	pointOnce sync.Once
 }
 
 // Ambient is the ambient temperature a design is judged at: Low … High in
@@ -70,7 +76,9 @@ func AmbientOf(d *circuit.Design, cfg *Config) Ambient {
 // Point returns the reader of the nominal operating point, at its
 // ambient temperature.
 func (s *SolveResult) Point() *Point {
-	return NewPoint(s.OP).At(s.Ambient.Nominal)
+	s.pointOnce.Do(func() { s.point = NewPoint(s.OP).At(s.Ambient.Nominal) })
+	pt := *s.point // a copy: At on it changes no other rule's
+	return &pt
 }
 
 // Solve computes the DC operating point; it reports nothing itself. Its
