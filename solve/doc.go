@@ -51,8 +51,9 @@
 // aggregates and has its coarse matrices recomputed for each new matrix)
 // and starts from the previous solution. Each Newton step's iterative
 // solve stops at an Eisenstat–Walker forcing term, loose while the
-// iterates move far and tighter as the nonlinear residual falls; the
-// step that ends the Newton run is solved tightly.
+// iterates move far (at its loosest while junction limiting cuts the
+// steps) and tighter as the nonlinear residual falls; the step that ends
+// the Newton run is solved tightly.
 // A PCG solution is accepted when, beyond its residual norm, every unknown
 // is settled against its own equation (see pcgSolver.settled), and Solve
 // tightens the tolerance and solves again if the result misses the KCL
@@ -130,8 +131,9 @@
 // reverse-biased junction never leaves a net without a path; its current
 // is included in the part's current.
 //
-// Newton–Raphson solves the nonlinear equations with junction-voltage step
-// limiting. If it does not converge, two published continuation methods are
+// Newton–Raphson solves the nonlinear equations from every junction off
+// (0 V), with junction-voltage step limiting past the vf point. If it does
+// not converge, two published continuation methods are
 // tried in turn: gmin stepping (a conductance from every net to ground,
 // reduced step by step to zero) and source stepping (every source ramped
 // from zero to its value); see Najm, Circuit Simulation, Wiley 2010, ch. 3

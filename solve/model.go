@@ -59,7 +59,7 @@ type junction struct {
 	is, nvt float64
 	vref    float64   // junction voltage at the vf point
 	br      Breakdown // the reverse exponential; zero for a junction without breakdown
-	vj      float64   // linearisation point
+	vj      float64   // linearisation point; 0 V (off) when Newton starts
 	iLin    float64   // current of the last linear solve
 	vLast   float64   // junction voltage of the last linear solve
 	settled bool
@@ -85,23 +85,27 @@ func (j *junction) shockley(v float64) (id, gd float64) {
 }
 
 // limit damps a forward step of the junction voltage from j.vj to vraw.
-// A step up of more than 2·n·Vt is replaced by the voltage at which the
-// junction would carry the current its linear model predicts at vraw
-// (current iteration; Vlach & Singhal, Computer Methods for Circuit
-// Analysis and Design, 1983, from memory), and a junction coming up from
-// zero or reverse bias moves at most to its vf point. Steps down are
-// taken whole unless the junction has a breakdown, whose own step
-// limiting (Breakdown.limit) damps them.
+// Up to the vf point the junction carries at most its vf current, which
+// the exponential cannot overshoot, so a step that ends there is taken
+// whole, and a junction coming up from below its vf point moves at most
+// to it. Past the vf point a step up of more than 2·n·Vt is replaced by
+// the voltage at which the junction would carry the current its linear
+// model predicts at vraw (current iteration; Vlach & Singhal, Computer
+// Methods for Circuit Analysis and Design, 1983, from memory). (Damping
+// every step of more than 2·n·Vt, below the vf point too, takes a junction
+// up from a few tenths of a volt by a few n·Vt a step.) Steps down are taken
+// whole unless the junction has a breakdown, whose own step limiting
+// (Breakdown.limit) damps them, the mirror of this one about its knee.
 func (j *junction) limit(vraw float64) (float64, bool) {
 	vold := j.vj
 	if vraw <= vold+2*j.nvt {
 		return j.br.limit(vold, vraw)
 	}
-	if vold <= 0 {
-		if vraw > j.vref {
-			return j.vref, true
-		}
+	if vraw <= j.vref {
 		return vraw, false
+	}
+	if vold < j.vref {
+		return j.vref, true
 	}
 	if vold >= j.vref+MaxOverdrive*j.nvt {
 		return vraw, false // the tangent continuation is linear: no damping needed

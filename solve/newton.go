@@ -65,11 +65,14 @@ func (m *model) newton(lambda, gmin float64) (bool, error) {
 	if pcg != nil {
 		pcg.startNewton()
 	}
+	// damped says the last step was cut by junction limiting: the next
+	// step's solve then stops at the loosest forcing term (see forcing).
+	damped := false
 	for it := 0; it < maxNewton && m.iters < maxTotal; it++ {
 		m.iters++
 		m.assemble(lambda, gmin)
 		if pcg != nil {
-			pcg.loose = loose
+			pcg.loose, pcg.damped = loose, damped
 		}
 		if err := m.linearSolve(xn, xnlo); err != nil {
 			if err == errNotFinite {
@@ -125,6 +128,7 @@ func (m *model) newton(lambda, gmin float64) (bool, error) {
 			done = false // confirm with a tight solve
 		}
 		loose = pcg != nil && (anyLimited || step > looseStep*xinf)
+		damped = anyLimited
 		copy(m.x, xn)
 		copy(m.xlo, xnlo)
 		if !m.nonlinear() || done {
