@@ -314,6 +314,9 @@ func (c *wordCache) classify(w string) lexer.TokenType {
 	if c == nil || len(w) > maxUnitBytes {
 		return classifyWord(w)
 	}
+	if plainName(w) {
+		return TokIdent // decided without the tables: not worth a slot
+	}
 	if t, ok := c.m[w]; ok {
 		return t
 	}
@@ -332,12 +335,12 @@ func (c *wordCache) classify(w string) lexer.TokenType {
 // Longer words (resistor, capacitor) skip the unit tables.
 const maxUnitBytes = 5
 
-func classifyWord(w string) lexer.TokenType {
-	// Most words are plain ASCII names with a digit or an underscore in
-	// them (n12_7, R3): no keyword, attribute word or unit has either, and
-	// only a word starting with R can be a code. Decide those without the
-	// table lookups.
-	plain, digitOrUnderscore := true, false
+// plainName reports whether w is a plain ASCII name with a digit or an
+// underscore in it (n12_7, r3) that does not start with R: no keyword,
+// attribute word or unit has a digit or an underscore, and only a word
+// starting with R can be a code, so such a word is a name.
+func plainName(w string) bool {
+	digitOrUnderscore := false
 	for i := 0; i < len(w); i++ {
 		c := w[i]
 		switch {
@@ -345,10 +348,16 @@ func classifyWord(w string) lexer.TokenType {
 			digitOrUnderscore = true
 		case c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z':
 		default:
-			plain = false
+			return false
 		}
 	}
-	if plain && digitOrUnderscore && w[0] != 'R' {
+	return digitOrUnderscore && w[0] != 'R'
+}
+
+func classifyWord(w string) lexer.TokenType {
+	// Most words are plain names (n12_7, r3): decided without the table
+	// lookups.
+	if plainName(w) {
 		return TokIdent
 	}
 	switch {
