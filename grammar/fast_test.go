@@ -11,6 +11,7 @@ import (
 	"testing"
 	"unsafe"
 
+	"github.com/alecthomas/participle/v2"
 	"github.com/alecthomas/participle/v2/lexer"
 
 	"nodal/internal/gen"
@@ -250,5 +251,32 @@ func TestParseSharedIsParse(t *testing.T) {
 	lo, hi := uintptr(unsafe.Pointer(&src[0])), uintptr(unsafe.Pointer(&src[len(src)-1]))
 	if p := uintptr(unsafe.Pointer(unsafe.StringData(name))); p < lo || p > hi {
 		t.Errorf("part name %q is a copy, not a substring of src", name)
+	}
+}
+
+// A line needsGrammar picks out is never one the fast path reads, so the
+// parser it starts building early is always needed.
+func TestNeedsGrammarOnlyWhereTheFastPathStops(t *testing.T) {
+	picked := 0
+	for _, line := range validLines("ambient 25 °C", "}", "block amp (in, out) {", "port vin, vout") {
+		toks := appendLine(nil, line, 0, len(line), 1, nil, nil)
+		if len(toks) == 0 || !needsGrammar(&toks[0]) {
+			continue
+		}
+		picked++
+		pl, err := (definition{}).Lex("x", strings.NewReader(line+"\n"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		pk, err := lexerUpgrade(pl.(*sliceLexer))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if b, err := batchParser().ParseFromLexer(pk, participle.AllowTrailing(true)); err == nil && b.Run != nil {
+			t.Errorf("%q: the fast path reads it, yet needsGrammar builds the grammar's parser for it", line)
+		}
+	}
+	if picked < 4 {
+		t.Fatalf("needsGrammar picked %d lines, want at least the four added", picked)
 	}
 }

@@ -51,6 +51,26 @@ var parser = sync.OnceValue(func() *participle.Parser[Statement] {
 	)
 })
 
+// prefetch starts building the grammar's parser on its own goroutine, at
+// most once, as soon as the lexer meets a line that will need it, so that
+// the build overlaps the rest of the file's reading.
+var prefetch sync.Once
+
+func prefetchParser() { prefetch.Do(func() { go parser() }) }
+
+// needsGrammar reports whether a line starting with t is certain to be
+// read by the grammar's parser: a statement the fast path does not read
+// (port, ambient, block) or a block's closing brace.
+func needsGrammar(t *lexer.Token) bool {
+	switch t.Type {
+	case TokKeyword:
+		return t.Value != "design" && t.Value != "ground" && t.Value != "include"
+	case TokPunct:
+		return t.Value == "}"
+	}
+	return false
+}
+
 // File is a parsed source file.
 type File struct {
 	Name     string
@@ -170,6 +190,9 @@ func parseRange(f *File, src string, from, to, line int, last bool, m mode) {
 		case m == modePlain && ch.room(&f.plain) && readPlain(&ch, toks[first:], line, off):
 			toks = toks[:first]
 		case m != modeReference:
+			if needsGrammar(&toks[first]) {
+				prefetchParser()
+			}
 			eol := lexer.Position{Offset: end, Line: line, Column: end - off + 1}
 			toks = append(toks, lexer.Token{Type: TokNewline, Pos: eol})
 			spans = append(spans, lineSpan{first, len(toks) - 1, len(toks) - 1})
