@@ -205,6 +205,35 @@ func TestDrawsSettleToTheSolvesAccuracy(t *testing.T) {
 	})
 }
 
+// TestBackfedConverterStarvedInputOrderFree: a converter whose output a
+// 5 V source holds above its 3.3 V through 1 Ω is back-fed (it delivers
+// nothing), and its 50 µA quiescent current through 100 kΩ from the same
+// 5 V leaves its input at 0 V (Ohm's law: 50 µA × 100 kΩ = 5 V), below
+// its 4 V to 16 V range, in every statement order. Found by
+// TestStatementOrderDoesNotMatter: the input's voltage came out a
+// rounding below 0 V in one order, and the solver called the input,
+// asked then for no power at all, starved.
+func TestBackfedConverterStarvedInputOrderFree(t *testing.T) {
+	lines := []string{
+		"resistor R1 (n2, n1) 100 kΩ rated 100 mW",
+		"resistor R2 (n3, n2) 10 Ω rated 100 mW",
+		"resistor R3 (n4, gnd) 1 Ω rated 100 mW",
+		"resistor R4 (n5, n2) 1 Ω rated 100 mW",
+		"resistor R5 (n6, n1) 1 Ω rated 100 mW",
+		"converter U6 (n2, n6, gnd) 3.3 V efficiency 85% input 4 V to 16 V quiescent 50 µA rated 100 mA",
+		"source V1 (n1, gnd) 5 V rated 10 mA",
+	}
+	inOrders(t, lines, [][]int{{0, 1, 2, 3, 4, 5, 6}, {2, 1, 3, 0, 4, 5, 6}}, 30, 11, func(n int, _ string, res *Result) {
+		rules := map[string]bool{}
+		for _, f := range res.Diags {
+			rules[f.Rule] = true
+		}
+		if rules["starved-load"] || !rules["input-range"] || !rules["back-fed"] {
+			t.Fatalf("order %d: want input-range and back-fed, no starved-load: %v", n, res.Diags)
+		}
+	})
+}
+
 // inOrders checks the design of lines, after "ground gnd", in the orders
 // given (each a permutation of the lines' indices) and in n more random
 // ones drawn from seed, and hands each order's number, source and result

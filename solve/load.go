@@ -111,9 +111,10 @@ func (m *model) updateLoads(xn []float64) bool {
 			v = 0
 		}
 		switch disc := l.vth*l.vth - 4*pw*rth; {
-		case !(rth > 0) && v == 0 && pw == 0:
-			// Held at no voltage and asked for no power: it draws nothing.
-			l.vth, l.next = v, 0
+		case pw == 0:
+			// Asked for no power, it draws nothing at any voltage: not
+			// starved where the rail sits at or a rounding below 0 V.
+			l.next = 0
 		case !(rth > 0) && v == 0:
 			// Held at no voltage: no current can draw its power.
 			l.vth, l.starved = v, true
@@ -121,9 +122,11 @@ func (m *model) updateLoads(xn []float64) bool {
 		case !(rth > 0):
 			// Held by a voltage: its current follows at once.
 			l.next = pw / v
-		case disc < 0 || l.vth <= 0:
+		case pw > 0 && (disc < 0 || l.vth <= 0):
 			// Past what the rail can give: draw the most it can, at half
-			// its voltage, and say so if it stays there.
+			// its voltage, and say so if it stays there. (A load that
+			// gives power, pw < 0, has a positive upper root always:
+			// disc > V_th².)
 			l.starved = true
 			l.next = l.vth / (2 * rth)
 		default:
