@@ -65,18 +65,24 @@ const MaxPins = 3
 
 // Part is one built-in part; hierarchy is flattened before a Design is
 // made.
+//
+// The fields are laid out so that the small ones share words: a large
+// design holds millions of parts.
 type Part struct {
-	Kind Kind
 	// Local is the part's name as written in its statement; inside an
 	// instance Design.PartName (or NameOf) puts the instance path in
 	// front.
 	Local string
 	Pins  [MaxPins]NetID
+	// Inst is the instance this part was expanded from (an index into
+	// Design.Instances), or -1 for a part written at the top level.
+	Inst   int32
+	Kind   Kind
+	Closed bool // switches
 
 	// Value is the part's main value in SI units: Ω, F, H, V or A; for a
 	// fuse its rated current.
-	Value  float64
-	Closed bool // switches
+	Value float64
 
 	Tol float64 // fraction; 0 when not given
 
@@ -109,9 +115,6 @@ type Part struct {
 	Pos    diag.Pos // start of the statement
 	End    diag.Pos // end of the statement
 	PinPos [MaxPins]diag.Pos
-	// Inst is the instance this part was expanded from (an index into
-	// Design.Instances), or -1 for a part written at the top level.
-	Inst int32
 }
 
 // Conv is what a regulator or converter states besides its set output
