@@ -62,10 +62,17 @@ func fastDependents(lay gitLayout, ch changed, absNames []string) (deps []string
 	if err != nil {
 		return nil, false
 	}
+	// The tracked .nodal files, each path joined once (the index lists
+	// every tracked path, most of them not .nodal files).
 	tracked := map[string]bool{}
+	var trackedList []string
 	for _, p := range paths {
 		if strings.HasSuffix(p, ".nodal") {
-			tracked[filepath.Join(lay.root, filepath.FromSlash(p))] = true
+			t := filepath.Join(lay.root, filepath.FromSlash(p))
+			if !tracked[t] {
+				tracked[t] = true
+				trackedList = append(trackedList, t)
+			}
 		}
 	}
 	onDisk := make(map[string]bool, len(scan.files))
@@ -74,9 +81,8 @@ func fastDependents(lay gitLayout, ch changed, absNames []string) (deps []string
 	}
 	all := append([]string(nil), scan.files...)
 	ch.files = append([]string(nil), ch.files...)
-	for _, p := range paths {
-		t := filepath.Join(lay.root, filepath.FromSlash(p))
-		if !tracked[t] || onDisk[t] {
+	for _, t := range trackedList {
+		if onDisk[t] {
 			continue
 		}
 		all = append(all, t)

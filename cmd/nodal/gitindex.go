@@ -56,9 +56,25 @@ func readIndex(name string) (*gitIndex, error) {
 	if !info.Mode().IsRegular() || info.Size() > maxIndexSize {
 		return nil, errIndexUnknown
 	}
-	b, err := io.ReadAll(io.LimitReader(f, maxIndexSize+1))
-	if err != nil {
-		return nil, err
+	// Into one buffer of the size the file states (and a little room to
+	// see its end), not one grown by doubling: an index of a few hundred
+	// paths is tens of kilobytes, read at every check in a repository.
+	b := make([]byte, 0, info.Size()+512)
+	for {
+		n, err := f.Read(b[len(b):cap(b)])
+		b = b[:len(b)+n]
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			return nil, err
+		}
+		if len(b) > maxIndexSize {
+			return nil, errIndexUnknown // it grew past the bound while read
+		}
+		if len(b) == cap(b) {
+			b = append(b, 0)[:len(b)]
+		}
 	}
 	return parseIndex(b)
 }
