@@ -59,8 +59,8 @@ type Net struct {
 }
 
 // MaxPins is the most pins a built-in kind has. A part's first
-// len(Kind.Info().Pins) entries of Pins and PinPos are its pins, in the
-// order the kind lists them; the rest are unused (read them through Nets).
+// len(Kind.Info().Pins) entries of Pins are its pins, in the order the
+// kind lists them; the rest are unused (read them through Nets).
 const MaxPins = 3
 
 // Part is one built-in part; hierarchy is flattened before a Design is
@@ -112,9 +112,8 @@ type Part struct {
 	// kinds (and for one written without them).
 	Conv *Conv
 
-	Pos    diag.Pos // start of the statement
-	End    diag.Pos // end of the statement
-	PinPos [MaxPins]diag.Pos
+	Pos diag.Pos // start of the statement
+	End diag.Pos // end of the statement
 }
 
 // Conv is what a regulator or converter states besides its set output

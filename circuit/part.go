@@ -140,7 +140,6 @@ func (b *builder) pins(p *Part, pt *grammar.Part, nets []NetID, info *KindInfo) 
 		}
 		set[slot] = true
 		p.Pins[slot] = nets[i]
-		p.PinPos[slot] = b.pos(pin.Net.Start())
 	}
 	return true
 }
