@@ -6,31 +6,33 @@ package circuit
 import (
 	"fmt"
 	"strings"
+	"sync"
 
 	"nodal/grammar"
 	"nodal/units"
 )
 
 // attrKinds maps each attribute to the kinds that take it, from the kind
-// table.
-var attrKinds = func() map[string]string {
+// table. It is made the first time an attribute is read, not at every
+// start of the program.
+var attrKinds = sync.OnceValue(func() map[string]string {
 	m := map[string]string{"rated": "every kind"}
-	seen := map[string]bool{} // attribute and keyword, listed once
+	seen := map[[2]string]bool{} // attribute and keyword, listed once
 	for k := range kinds {
 		w := kinds[k].Word
 		for _, a := range kinds[k].Attrs {
 			switch {
-			case seen[a+" "+w]:
+			case seen[[2]string{a, w}]:
 			case m[a] == "":
 				m[a] = w
 			default:
 				m[a] += ", " + w
 			}
-			seen[a+" "+w] = true
+			seen[[2]string{a, w}] = true
 		}
 	}
 	return m
-}()
+})
 
 // attrs reads the attributes. It returns false when one is unusable.
 // A kind's required attribute (vf) is asked for when needs is set.
@@ -50,7 +52,7 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo, needs bool) b
 	for _, a := range attrs {
 		key := a.Key.Text
 		apos, aend = b.attrSpan(a)
-		kinds, knownAttr := attrKinds[key]
+		kinds, knownAttr := attrKinds()[key]
 		if key == "to" {
 			toAttr(p, a, bad)
 			continue

@@ -191,7 +191,7 @@ func unitWord(pt *grammar.Part) string {
 		return ""
 	}
 	a := pt.Attrs[0]
-	if _, known := attrKinds[a.Key.Text]; known || a.Key.Text == "to" || len(a.Values) > 0 || a.At != nil || strings.HasPrefix(a.Key.Text, "\"") {
+	if _, known := attrKinds()[a.Key.Text]; known || a.Key.Text == "to" || len(a.Values) > 0 || a.At != nil || strings.HasPrefix(a.Key.Text, "\"") {
 		return ""
 	}
 	return a.Key.Text
