@@ -143,6 +143,9 @@ func (p *plan) run(workers int) (map[*Analyzer]any, map[*Analyzer]bool, error) {
 // resultsFor returns the results pass i may read: those of its
 // requirements.
 func (p *plan) resultsFor(i int, outs []outcome) map[*Analyzer]any {
+	if len(p.needs[i]) == 0 {
+		return nil // reads as empty
+	}
 	of := make(map[*Analyzer]any, len(p.needs[i]))
 	for _, j := range p.needs[i] {
 		if p.runs[j] {
