@@ -39,9 +39,14 @@ var attrKinds = sync.OnceValue(func() map[string]string {
 func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo, needs bool) bool {
 	word := pt.Kind.Text
 	ok := true
-	seen := map[string]bool{}
-	apos, aend := p.Pos, p.End // the attribute being read
+	var seenKeys [8]string
+	seen := seenKeys[:0]  // the attributes read; a part has a few
+	var cur *grammar.Attr // the attribute being read; nil: the statement is reported
 	bad := func(rule Code, format string, args ...any) {
+		apos, aend := p.Pos, p.End
+		if cur != nil {
+			apos, aend = b.attrSpan(cur) // found only for a finding
+		}
 		b.report(rule, apos, aend, "%s %s: %s", word, b.nameOf(p), fmt.Sprintf(format, args...))
 		ok = false
 	}
@@ -51,7 +56,7 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo, needs bool) b
 	}
 	for _, a := range attrs {
 		key := a.Key.Text
-		apos, aend = b.attrSpan(a)
+		cur = a
 		kinds, knownAttr := attrKinds()[key]
 		if key == "to" {
 			toAttr(p, a, bad)
@@ -65,11 +70,11 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo, needs bool) b
 			bad(CodeBadAttribute, "%s takes no %s (%s is for: %s)", article(p.Kind.String()), key, key, kinds)
 			continue
 		}
-		if seen[key] {
+		if contains(seen, key) {
 			bad(CodeBadAttribute, "%s is given twice", key)
 			continue
 		}
-		seen[key] = true
+		seen = append(seen, key)
 		if a.At != nil && key != "vf" && key != "breakdown" {
 			bad(CodeBadAttribute, "only vf and breakdown take \"at\" (vf 2.0 V at 20 mA, breakdown 5.1 V at 5 mA)")
 			continue
@@ -194,13 +199,13 @@ func (b *builder) attrs(p *Part, pt *grammar.Part, info *KindInfo, needs bool) b
 		}
 	}
 	if p.Breakdown > 0 && p.RatedVoltage > 0 && p.RatedVoltage < p.Breakdown {
-		apos, aend = p.Pos, p.End
+		cur = nil
 		bad(CodeBadValue, "its reverse rating %s is below its breakdown voltage %s, so it would be past its rating whenever it breaks down; a clamp or reference diode is rated by its power and current in breakdown (rated W, A)",
 			units.Format(p.RatedVoltage, units.Voltage), units.Format(p.Breakdown, units.Voltage))
 	}
 	for _, need := range info.Needs {
-		if !seen[need.Attr] && needs {
-			apos, aend = p.Pos, p.End
+		if !contains(seen, need.Attr) && needs {
+			cur = nil
 			bad(CodeMissingValue, "%s", need.Hint)
 		}
 	}

@@ -550,14 +550,18 @@ func sibling(k Kind, dim units.Dim) (Kind, bool) {
 }
 
 // shared reports whether another kind is written with k's keyword.
-func (k Kind) shared() bool {
-	for j := Kind(0); j < numKinds; j++ {
-		if j != k && kinds[j].Word == kinds[k].Word {
-			return true
+func (k Kind) shared() bool { return sharedWord[k] }
+
+// sharedWord holds shared for each kind, found once: it is asked once a
+// part.
+var sharedWord = func() (t [numKinds]bool) {
+	for k := range numKinds {
+		for j := range numKinds {
+			t[k] = t[k] || j != k && kinds[j].Word == kinds[k].Word
 		}
 	}
-	return false
-}
+	return t
+}()
 
 // siblings joins f(unit symbol, name) for every kind written with k's
 // keyword with " or ".
