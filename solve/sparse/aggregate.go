@@ -17,8 +17,33 @@ import "math"
 //     neighbourhoods.
 //
 // agg[i] is the aggregate of unknown i; the number of aggregates is returned.
-func aggregate(a *CSC, diag []float64, eps float64) (agg []int32, nagg int) {
+//
+// The passes visit the unknowns in ascending order, or, when perm is not
+// nil (A is then a level put in colour order, Q·A·Qᵀ with Q = I(perm, :)),
+// in the order they had before: unknown k of A is then the perm[k]-th,
+// ties in pass 2 go to the neighbour that came first in that order too,
+// and the aggregates are those of the matrix before it was permuted,
+// numbered alike.
+func aggregate(a *CSC, diag []float64, eps float64, perm []int32) (agg []int32, nagg int) {
 	n := a.M
+	// visit[t] is the t-th unknown to visit; was[i] is its place in the
+	// level's order before colouring.
+	visit, was := perm, perm
+	if perm != nil {
+		visit = invPerm(perm)
+	}
+	at := func(t int) int {
+		if visit == nil {
+			return t
+		}
+		return int(visit[t])
+	}
+	before := func(j, k int32) bool {
+		if was == nil {
+			return j < k
+		}
+		return was[j] < was[k]
+	}
 	agg = make([]int32, n)
 	for i := range agg {
 		agg[i] = -1
@@ -29,7 +54,8 @@ func aggregate(a *CSC, diag []float64, eps float64) (agg []int32, nagg int) {
 		return int(j) != i && a.X[p]*a.X[p] >= eps2*math.Abs(diag[i]*diag[j])
 	}
 	// Pass 1.
-	for i := 0; i < n; i++ {
+	for t := 0; t < n; t++ {
+		i := at(t)
 		if agg[i] >= 0 {
 			continue
 		}
@@ -56,18 +82,19 @@ func aggregate(a *CSC, diag []float64, eps float64) (agg []int32, nagg int) {
 		if first[i] >= 0 {
 			continue
 		}
-		best, bestV := int32(-1), 0.0
+		best, bestJ, bestV := int32(-1), int32(-1), 0.0
 		for p := a.P[i]; p < a.P[i+1]; p++ {
 			if j := a.I[p]; strong(i, p) && first[j] >= 0 {
-				if v := math.Abs(a.X[p]); v > bestV {
-					best, bestV = first[j], v
+				if v := math.Abs(a.X[p]); v > bestV || v == bestV && before(j, bestJ) {
+					best, bestJ, bestV = first[j], j, v
 				}
 			}
 		}
 		agg[i] = best
 	}
 	// Pass 3.
-	for i := 0; i < n; i++ {
+	for t := 0; t < n; t++ {
+		i := at(t)
 		if agg[i] >= 0 {
 			continue
 		}

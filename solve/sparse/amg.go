@@ -51,6 +51,10 @@ type amgLevel struct {
 	// invd the reciprocals of the diagonal: see smooth.go.
 	dpos []int32
 	invd []float64
+	// start, when not nil, says the level is in colour order: colour c
+	// holds the unknowns start[c] … start[c+1]−1, and its sweeps are
+	// multicolour Gauss–Seidel on both cores (see colour.go, smooth.go).
+	start []int32
 }
 
 // AMG is a smoothed-aggregation algebraic multigrid preconditioner for a
@@ -64,12 +68,30 @@ type amgLevel struct {
 // matrix Pᵀ·A·P. ρ(D⁻¹A) is bounded above by Gershgorin's theorem, which can
 // only make ω smaller (safer). The V-cycle uses one forward Gauss–Seidel
 // sweep before and one backward sweep after the coarse correction, so the
-// preconditioner is symmetric, and Cholesky on the coarsest level.
+// preconditioner is symmetric, and Cholesky on the coarsest level. A large
+// level is put in colour order (colour.go), where the sweeps are
+// multicolour Gauss–Seidel with each colour's rows shared between the
+// cores (smooth.go); its aggregates are the same as in its own order.
 type AMG struct {
 	levels []amgLevel
 	coarse Cholesky
 	plain  bool
+	// perm, when not nil, is the colour order of the finest level, whose
+	// matrix is then the permuted copy Q·A·Qᵀ (Q = I(perm, :)): r is
+	// gathered into it and z scattered back. For Refresh (plain
+	// hierarchies only), fine is A, kept by reference, and dst maps each
+	// of its entries to the copy's.
+	perm, dst []int32
+	fine      *CSC
 }
+
+// colourNnz is the fewest entries of a level that may be put in colour
+// order, so that its sweeps can share the cores (see sharedOrder); smaller
+// levels are swept in their own order on one core, and their colour blocks
+// would be too small to split (see splitNnz). The choice depends on the
+// matrix alone, never on the number of cores, so the preconditioner, and
+// every result, is the same on any machine.
+const colourNnz = 1 << 17
 
 // NewAMG builds the multigrid hierarchy for the symmetric positive-definite
 // matrix A (both triangles stored). opt may be nil. It returns an error if a
@@ -92,6 +114,19 @@ func NewAMG(a *CSC, opt *AMGOptions) (*AMG, error) {
 	}
 	m := &AMG{plain: o.Unsmoothed}
 	cur := a
+	// start is the colour blocks of the level about to be made, and order
+	// its colour order (nil: the level is not in colour order).
+	var start, order []int32
+	if a.N > o.CoarseSize && o.MaxLevels > 1 {
+		if m.perm, start = sharedOrder(a); m.perm != nil {
+			order = m.perm
+			var dst []int32
+			cur, dst = permuted(a, m.perm)
+			if o.Unsmoothed {
+				m.fine, m.dst = a, dst
+			}
+		}
+	}
 	eps := o.Eps
 	// budget is how many entries all levels together may hold (−1: any).
 	budget, total := -1, 0
@@ -100,8 +135,9 @@ func NewAMG(a *CSC, opt *AMGOptions) (*AMG, error) {
 	}
 	for {
 		n := cur.N
-		lev := amgLevel{a: cur, diag: make([]float64, n),
+		lev := amgLevel{a: cur, diag: make([]float64, n), start: start,
 			x: make([]float64, n), b: make([]float64, n), r: make([]float64, n)}
+		start = nil
 		for j := 0; j < n; j++ {
 			for p := cur.P[j]; p < cur.P[j+1]; p++ {
 				if int(cur.I[p]) == j {
@@ -121,7 +157,7 @@ func NewAMG(a *CSC, opt *AMGOptions) (*AMG, error) {
 			m.levels = append(m.levels, lev)
 			break
 		}
-		agg, nagg := aggregate(cur, lev.diag, eps)
+		agg, nagg := aggregate(cur, lev.diag, eps, order)
 		if nagg >= n-n/20 || nagg == 0 {
 			// Coarsening stalled; solve this level directly.
 			m.levels = append(m.levels, lev)
@@ -133,7 +169,6 @@ func NewAMG(a *CSC, opt *AMGOptions) (*AMG, error) {
 			lev.p = smoothedProlongator(cur, lev.diag, agg, nagg)
 		}
 		lev.pt = lev.p.T()
-		m.levels = append(m.levels, lev)
 		// The coarse matrix may hold what the budget has left; the
 		// intermediate A·P is capped at the whole budget (common practice,
 		// not a published rule).
@@ -152,15 +187,38 @@ func NewAMG(a *CSC, opt *AMGOptions) (*AMG, error) {
 			}
 		}
 		if !ok {
-			return nil, &ComplexityExceeded{Level: len(m.levels), Max: o.MaxComplexity}
+			return nil, &ComplexityExceeded{Level: len(m.levels) + 1, Max: o.MaxComplexity}
 		}
 		// The product lists each column's rows in the order met; its
 		// transpose (the same matrix, the pattern being symmetric) lists
-		// them in ascending order, which the smoother relies on.
-		cur = cur.T()
-		if o.Unsmoothed {
-			m.levels[len(m.levels)-1].galerkin = galerkinMap(m.levels[len(m.levels)-1].a, agg, cur)
+		// them in ascending order, which the smoother relies on. A coarse
+		// level large enough to share its sweeps is put in colour order
+		// instead, which sorts it too: the aggregates are renumbered, and
+		// the prolongator's columns permuted, to match.
+		var perm []int32
+		if cur.N > o.CoarseSize && len(m.levels)+2 < o.MaxLevels {
+			perm, start = sharedOrder(cur)
 		}
+		order = perm
+		if perm != nil {
+			cur, _ = permuted(cur, perm)
+			pinv := invPerm(perm)
+			for i, c := range agg {
+				agg[i] = pinv[c]
+			}
+			if o.Unsmoothed {
+				lev.p = tentativeProlongator(n, agg, nagg)
+			} else {
+				lev.p = columnsPermuted(lev.p, perm)
+			}
+			lev.pt = lev.p.T()
+		} else {
+			cur = cur.T()
+		}
+		if o.Unsmoothed {
+			lev.galerkin = galerkinMap(lev.a, agg, cur)
+		}
+		m.levels = append(m.levels, lev)
 		eps /= 2
 	}
 	last := m.levels[len(m.levels)-1].a
@@ -239,7 +297,18 @@ func (m *AMG) Precondition(z, r []float64) {
 	if len(z) != m.levels[0].a.N || len(r) != len(z) {
 		panic("sparse: AMG.Precondition dimension mismatch")
 	}
-	m.cycle(0, z, r)
+	if m.perm == nil {
+		m.cycle(0, z, r)
+		return
+	}
+	lev := &m.levels[0]
+	for k, i := range m.perm {
+		lev.b[k] = r[i]
+	}
+	m.cycle(0, lev.x, lev.b)
+	for k, i := range m.perm {
+		z[i] = lev.x[k]
+	}
 }
 
 func (m *AMG) cycle(l int, x, b []float64) {

@@ -175,7 +175,7 @@ func BenchmarkGalerkinPlain(b *testing.B) {
 			}
 		}
 	}
-	agg, nagg := aggregate(a, diag, 0.08)
+	agg, nagg := aggregate(a, diag, 0.08, nil)
 	ph := tentativeProlongator(a.N, agg, nagg)
 	b.Run("quotient", func(b *testing.B) {
 		for b.Loop() {

@@ -75,7 +75,10 @@
 // preconditioner (Vaněk, Mandel & Brezina 1996) whose V-cycle is used as
 // the preconditioner; AMGOptions.Unsmoothed builds plain aggregation
 // instead, and AMGOptions.MaxComplexity bounds the hierarchy level by
-// level. AMG.Refresh recomputes a plain-aggregation hierarchy's coarse
+// level. Levels large enough are put in colour order (a greedy colouring
+// of their graph), so that the Gauss–Seidel sweeps are multicolour: each
+// colour's rows are updated on both cores, with the same result on any
+// number of cores. AMG.Refresh recomputes a plain-aggregation hierarchy's coarse
 // matrices for new values of A on the same pattern, keeping its
 // aggregates. Jacobi and SymGaussSeidel are the point preconditioners.
 // Cholesky.AnalyzeBudget stops the symbolic analysis once nnz(L) passes a
@@ -134,6 +137,11 @@
 //   - P. Vaněk, J. Mandel, M. Brezina, "Algebraic multigrid by smoothed
 //     aggregation for second and fourth order elliptic problems", Computing
 //     56, 1996.
+//   - M. F. Adams, M. Brezina, J. Hu, R. Tuminaro, "Parallel multigrid
+//     smoothing: polynomial versus Gauss–Seidel", J. Comput. Phys. 188,
+//     2003.
+//   - Y. Saad, Iterative Methods for Sparse Linear Systems, 2nd ed., SIAM,
+//     2003.
 //   - M. R. Hestenes, E. Stiefel, "Methods of conjugate gradients for
 //     solving linear systems", J. Res. Nat. Bur. Standards 49, 1952.
 package sparse

@@ -112,10 +112,14 @@ func (m *AMG) Refresh(a *CSC) error {
 	if a.N != m.levels[0].a.N || a.Nnz() != m.levels[0].a.Nnz() {
 		panic("sparse: AMG.Refresh with a different pattern")
 	}
-	if m.levels[0].dpos != nil && a != m.levels[0].a && !sameColumns(a, m.levels[0].a) {
-		panic("sparse: AMG.Refresh with a different pattern")
+	if m.perm != nil {
+		m.refreshFinest(a)
+	} else {
+		if m.levels[0].dpos != nil && a != m.levels[0].a && !sameColumns(a, m.levels[0].a) {
+			panic("sparse: AMG.Refresh with a different pattern")
+		}
+		m.levels[0].a = a
 	}
-	m.levels[0].a = a
 	for l := range m.levels {
 		lev := &m.levels[l]
 		cur := lev.a
@@ -148,4 +152,23 @@ func (m *AMG) Refresh(a *CSC) error {
 		return fmt.Errorf("sparse: AMG coarsest level: %w", err)
 	}
 	return nil
+}
+
+// refreshFinest copies A's values into the finest level's matrix in colour
+// order, Q·A·Qᵀ, through the map recorded by permuted: in A's order, so
+// that the reads are sequential, and on both cores for a large matrix
+// (each entry of A has its own place in the copy). A must have the
+// pattern of the matrix the hierarchy was built for (the same matrix with
+// new values, or one with the same columns).
+func (m *AMG) refreshFinest(a *CSC) {
+	if a != m.fine && !sameColumns(a, m.fine) {
+		panic("sparse: AMG.Refresh with a different pattern")
+	}
+	m.fine = a
+	x := m.levels[0].a.X
+	a.splitRows(0, a.M, func(lo, hi int) {
+		for p := a.P[lo]; p < a.P[hi]; p++ {
+			x[m.dst[p]] = a.X[p]
+		}
+	})
 }
