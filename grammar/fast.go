@@ -2,41 +2,39 @@ package grammar
 
 // fast.go: the fast path of the parser. The grammar in ast.go defines the
 // language; this file only speeds up reading the commonest statement, a
-// plain part line, through participle's Parseable interface:
+// plain part line, by hand:
 //
 //   - lines are lexed in batches of up to batchLines, each line's tokens
 //     followed by a Newline token, and upgraded to one PeekingLexer, so
 //     that neither the token slice nor participle's set-up is paid per
 //     line;
-//   - one participle call reads as many consecutive part lines as it can,
-//     through the Parseable fastRun, each line by readPart, a hand-written
-//     reader of the subset of Part
+//   - readRun reads as many consecutive part lines as it can (fastRun),
+//     each line by readPart, a hand-written reader of the subset of Part
 //     that has no expressions in parentheses, or by readHeader, which reads
 //     the design, ground and include lines. They build exactly the tree the
 //     grammar builds (the same nodes, values and positions: see
-//     TestFastPathMatchesGrammar) and give up with participle.NextMatch on
-//     anything else;
+//     TestFastPathMatchesGrammar) and give up on anything else, consuming
+//     nothing of that line;
 //   - the line it stopped at is read by the grammar alone, on its own, as
 //     ParseReference reads every line, so that other statements, syntax
 //     errors and their messages are always the grammar's; then the fast
 //     path goes on with the next line.
 //
-// The batch parser is small (its one node is fastRun) and cheap to build;
-// the grammar's parser is built only when a line needs it (parse.go).
+// No participle parser is built for the fast path: fastRun reads the
+// PeekingLexer itself (its Parse has the form of participle's Parseable,
+// NextMatch when it reads nothing), and the grammar's parser is built only
+// when a line needs it (parse.go).
 
 import (
-	"sync"
-
 	"github.com/alecthomas/participle/v2"
 	"github.com/alecthomas/participle/v2/lexer"
 )
 
-// batchLines is how many lines are lexed and handed to participle at once.
+// batchLines is how many lines are lexed and upgraded at once.
 const batchLines = 1024
 
-// fastRun is a run of consecutive plain part lines, each read by hand
-// with the Newline that ends it. Reading a run per Parseable call rather
-// than a line keeps participle's per-node bookkeeping out of the loop.
+// fastRun is a run of consecutive part lines (and design, ground and
+// include lines), each read by hand with the Newline that ends it.
 type fastRun struct {
 	sts   []*Statement
 	slab  []partNodes // nodes for the next lines, allocated a chunk at a time
@@ -47,20 +45,15 @@ type fastRun struct {
 // from 4 so that a short run wastes little.
 const maxSlab = 128
 
-// fastBatch is what one participle call of the fast path reads. It is
-// parsed with participle.AllowTrailing, so it stops before the first line
-// the fast path does not take.
-type fastBatch struct {
-	Run *fastRun `parser:"@@?"`
+// readRun reads as many consecutive lines as the fast path takes from pl
+// and returns them, or nil when it takes none (pl is then where it was).
+func readRun(pl *lexer.PeekingLexer) *fastRun {
+	r := &fastRun{}
+	if r.Parse(pl) != nil {
+		return nil
+	}
+	return r
 }
-
-var batchParser = sync.OnceValue(func() *participle.Parser[fastBatch] {
-	return participle.MustBuild[fastBatch](
-		participle.Lexer(Lexer),
-		participle.Elide("Comment"),
-		participle.UseLookahead(3),
-	)
-})
 
 // partNodes holds the nodes of a typical part line in one allocation: the
 // fast reader's, and the part of a plain line's (PlainNodes).
@@ -122,9 +115,8 @@ func startsValue(t *lexer.Token) bool {
 	return false
 }
 
-// Parse implements participle.Parseable: it reads part lines, each with
-// its Newline, up to the first line that is not one, and returns
-// participle.NextMatch if there is none.
+// Parse reads part lines, each with its Newline, up to the first line
+// that is not one, and returns participle.NextMatch if there is none.
 func (r *fastRun) Parse(lex *lexer.PeekingLexer) error {
 	for {
 		if len(r.slab) == 0 {

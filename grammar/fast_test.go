@@ -11,7 +11,6 @@ import (
 	"testing"
 	"unsafe"
 
-	"github.com/alecthomas/participle/v2"
 	"github.com/alecthomas/participle/v2/lexer"
 
 	"nodal/internal/gen"
@@ -102,14 +101,11 @@ func TestFastPathIsTaken(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	b, err := batchParser().ParseFromLexer(pk)
-	if err != nil {
-		t.Fatal(err)
+	run := readRun(pk)
+	if run == nil || len(run.sts) != 4 || !pk.Peek().EOF() {
+		t.Fatalf("the fast path read %+v, not the four part lines", run)
 	}
-	if b.Run == nil || len(b.Run.sts) != 4 {
-		t.Fatalf("the fast path read %+v, not the four part lines", b.Run)
-	}
-	for i, st := range b.Run.sts {
+	for i, st := range run.sts {
 		if st.Part == nil {
 			t.Errorf("line %d is not a part", i+1)
 		}
@@ -128,14 +124,11 @@ func TestFastPathTakesHeaders(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	b, err := batchParser().ParseFromLexer(pk)
-	if err != nil {
-		t.Fatal(err)
+	run := readRun(pk)
+	if run == nil || len(run.sts) != 5 || !pk.Peek().EOF() {
+		t.Fatalf("the fast path read %+v, not the five lines", run)
 	}
-	if b.Run == nil || len(b.Run.sts) != 5 {
-		t.Fatalf("the fast path read %+v, not the five lines", b.Run)
-	}
-	sts := b.Run.sts
+	sts := run.sts
 	if sts[0].Design == nil || sts[0].Design.Title == nil || sts[1].Ground == nil || sts[2].Include == nil || sts[3].Part == nil || sts[4].Design == nil || sts[4].Design.Title != nil {
 		t.Fatalf("the fast path read the wrong statements: %+v", sts)
 	}
@@ -272,7 +265,7 @@ func TestNeedsGrammarOnlyWhereTheFastPathStops(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if b, err := batchParser().ParseFromLexer(pk, participle.AllowTrailing(true)); err == nil && b.Run != nil {
+		if readRun(pk) != nil {
 			t.Errorf("%q: the fast path reads it, yet needsGrammar builds the grammar's parser for it", line)
 		}
 	}

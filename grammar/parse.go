@@ -300,13 +300,8 @@ func parseBatch(f *File, tb *tokenBuffer, toks []lexer.Token, spans []lineSpan, 
 	pl, err := tb.lexer(toks)
 	k := 0
 	for err == nil && k < len(spans) {
-		var b *fastBatch
-		b, err = batchParser().ParseFromLexer(pl, participle.AllowTrailing(true))
-		if err != nil {
-			break
-		}
-		if b.Run != nil {
-			for _, st := range b.Run.sts {
+		if r := readRun(pl); r != nil {
+			for _, st := range r.sts {
 				f.add(st, toks[spans[k].to-1])
 				k++
 			}
