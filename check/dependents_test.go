@@ -4,6 +4,8 @@ import (
 	"path/filepath"
 	"reflect"
 	"testing"
+
+	"nodal/grammar"
 )
 
 func TestIncludes(t *testing.T) {
@@ -17,6 +19,38 @@ func TestIncludes(t *testing.T) {
 	want := []string{filepath.Join("boards", "lib", "stages.nodal"), filepath.Join("shared", "power.nodal")}
 	if !reflect.DeepEqual(got, want) {
 		t.Errorf("Includes = %q, want %q", got, want)
+	}
+}
+
+// plainInclude takes a line only when the parser reads it as one include
+// statement with that path, so Includes reads the same paths through it as
+// through the parser.
+func TestPlainIncludeIsTheParsers(t *testing.T) {
+	lines := []string{
+		`include "lib/a.nodal"`, `include "lib/a.nodal" # note`, "include\t\"x.nodal\"\t", `include ""`,
+		`include "a b.nodal"#c`, `include "unterminated`, `include x.nodal`, `include "a" "b"`,
+		`include "a", "b"`, `include`, `include # "a"`, `include "a" 3`, `include "a" (b)`,
+		`include "é.nodal"`, "include \"a\"\r", `include "a" }`, `include "\"`,
+	}
+	took := 0
+	for _, line := range lines {
+		var want []string
+		for _, st := range grammar.Parse("x.nodal", []byte(line)).Stmts {
+			if st.Include != nil && st.Include.Path != nil {
+				want = append(want, st.Include.Path.Text)
+			}
+		}
+		p, ok := plainInclude(line)
+		if !ok {
+			continue
+		}
+		took++
+		if len(want) != 1 || want[0] != p {
+			t.Errorf("%q: plainInclude reads %q, the parser %q", line, p, want)
+		}
+	}
+	if took < 5 {
+		t.Fatalf("plainInclude took %d of the lines, want at least the five plain ones", took)
 	}
 }
 

@@ -32,12 +32,17 @@ func Includes(name string, src []byte) []string {
 		if !bytes.HasPrefix(t, []byte("include")) {
 			continue
 		}
-		f := grammar.Parse(name, t)
-		for _, st := range f.Stmts {
-			if st.Include == nil || st.Include.Path == nil {
-				continue
+		var paths []string
+		if p, ok := plainInclude(string(t)); ok {
+			paths = []string{p}
+		} else {
+			for _, st := range grammar.Parse(name, t).Stmts {
+				if st.Include != nil && st.Include.Path != nil {
+					paths = append(paths, st.Include.Path.Text)
+				}
 			}
-			rel := st.Include.Path.Text
+		}
+		for _, rel := range paths {
 			if len(rel) >= 2 && rel[0] == '"' && rel[len(rel)-1] == '"' {
 				rel = rel[1 : len(rel)-1]
 			}
@@ -52,4 +57,21 @@ func Includes(name string, src []byte) []string {
 		}
 	}
 	return out
+}
+
+// plainInclude returns the path of a line that is the keyword include and
+// a string, and perhaps a comment: the include statement the grammar (and
+// its fast path) reads with that string as its path. Any other line is
+// left to the parser (ok false). A search for includers reads every file
+// of a repository, and a whole parse of each include line cost it some
+// 18 KB and 50 µs.
+func plainInclude(line string) (path string, ok bool) {
+	toks := grammar.LexLine(line)
+	if len(toks) < 2 || len(toks) > 3 || toks[0].Type != grammar.TokKeyword || toks[0].Value != "include" || toks[1].Type != grammar.TokString {
+		return "", false
+	}
+	if len(toks) == 3 && toks[2].Type != grammar.TokComment {
+		return "", false
+	}
+	return toks[1].Value, true
 }
