@@ -100,6 +100,9 @@ func graphDependents(ch changed, names, all []string, includes func(string) []st
 // readIncludes reads files on every core and returns what each includes;
 // a file read cannot read includes nothing.
 func readIncludes(files []string, read reader) map[string][]string {
+	if len(files) == 0 {
+		return map[string][]string{} // no goroutine started for nothing
+	}
 	incs := make([][]string, len(files))
 	var wg sync.WaitGroup
 	next := make(chan int)
