@@ -123,7 +123,7 @@ type ahead struct {
 }
 
 // startAhead starts building the top level's plain lines, b.top.body
-// prepared; file is the checked file.
+// made (prepare may run while they are built); file is the checked file.
 func (b *builder) startAhead(file *diag.File) *ahead {
 	body := b.top.body
 	plain := 0
@@ -157,15 +157,21 @@ func (b *builder) startAhead(file *diag.File) *ahead {
 	for range buffers {
 		a.free <- &aheadBatch{lines: make([]aheadLine, a.lines)}
 	}
-	if d := b.r.Design; len(d.Parts) == 0 && int64(cap(d.Parts)) >= b.top.parts && b.top.size <= b.opt.MaxParts {
-		// reserve made room for every part the top level can make.
-		a.parts = d.Parts[:cap(d.Parts)]
-	}
 	for range workers {
 		w := newWorker()
 		a.wg.Go(func() { w.serve(a) })
 	}
 	return a
+}
+
+// walk readies a for the walk, once the part table is reserved: the
+// workers are to write the parts into it when it has room for every part
+// the top level can make. Until the walk hands a batch back, no worker
+// reads what this sets.
+func (a *ahead) walk(b *builder) {
+	if d := b.r.Design; a.free != nil && len(d.Parts) == 0 && int64(cap(d.Parts)) >= b.top.parts && b.top.size <= b.opt.MaxParts {
+		a.parts = d.Parts[:cap(d.Parts)]
+	}
 }
 
 // serve builds batches until there are none left, and places the parts of
@@ -237,14 +243,14 @@ func (w *aheadWorker) line(l *aheadLine, st *bodyStmt) {
 		l.hash[k] = netHash(l.net[k])
 		l.netPos[k], l.netEnd[k] = b.pos(n.Start()), b.nameEnd(n)
 	}
+	// A line whose name repeats an earlier one is built too: prepare,
+	// which finds it, may still be running. The walk leaves out what it
+	// made.
 	from := len(*b.sink)
-	l.placed, l.invalid = false, false
-	if st.ok {
-		b.subject.name = pt.Name.Text
-		kind, _ := kindOf(pt.Kind.Text) // a built-in kind (collect.go)
-		l.part = Part{Kind: kind, Local: pt.Name.Text, Pos: st.pos, End: st.end, Inst: -1}
-		l.placed, l.invalid = b.fill(&l.part, pt, standIn[:])
-	}
+	b.subject.name = pt.Name.Text
+	kind, _ := kindOf(pt.Kind.Text) // a built-in kind (collect.go)
+	l.part = Part{Kind: kind, Local: pt.Name.Text, Pos: st.pos, End: st.end, Inst: -1}
+	l.placed, l.invalid = b.fill(&l.part, pt, standIn[:])
 	l.from, l.to = int32(from), int32(len(*b.sink))
 }
 
@@ -307,8 +313,12 @@ func (a *ahead) finish(d *Design) {
 func (b *builder) placePlain(a *ahead, k int) {
 	l, finds := a.take(k)
 	d := b.r.Design
-	for k := range l.nets {
-		l.nets[k] = d.hashedNet(l.net[k], l.hash[k], l.netPos[k], l.netEnd[k])
+	for j := range l.nets {
+		l.nets[j] = d.hashedNet(l.net[j], l.hash[j], l.netPos[j], l.netEnd[j])
+	}
+	if !a.body[k].ok {
+		b.countOnly(l.nets[:]) // prepare has reported it
+		return
 	}
 	for i := range finds {
 		b.found.Add(finds[i])

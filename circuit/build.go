@@ -261,6 +261,7 @@ func (b *builder) run(ast *grammar.File) {
 		}
 		b.top.body = append(b.top.body, &slab[len(b.top.body)])
 	}
+	plain := b.startAhead(topFile) // while the statements are prepared
 	for _, bd := range b.blockList {
 		b.prepareHeader(bd)
 	}
@@ -275,7 +276,7 @@ func (b *builder) run(ast *grammar.File) {
 
 	b.file = topFile
 	topScope := &scope{blk: b.top, inst: -1}
-	plain := b.startAhead(topFile)
+	plain.walk(b)
 	next := 0
 	var ports []pendingDrive
 	for _, ts := range top {
