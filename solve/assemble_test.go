@@ -10,7 +10,8 @@ import (
 // An assembly that restores the fixed stamps saved for its lambda and
 // stamps only the junctions, loads and gmin gives, bit for bit, the system
 // a full assembly gives: the off-diagonal values, the diagonal and the
-// right side with what their double-double sums carry below them. Checked
+// right side with what their double-double sums carry below them, and the
+// sparse matrix refreshed from the fixed stamps' sums. Checked
 // on random networks with diodes, sources and current sources, in the
 // eliminated and the branch-current formulation, across Newton-like
 // changes of the junctions' points and changes of lambda (source
@@ -33,6 +34,7 @@ func TestAssemblyRestoresFixedStamps(t *testing.T) {
 			}
 			r := rand.New(rand.NewPCG(seed, 7))
 			restored := 0
+			var sm sparseMatrix
 			for step, lambda := range []float64{1, 1, 1, 0.25, 0.25, 1, 0.5, 1} {
 				for k := range fast.junc {
 					v := 1.5*r.Float64() - 0.7
@@ -49,6 +51,16 @@ func TestAssemblyRestoresFixedStamps(t *testing.T) {
 				full.linear.ok = false
 				full.assemble(lambda, gmin)
 				a, b := fast.sys, full.sys
+				// The matrix refreshed from the fixed stamps' sums equals
+				// one summed from every stamp.
+				sm.update(a)
+				if step > 0 {
+					ref := sm.a.Copy()
+					ref.SetValues(a.val, sm.slot)
+					if !slices.Equal(sm.a.X, ref.X) {
+						t.Fatalf("seed %d, mna %v, step %d: the refreshed matrix differs from the stamps' sums", seed, mna, step)
+					}
+				}
 				for _, c := range []struct {
 					name   string
 					fa, fb []float64

@@ -24,6 +24,9 @@ type system struct {
 
 	recording bool
 	k         int // next stamp when refilling
+	// fixed counts the first stamps, which every assembly writes with the
+	// same values (see linearStamps); 0 when that is not known.
+	fixed int
 }
 
 // newSystem returns a system of n unknowns with room for about stamps
@@ -130,8 +133,10 @@ func (s *system) residual(r, x, xlo []float64) {
 // diagonal and the right side with what their double-double sums carry
 // below them, and how many off-diagonal stamps had been written. Those
 // stamps come first in every assembly, so restoring this state and
-// stamping the rest gives, bit for bit, the system a full assembly gives;
-// the off-diagonal values they wrote stay in place between assemblies.
+// stamping the rest gives, bit for bit, the system a full assembly gives.
+// The off-diagonal values they wrote (conductances, and the ±1 of a
+// branch current) depend on no lambda and stay in place between
+// assemblies; system.fixed counts them.
 type linearStamps struct {
 	ok           bool
 	lambda       float64
@@ -147,6 +152,7 @@ func (c *linearStamps) save(s *system, lambda float64) {
 	if s.recording {
 		c.k = len(s.val)
 	}
+	s.fixed = c.k
 	c.diag = append(c.diag[:0], s.diag...)
 	c.diagLo = append(c.diagLo[:0], s.diagLo...)
 	c.rhs = append(c.rhs[:0], s.rhs...)
@@ -160,7 +166,7 @@ func (c *linearStamps) restore(s *system, lambda float64) bool {
 	if !c.ok || c.lambda != lambda || s.recording {
 		return false
 	}
-	s.k = c.k
+	s.k, s.fixed = c.k, c.k
 	copy(s.diag, c.diag)
 	copy(s.diagLo, c.diagLo)
 	copy(s.rhs, c.rhs)
