@@ -58,6 +58,9 @@ func newPlan(fset *diag.FileSet, b *circuit.Result, analyzers []*Analyzer, cfg *
 	var walk func(a *Analyzer)
 	walk = func(a *Analyzer) {
 		if _, ok := entered[a]; ok {
+			if _, done := at[a]; !done {
+				panic("rules: analyzer " + a.Name + " requires itself") // a programmer's slip
+			}
 			return
 		}
 		entered[a] = len(entered)

@@ -148,3 +148,18 @@ func TestSinkSerialOrder(t *testing.T) {
 		t.Errorf("collected %v, want %v", got, want)
 	}
 }
+
+// TestRequiresCycle: an analyzer that requires itself, directly or through
+// another, is a slip in nodal that the run refuses at once, rather than
+// one a concurrent run would wait on for ever.
+func TestRequiresCycle(t *testing.T) {
+	a := &Analyzer{Name: "a", Doc: "test\n", Run: func(*Pass) (any, error) { return nil, nil }}
+	b := &Analyzer{Name: "b", Doc: "test\n", Requires: []*Analyzer{a}, Run: a.Run}
+	a.Requires = []*Analyzer{b}
+	defer func() {
+		if r := recover(); r == nil {
+			t.Error("a cycle a → b → a was accepted")
+		}
+	}()
+	newPlan(nil, &circuit.Result{}, []*Analyzer{a}, &Config{}, &circuit.Findings{})
+}
