@@ -94,6 +94,11 @@ type AMG struct {
 // every result, is the same on any machine.
 const colourNnz = 1 << 17
 
+// fillSample is about how many columns of a smoothed Galerkin product are
+// formed to estimate its size before it is formed in full (see
+// galerkinNnzEstimate).
+const fillSample = 2048
+
 // plainEps is the default strength threshold of plain aggregation. Its
 // aggregates are only contracted, never smoothed, so they must not join
 // unknowns a weak coupling holds apart: a threshold well above smoothed
@@ -201,6 +206,13 @@ func NewAMG(a *CSC, opt *AMGOptions) (*AMG, error) {
 		if o.Unsmoothed {
 			cur, ok = quotient(cur, lev.p, agg, left)
 		} else {
+			// A product that would hold twice what the budget has left, by
+			// a sample of its columns, is refused before it is formed:
+			// forming it up to the cap costs most of a set-up on graphs
+			// that fill in.
+			if left >= 0 && galerkinNnzEstimate(cur, lev.p, lev.pt, max(1, nagg/fillSample)) > 2*left {
+				return nil, &ComplexityExceeded{Level: len(m.levels) + 1, Max: o.MaxComplexity}
+			}
 			var ap *CSC
 			ap, ok = mulCSCLimit(cur, lev.p, apLimit)
 			if ok {
