@@ -112,12 +112,6 @@ func Source(name string, src []byte, opt *Options) (*Result, error) {
 	if opt == nil {
 		opt = &Options{}
 	}
-	large := len(src) >= collectAfterBuild
-	release := func() {}
-	if large {
-		release = holdPace()
-		defer release() // should the parse or the build panic
-	}
 	fset := diag.NewFileSet()
 	file := fset.AddFile(name, src)
 	ast := grammar.ParsePlain(name, src)
@@ -129,8 +123,7 @@ func Source(name string, src []byte, opt *Options) (*Result, error) {
 	// The rules need only the comments (kept in b.Files); the tree itself,
 	// most of the memory a large design takes, is dropped here.
 	ast = nil
-	if large {
-		release()
+	if len(src) >= collectAfterBuild {
 		// The tree is now garbage, but the collector paced itself on it:
 		// its next cycle would let the heap grow to twice the tree before
 		// anything is reclaimed, while the rules and the solve allocate.
