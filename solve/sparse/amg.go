@@ -146,8 +146,9 @@ func NewAMG(a *CSC, opt *AMGOptions) (*AMG, error) {
 	if a.N > o.CoarseSize && o.MaxLevels > 1 {
 		if m.perm, start = sharedOrder(a); m.perm != nil {
 			order = m.perm
+			// Only a plain hierarchy is refreshed, through dst.
 			var dst []int32
-			cur, dst = permuted(a, m.perm)
+			cur, dst = permuted(a, m.perm, o.Unsmoothed)
 			if o.Unsmoothed {
 				m.fine, m.dst = a, dst
 			}
@@ -234,7 +235,7 @@ func NewAMG(a *CSC, opt *AMGOptions) (*AMG, error) {
 		}
 		order = perm
 		if perm != nil {
-			cur, _ = permuted(cur, perm)
+			cur, _ = permuted(cur, perm, false)
 			pinv := invPerm(perm)
 			for i, c := range agg {
 				agg[i] = pinv[c]

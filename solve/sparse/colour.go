@@ -81,12 +81,12 @@ func sharedOrder(a *CSC) (perm, start []int32) {
 
 // permuted returns C = Q·A·Qᵀ for the symmetric matrix A, where
 // Q = I(perm, :), so that c_kl = a_perm[k],perm[l], with the rows of every
-// column in ascending order, and dst, where dst[p] is the entry of C that
-// entry p of A was copied to. It builds C row by row in the new order,
+// column in ascending order, and, when withDst is set, dst, where dst[p]
+// is the entry of C that entry p of A was copied to (nil otherwise). It builds C row by row in the new order,
 // reading row perm[r] of A as its column perm[r] (A is symmetric), so
 // strictly it holds Q·Aᵀ·Qᵀ; the two are the same matrix for the symmetric
 // A it is meant for.
-func permuted(a *CSC, perm []int32) (c *CSC, dst []int32) {
+func permuted(a *CSC, perm []int32, withDst bool) (c *CSC, dst []int32) {
 	n := a.M
 	pinv := invPerm(perm)
 	nz := a.Nnz()
@@ -97,7 +97,9 @@ func permuted(a *CSC, perm []int32) (c *CSC, dst []int32) {
 	for k := 0; k < n; k++ {
 		c.P[k+1] += c.P[k]
 	}
-	dst = make([]int32, nz)
+	if withDst {
+		dst = make([]int32, nz)
+	}
 	next := append([]int32(nil), c.P[:n]...)
 	for r, i := range perm {
 		// Column i of A is row i: the entries a_ji, placed in row r of
@@ -108,7 +110,9 @@ func permuted(a *CSC, perm []int32) (c *CSC, dst []int32) {
 			next[k]++
 			c.I[q] = int32(r)
 			c.X[q] = a.X[p]
-			dst[p] = q
+			if withDst {
+				dst[p] = q
+			}
 		}
 	}
 	return c, dst

@@ -84,7 +84,7 @@ func TestPermuted(t *testing.T) {
 		for i, k := range rapid.Permutation(seq(n)).Draw(t, "perm") {
 			perm[i] = int32(k)
 		}
-		c, dst := permuted(a, perm)
+		c, dst := permuted(a, perm, true)
 		q := mat.NewDense(n, n, nil)
 		for k, i := range perm {
 			q.Set(k, int(i), 1)
@@ -228,7 +228,7 @@ func TestRefreshColouredFinest(t *testing.T) {
 	if err := m.Refresh(b); err != nil {
 		t.Fatal(err)
 	}
-	want, _ := permuted(b, m.perm)
+	want, _ := permuted(b, m.perm, false)
 	if !sameColumns(want, m.levels[0].a) {
 		t.Fatal("refreshed finest level has another pattern")
 	}
@@ -282,7 +282,7 @@ func TestAggregatesIgnoreColourOrder(t *testing.T) {
 		}
 		want, nwant := aggregate(a, diag, 0.08, nil)
 		perm, _ := colourOrder(a)
-		c, _ := permuted(a, perm)
+		c, _ := permuted(a, perm, false)
 		cdiag := make([]float64, a.N)
 		for k, i := range perm {
 			cdiag[k] = diag[i]
