@@ -298,3 +298,30 @@ func TestAggregatesIgnoreColourOrder(t *testing.T) {
 		}
 	}
 }
+
+// columnsPermuted gives A·Qᵀ, computed densely with gonum as the
+// reference, on rectangular matrices like the prolongators it permutes.
+func TestColumnsPermuted(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		n := rapid.IntRange(1, 30).Draw(t, "n")
+		m := rapid.IntRange(1, 30).Draw(t, "m")
+		tr := NewTriplet(n, m, 3*m)
+		for e := rapid.IntRange(0, 3*m).Draw(t, "entries"); e > 0; e-- {
+			tr.Add(rapid.IntRange(0, n-1).Draw(t, "i"), rapid.IntRange(0, m-1).Draw(t, "j"), rapid.Float64Range(-1, 1).Draw(t, "x"))
+		}
+		a := tr.Compress()
+		perm := make([]int32, m)
+		for k, j := range rapid.Permutation(seq(m)).Draw(t, "perm") {
+			perm[k] = int32(j)
+		}
+		q := mat.NewDense(m, m, nil)
+		for k, j := range perm {
+			q.Set(k, int(j), 1)
+		}
+		var want mat.Dense
+		want.Mul(denseOf(a), q.T())
+		if !mat.Equal(denseOf(columnsPermuted(a, perm)), &want) {
+			t.Fatalf("columnsPermuted differs from A·Qᵀ")
+		}
+	})
+}
