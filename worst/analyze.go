@@ -179,7 +179,11 @@ type analysis struct {
 	qIdx  []int
 	f0    []float64
 	est   []float64
-	dir   [][]int8 // per quantity, per part parameter: −1, 0, +1
+	// pending: the estimate exceeded the nominal use, so the quantity's
+	// own first-order corner is to be solved (confirm), even where a
+	// solve at another corner has since confirmed a value.
+	pending []bool
+	dir     [][]int8 // per quantity, per part parameter: −1, 0, +1
 	tEnd  []float64
 	rth   []float64 // per quantity: Thévenin resistance its own resistor sees (power only), or NaN
 	tgain []float64 // per quantity: the gain of its temperature end
@@ -364,11 +368,13 @@ func (a *analysis) sensitivities() error {
 	}
 	// First-order estimates are kept where they exceed the nominal use;
 	// confirm replaces them by solved values.
+	a.pending = make([]bool, nq)
 	for q := 0; q < nq; q++ {
 		w := &a.res.Worst[a.qPart[q]][a.qIdx[q]]
 		if a.est[q] > w.Frac {
 			w.Frac, w.Confirmed = a.est[q], false
 			w.At = a.corner(q)
+			a.pending[q] = true
 		}
 	}
 	return nil
@@ -502,32 +508,50 @@ func (a *analysis) everyCorner() {
 
 // confirm solves the first-order worst corner of every quantity that comes
 // near a limit, and searches a resistor's own value for its power where
-// the maximum may lie inside its band.
+// the maximum may lie inside its band. A quantity's own corner is solved
+// even when a solve at another quantity's corner has already beaten its
+// estimate: a first-order estimate can fall short of the value at its
+// corner (second-order terms), so another corner beating the estimate
+// says nothing of its own corner, where the quantity may be larger still.
+//
+// Where the first-order change reaches the nominal use itself, a use
+// judged on a magnitude (|V|, |I|) may pass through zero inside the box;
+// the magnitude is then largest at one of two opposite corners (those of
+// the signed quantity's maximum and minimum), and which one the
+// first-order signs cannot tell, so the opposite corner is solved too.
 func (a *analysis) confirm() {
 	seen := map[string]bool{}
 	for q := range a.f0 {
-		i, m := a.qPart[q], a.qIdx[q]
-		w := &a.res.Worst[i][m]
-		if w.Confirmed || w.Frac < a.opt.ConfirmAbove {
+		if !a.pending[q] || a.est[q] < a.opt.ConfirmAbove {
 			continue
 		}
-		c := a.corner(q)
-		key := cornerKey(c)
-		if seen[key] {
-			continue
+		own := a.corner(q)
+		cs := []Corner{own}
+		if a.est[q]-a.f0[q] >= a.f0[q] {
+			op := Corner{S: make([]float64, len(own.S)), T: own.T}
+			for k, s := range own.S {
+				op.S[k] = -s
+			}
+			cs = append(cs, op)
 		}
-		if a.res.Solves >= a.opt.MaxConfirm {
-			a.res.Unconfirmed++
-			continue
+		for _, c := range cs {
+			key := cornerKey(c)
+			if seen[key] {
+				continue
+			}
+			if a.res.Solves >= a.opt.MaxConfirm {
+				a.res.Unconfirmed++
+				continue
+			}
+			seen[key] = true
+			r, err := a.solveAt(c)
+			if err != nil {
+				a.res.Failed++
+				a.res.Unconfirmed++
+				continue
+			}
+			a.record(r, c, -1)
 		}
-		seen[key] = true
-		r, err := a.solveAt(c)
-		if err != nil {
-			a.res.Failed++
-			a.res.Unconfirmed++
-			continue
-		}
-		a.record(r, c, -1)
 	}
 	for q := range a.f0 {
 		if math.IsNaN(a.rth[q]) {

@@ -119,8 +119,12 @@ func TestInteriorMaximum(t *testing.T) {
 // (each is a ratio of affine functions of any one resistor, or linear in
 // any one source, by Cramer's rule), and falls short of it by no more than
 // the second-order terms the first-order choice of corner cannot see (a
-// bridge balanced at nominal): (Σ tol)² of it. A wrong end for any
-// parameter would cost a first-order 2·tol·|∂q/∂p|.
+// bridge balanced at nominal). Those terms are products of two
+// parameters' deviations: Σ tol times the first-order change, that is
+// Σ tol · (every corner − nominal) (Taylor's theorem), which is (Σ tol)²
+// of the quantity where it does not nearly cancel at nominal and more
+// where it does (a voltage that passes through 0 V inside the box). A
+// wrong end for any parameter would cost a first-order 2·tol·|∂q/∂p|.
 func TestSensitivityMatchesCorners(t *testing.T) {
 	rapid.Check(t, func(rt *rapid.T) {
 		b := newBuilder()
@@ -156,6 +160,10 @@ func TestSensitivityMatchesCorners(t *testing.T) {
 			sum += d.Parts[i].Tol
 		}
 		judge := func(i circuit.PartID, v, c, p, t float64) []float64 { return []float64{math.Abs(v), math.Abs(c)} }
+		nom, err := solve.Solve(d, &solve.Options{Temperature: 273.15 + room.Nominal})
+		if err != nil {
+			rt.Fatal(err)
+		}
 		sens := analyze(t, d, room, judge, Options{MaxCorners: -1, ConfirmAbove: -1})
 		all := analyze(t, d, room, judge, Options{})
 		if sens == nil || all == nil {
@@ -170,8 +178,9 @@ func TestSensitivityMatchesCorners(t *testing.T) {
 		for i := range d.Parts {
 			for m := range all.Worst[i] {
 				s, e := sens.Worst[i][m].Frac, all.Worst[i][m].Frac
-				if !sens.Worst[i][m].Confirmed || s < e*(1-sum*sum)-1e-15 || s > e*(1+1e-9)+1e-15 {
-					rt.Fatalf("%s quantity %d: sensitivities %.12g (confirmed %v), every corner %.12g", d.Parts[i].Local, m, s, sens.Worst[i][m].Confirmed, e)
+				f0 := judge(circuit.PartID(i), nom.V[i], nom.I[i], nom.P[i], room.Nominal)[m]
+				if !sens.Worst[i][m].Confirmed || s < e-sum*(e-f0)-1e-15 || s > e*(1+1e-9)+1e-15 {
+					rt.Fatalf("%s quantity %d: sensitivities %.12g (confirmed %v), every corner %.12g, nominal %.12g", d.Parts[i].Local, m, s, sens.Worst[i][m].Confirmed, e, f0)
 				}
 			}
 		}
