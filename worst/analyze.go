@@ -184,9 +184,9 @@ type analysis struct {
 	// solve at another corner has since confirmed a value.
 	pending []bool
 	dir     [][]int8 // per quantity, per part parameter: −1, 0, +1
-	tEnd  []float64
-	rth   []float64 // per quantity: Thévenin resistance its own resistor sees (power only), or NaN
-	tgain []float64 // per quantity: the gain of its temperature end
+	tEnd    []float64
+	rth     []float64 // per quantity: Thévenin resistance its own resistor sees (power only), or NaN
+	tgain   []float64 // per quantity: the gain of its temperature end
 }
 
 func (a *analysis) tGain(q int) float64 {
