@@ -234,6 +234,41 @@ func TestBackfedConverterStarvedInputOrderFree(t *testing.T) {
 	})
 }
 
+// TestStarvedInputAtZeroOrderFree: converter U6's input (n2 to its common
+// n1) sits across R1 with U4's output wired back to its input, so the
+// rail offers it 0 V (Kirchhoff's voltage law around the wire) and it is
+// starved; the message gives that 0 V alike in every statement order.
+// Found by TestStatementOrderDoesNotMatter: the Thévenin voltage, a sum of
+// terms that cancel, came out as a few pV in one order.
+func TestStarvedInputAtZeroOrderFree(t *testing.T) {
+	lines := []string{
+		"resistor R1 (n2, n1) 1 Ω rated 100 mW",
+		"resistor R2 (n3, n2) 1 Ω rated 100 mW",
+		"resistor R3 (n4, gnd) 1 Ω rated 100 mW",
+		"converter U4 (n1, n3, n2) 3.3 V efficiency 85% input 4 V to 16 V quiescent 50 µA rated 100 mA",
+		"wire W5 (n1, n3) rated 100 mA",
+		"converter U6 (n2, n4, n1) 3.3 V efficiency 85% input 4 V to 16 V quiescent 50 µA rated 100 mA",
+		"source V1 (n1, gnd) 5 V rated 10 mA",
+	}
+	var first string
+	inOrders(t, lines, [][]int{{0, 1, 2, 3, 4, 5, 6}, {1, 2, 0, 3, 4, 5, 6}}, 30, 13, func(n int, _ string, res *Result) {
+		var got []string
+		for _, f := range res.Diags {
+			got = append(got, f.Rule+": "+f.Message)
+		}
+		sort.Strings(got)
+		s := strings.Join(got, "\n")
+		if !strings.Contains(s, "starved-load: converter U6's input") {
+			t.Fatalf("order %d: no starved-load finding for U6:\n%s", n, s)
+		}
+		if first == "" {
+			first = s
+		} else if s != first {
+			t.Fatalf("order %d:\n%s\nfirst order:\n%s", n, s, first)
+		}
+	})
+}
+
 // inOrders checks the design of lines, after "ground gnd", in the orders
 // given (each a permutation of the lines' indices) and in n more random
 // ones drawn from seed, and hands each order's number, source and result

@@ -107,8 +107,15 @@ func (m *model) updateLoads(xn []float64) bool {
 		// two nets' own voltages (two nets at 0 V reached through a 1.8 V
 		// source and back), so it is judged against the largest offset
 		// too.
-		if a == b && math.Abs(v) <= 1e-12*(math.Abs(m.netV(xn, p.Pins[0]))+math.Abs(m.netV(xn, p.Pins[1]))+math.Abs(m.lambda)*m.offMax) {
+		scale := math.Abs(m.netV(xn, p.Pins[0])) + math.Abs(m.netV(xn, p.Pins[1])) + math.Abs(m.lambda)*m.offMax
+		if a == b && math.Abs(v) <= 1e-12*scale {
 			v = 0
+		}
+		// Likewise V_th, a sum of terms that may cancel: where it is 0 V
+		// to within their rounding, it is 0 V, whatever order the
+		// statements put the terms in.
+		if math.Abs(l.vth) <= 1e-12*(scale+math.Abs(rth*l.i)) {
+			l.vth = 0
 		}
 		switch disc := l.vth*l.vth - 4*pw*rth; {
 		case pw == 0:
