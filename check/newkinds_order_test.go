@@ -186,21 +186,9 @@ func TestDrawsSettleToTheSolvesAccuracy(t *testing.T) {
 		"wire W8 (n2, n6) rated 500 mA",
 		"source V1 (n1, gnd) 5 V rated 10 mA",
 	}
-	var first string
-	inOrders(t, lines, [][]int{{0, 1, 2, 3, 4, 5, 6, 7, 8}, {2, 1, 0, 3, 4, 5, 6, 7, 8}}, 30, 9, func(n int, _ string, res *Result) {
-		var got []string
-		for _, f := range res.Diags {
-			got = append(got, f.Rule+": "+f.Message)
-		}
-		sort.Strings(got) // findings come in line order, which the order of statements moves
-		s := strings.Join(got, "\n")
+	sameFindings(t, lines, [][]int{{0, 1, 2, 3, 4, 5, 6, 7, 8}, {2, 1, 0, 3, 4, 5, 6, 7, 8}}, 30, 9, func(n int, s string) {
 		if strings.Contains(s, "no-convergence") {
 			t.Fatalf("order %d:\n%s", n, s)
-		}
-		if first == "" {
-			first = s
-		} else if s != first {
-			t.Fatalf("order %d:\n%s\nfirst order:\n%s", n, s, first)
 		}
 	})
 }
@@ -250,21 +238,32 @@ func TestStarvedInputAtZeroOrderFree(t *testing.T) {
 		"converter U6 (n2, n4, n1) 3.3 V efficiency 85% input 4 V to 16 V quiescent 50 µA rated 100 mA",
 		"source V1 (n1, gnd) 5 V rated 10 mA",
 	}
+	sameFindings(t, lines, [][]int{{0, 1, 2, 3, 4, 5, 6}, {1, 2, 0, 3, 4, 5, 6}}, 30, 13, func(n int, s string) {
+		if !strings.Contains(s, "starved-load: converter U6's input") {
+			t.Fatalf("order %d: no starved-load finding for U6:\n%s", n, s)
+		}
+	})
+}
+
+// sameFindings checks the design of lines in inOrders' orders, hands
+// judge each order's findings ("rule: message" lines, sorted: findings
+// come in line order, which the order of statements moves), and fails
+// unless every order gives the first order's.
+func sameFindings(t *testing.T, lines []string, given [][]int, n int, seed uint64, judge func(order int, findings string)) {
+	t.Helper()
 	var first string
-	inOrders(t, lines, [][]int{{0, 1, 2, 3, 4, 5, 6}, {1, 2, 0, 3, 4, 5, 6}}, 30, 13, func(n int, _ string, res *Result) {
+	inOrders(t, lines, given, n, seed, func(k int, _ string, res *Result) {
 		var got []string
 		for _, f := range res.Diags {
 			got = append(got, f.Rule+": "+f.Message)
 		}
 		sort.Strings(got)
 		s := strings.Join(got, "\n")
-		if !strings.Contains(s, "starved-load: converter U6's input") {
-			t.Fatalf("order %d: no starved-load finding for U6:\n%s", n, s)
-		}
-		if first == "" {
+		judge(k, s)
+		if k == 0 {
 			first = s
 		} else if s != first {
-			t.Fatalf("order %d:\n%s\nfirst order:\n%s", n, s, first)
+			t.Fatalf("order %d:\n%s\nfirst order:\n%s", k, s, first)
 		}
 	})
 }
