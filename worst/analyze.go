@@ -187,6 +187,9 @@ type analysis struct {
 	tEnd    []float64
 	rth     []float64 // per quantity: Thévenin resistance its own resistor sees (power only), or NaN
 	tgain   []float64 // per quantity: the gain of its temperature end
+	// held: per part, per rating, the largest use solved below a
+	// first-order estimate while the estimate stood (record).
+	held [][]Case
 }
 
 func (a *analysis) tGain(q int) float64 {
@@ -411,15 +414,48 @@ func (a *analysis) record(r *solve.Result, c Corner, only circuit.PartID) {
 		fr := a.judge(circuit.PartID(i), r.V[i], r.I[i], r.P[i], c.T)
 		for m, f := range fr {
 			w := &ws[m]
-			if f > w.Frac || !w.Confirmed && f >= w.Frac*(1-1e-9) {
-				*w = Case{Frac: f, V: r.V[i], I: r.I[i], P: r.P[i], T: c.T, At: Corner{S: append([]float64(nil), c.S...), T: c.T}, Confirmed: true}
-			} else if !w.Confirmed && f < w.Frac && sameCorner(w.At, c) {
+			solved := Case{Frac: f, V: r.V[i], I: r.I[i], P: r.P[i], T: c.T, At: Corner{S: append([]float64(nil), c.S...), T: c.T}, Confirmed: true}
+			switch {
+			case f > w.Frac || !w.Confirmed && f >= w.Frac*(1-1e-9):
+				*w = solved
+			case !w.Confirmed && sameCorner(w.At, c):
 				// The first-order estimate at this corner overshot: the
-				// solved value stands.
-				*w = Case{Frac: f, V: r.V[i], I: r.I[i], P: r.P[i], T: c.T, At: w.At, Confirmed: true}
+				// solved value stands, or the largest solved at another
+				// corner while the estimate was held, if that is larger.
+				if b := a.bestSolved(i, m); b != nil && b.Frac > f {
+					solved = *b
+				}
+				*w = solved
+			case !w.Confirmed:
+				// Below the estimate held: kept, so that it is not lost
+				// if the estimate's own corner comes out lower still.
+				if b := a.bestSolved(i, m); b == nil || f > b.Frac {
+					a.keepSolved(i, m, solved)
+				}
 			}
 		}
 	}
+}
+
+// bestSolved returns the largest use of part i's rating m solved at a
+// corner while a first-order estimate above it was held, or nil.
+func (a *analysis) bestSolved(i, m int) *Case {
+	if a.held == nil || a.held[i] == nil || !a.held[i][m].Confirmed {
+		return nil
+	}
+	return &a.held[i][m]
+}
+
+// keepSolved keeps c as the largest use of part i's rating m solved while
+// an estimate was held.
+func (a *analysis) keepSolved(i, m int, c Case) {
+	if a.held == nil {
+		a.held = make([][]Case, len(a.res.Worst))
+	}
+	if a.held[i] == nil {
+		a.held[i] = make([]Case, len(a.res.Worst[i]))
+	}
+	a.held[i][m] = c
 }
 
 func sameCorner(x, y Corner) bool {

@@ -289,3 +289,50 @@ func TestWorkBudgetReadsTheRealFill(t *testing.T) {
 		t.Fatalf("a budget below the chain's real work gave %v, not the work it skips", err)
 	}
 }
+
+// TestEveryCornerKeepsItsLargest: with every corner solved, a part's worst
+// use is the largest over the corners, each corner solved here on its own
+// as the reference (the definition of the worst case over the box). Found
+// by TestSensitivityMatchesCorners: the solve at a first-order estimate's
+// own corner, lower than the estimate, replaced it, and with it a larger
+// value solved at another corner while the estimate was held.
+func TestEveryCornerKeepsItsLargest(t *testing.T) {
+	b := newBuilder()
+	b.add(circuit.VoltageSource, "V1", "b", "gnd", 1.25, 0)
+	b.add(circuit.Resistor, "RCb", "b", "c", 104.75, 0)
+	b.add(circuit.Resistor, "RCc", "c", "d", 10, 0)
+	b.add(circuit.Resistor, "RCd", "d", "e", 10, 0)
+	rce := b.add(circuit.Resistor, "RCe", "e", "gnd", 10.96875, 0)
+	toled := []circuit.PartID{
+		b.add(circuit.Resistor, "RX0", "gnd", "e", 11.984375, 0.01),
+		b.add(circuit.Resistor, "RX1", "c", "d", 10, 0.01),
+		b.add(circuit.CurrentSource, "I1", "c", "gnd", 0.0087890625, 0.01),
+	}
+	b.add(circuit.Resistor, "RX2", "b", "e", 16, 0)
+	d := b.d
+	judge := func(i circuit.PartID, v, c, p, t float64) []float64 { return []float64{math.Abs(v), math.Abs(c)} }
+	res := analyze(t, d, room, judge, Options{})
+	if !res.Corners {
+		t.Fatal("not every corner was solved")
+	}
+	want := 0.0
+	for mask := 0; mask < 1<<len(toled); mask++ {
+		dc := *d
+		dc.Parts = append([]circuit.Part(nil), d.Parts...)
+		for k, id := range toled {
+			s := -1.0
+			if mask&(1<<k) != 0 {
+				s = 1
+			}
+			dc.Parts[id].Value *= 1 + s*dc.Parts[id].Tol
+		}
+		r, err := solve.Solve(&dc, &solve.Options{Temperature: 273.15 + room.Nominal})
+		if err != nil {
+			t.Fatal(err)
+		}
+		want = math.Max(want, math.Abs(r.V[rce]))
+	}
+	if got := res.Worst[rce][0].Frac; math.Abs(got-want) > 1e-12*want {
+		t.Fatalf("RCe's worst |V| %.12g, the largest over every corner %.12g", got, want)
+	}
+}
