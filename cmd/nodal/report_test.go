@@ -106,66 +106,58 @@ func checkRails(t *testing.T, doc *reportDoc) {
 		}
 	}
 	onRail := map[string]float64{} // what the supplies listing each rail deliver
-	var walk func(ss []*reportSupply)
-	var walkLoads func(ls []*reportLoad)
-	walk = func(ss []*reportSupply) {
-		for _, s := range ss {
-			if !s.Judged || len(s.Undetermined) > 0 || s.Repeated {
-				continue
-			}
-			if s.Input == nil && !relNear(s.Power, -power[s.Name], 1e-8) {
-				t.Errorf("supply %s delivers %v W, its part absorbs %v W", s.Name, s.Power, power[s.Name])
-			}
-			if math.Abs(s.Taken-s.Power-s.Loss) > 1e-8*math.Max(math.Abs(s.Taken), 1e-12) {
-				t.Errorf("supply %s takes %v W, delivers %v W, loses %v W", s.Name, s.Taken, s.Power, s.Loss)
-			}
-			key := s.Name
-			if s.ListedUnder != "" {
-				key = s.ListedUnder
-			}
-			onRail[key] += s.Current
-			walk(s.Feeds)
-			walkLoads(s.Loads)
+	judged := func(s *reportSupply) bool { return s.Judged && len(s.Undetermined) == 0 && !s.Repeated }
+	eachSupply(doc.Rails, func(s *reportSupply) {
+		if !judged(s) {
+			return
 		}
-	}
-	walkLoads = func(ls []*reportLoad) {
-		for _, l := range ls {
-			walk(l.Feeds)
-			walkLoads(l.Loads)
+		if s.Input == nil && !relNear(s.Power, -power[s.Name], 1e-8) {
+			t.Errorf("supply %s delivers %v W, its part absorbs %v W", s.Name, s.Power, power[s.Name])
 		}
-	}
-	walk(doc.Rails)
-	var sums func(ss []*reportSupply)
-	var sumsLoads func(ls []*reportLoad)
-	sums = func(ss []*reportSupply) {
-		for _, s := range ss {
-			if !s.Judged || len(s.Undetermined) > 0 || s.Repeated || s.ListedUnder != "" {
-				continue
-			}
-			taken, scale := 0.0, math.Abs(onRail[s.Name])
-			for _, l := range s.Loads {
-				taken += l.Current
-				scale = math.Max(scale, math.Abs(l.Current))
-			}
-			for _, f := range s.Feeds {
-				if f.Input != nil {
-					taken += f.Input.Current
-				}
-			}
-			if math.Abs(taken-onRail[s.Name]) > 1e-8*math.Max(scale, 1e-12) {
-				t.Errorf("rail %s: its parts take %v A, its supplies deliver %v A", s.Rail, taken, onRail[s.Name])
-			}
-			sums(s.Feeds)
-			sumsLoads(s.Loads)
+		if math.Abs(s.Taken-s.Power-s.Loss) > 1e-8*math.Max(math.Abs(s.Taken), 1e-12) {
+			t.Errorf("supply %s takes %v W, delivers %v W, loses %v W", s.Name, s.Taken, s.Power, s.Loss)
 		}
-	}
-	sumsLoads = func(ls []*reportLoad) {
-		for _, l := range ls {
-			sums(l.Feeds)
-			sumsLoads(l.Loads)
+		key := s.Name
+		if s.ListedUnder != "" {
+			key = s.ListedUnder
 		}
+		onRail[key] += s.Current
+	})
+	eachSupply(doc.Rails, func(s *reportSupply) {
+		if !judged(s) || s.ListedUnder != "" {
+			return
+		}
+		taken, scale := 0.0, math.Abs(onRail[s.Name])
+		for _, l := range s.Loads {
+			taken += l.Current
+			scale = math.Max(scale, math.Abs(l.Current))
+		}
+		for _, f := range s.Feeds {
+			if f.Input != nil {
+				taken += f.Input.Current
+			}
+		}
+		if math.Abs(taken-onRail[s.Name]) > 1e-8*math.Max(scale, 1e-12) {
+			t.Errorf("rail %s: its parts take %v A, its supplies deliver %v A", s.Rail, taken, onRail[s.Name])
+		}
+	})
+}
+
+// eachSupply calls f for every supply of the power tree rails, the ones
+// fed through loads included, parents before their children.
+func eachSupply(rails []*reportSupply, f func(s *reportSupply)) {
+	for _, s := range rails {
+		f(s)
+		eachSupply(s.Feeds, f)
+		var loads func(ls []*reportLoad)
+		loads = func(ls []*reportLoad) {
+			for _, l := range ls {
+				eachSupply(l.Feeds, f)
+				loads(l.Loads)
+			}
+		}
+		loads(s.Loads)
 	}
-	sums(doc.Rails)
 }
 
 func parseReport(t *testing.T, out string) *reportDoc {
@@ -363,24 +355,11 @@ func checkUses(t *testing.T, doc *reportDoc) {
 // another rail, by name.
 func convertingSupplies(doc *reportDoc) map[string]*reportSupply {
 	out := map[string]*reportSupply{}
-	var walk func(ss []*reportSupply)
-	var walkLoads func(ls []*reportLoad)
-	walk = func(ss []*reportSupply) {
-		for _, s := range ss {
-			if s.Input != nil && s.Judged && !s.Repeated {
-				out[s.Name] = s
-			}
-			walk(s.Feeds)
-			walkLoads(s.Loads)
+	eachSupply(doc.Rails, func(s *reportSupply) {
+		if s.Input != nil && s.Judged && !s.Repeated {
+			out[s.Name] = s
 		}
-	}
-	walkLoads = func(ls []*reportLoad) {
-		for _, l := range ls {
-			walk(l.Feeds)
-			walkLoads(l.Loads)
-		}
-	}
-	walk(doc.Rails)
+	})
 	return out
 }
 
