@@ -121,36 +121,30 @@ what the board will do: below the range a converter drops out or stops,
 above it it can be damaged. The finding gives the input and the range, at
 nominal values or at the corner of the tolerances and ambient range where
 the input leaves it.`, func(d *circuit.Design, q *circuit.Part, s Flow, _ solve.Region) string {
-	c := q.Conv
-	if c.InHigh <= 0 {
-		return ""
-	}
-	tol := 1e-9 * c.InHigh
-	switch {
-	case s.VIn < c.InLow-tol:
-		return fmt.Sprintf("%s %s has %s at its input, below its %s to %s input range: it cannot hold its %s output there",
-			q.Kind, d.NameOf(q), fmtV(s.VIn), fmtV(c.InLow), fmtV(c.InHigh), fmtV(q.Value))
-	case s.VIn > c.InHigh+tol:
-		return fmt.Sprintf("%s %s has %s at its input, above its %s to %s input range: past its datasheet's limit it may be damaged",
-			q.Kind, d.NameOf(q), fmtV(s.VIn), fmtV(c.InLow), fmtV(c.InHigh))
-	}
-	return ""
+	return outOfRange(d, q, s.VIn, s.VIn, "", "")
 }, func(d *circuit.Design, q *circuit.Part, sr *worst.SupplyRange, where func(worst.Corner) string) string {
+	return outOfRange(d, q, sr.InLow, sr.InHigh, " with "+where(sr.LowAt), " with "+where(sr.HighAt))
+})
+
+// outOfRange words converter q's input leaving its input range: low, the
+// lowest input, below it (at lowAt, a phrase or ""), else high, the
+// highest, above it (at highAt); "" while both are inside.
+func outOfRange(d *circuit.Design, q *circuit.Part, low, high float64, lowAt, highAt string) string {
 	c := q.Conv
 	if c.InHigh <= 0 {
 		return ""
 	}
 	tol := 1e-9 * c.InHigh
 	switch {
-	case sr.InLow < c.InLow-tol:
-		return fmt.Sprintf("%s %s has %s at its input with %s, below its %s to %s input range: it cannot hold its %s output there",
-			q.Kind, d.NameOf(q), fmtV(sr.InLow), where(sr.LowAt), fmtV(c.InLow), fmtV(c.InHigh), fmtV(q.Value))
-	case sr.InHigh > c.InHigh+tol:
-		return fmt.Sprintf("%s %s has %s at its input with %s, above its %s to %s input range: past its datasheet's limit it may be damaged",
-			q.Kind, d.NameOf(q), fmtV(sr.InHigh), where(sr.HighAt), fmtV(c.InLow), fmtV(c.InHigh))
+	case low < c.InLow-tol:
+		return fmt.Sprintf("%s %s has %s at its input%s, below its %s to %s input range: it cannot hold its %s output there",
+			q.Kind, d.NameOf(q), fmtV(low), lowAt, fmtV(c.InLow), fmtV(c.InHigh), fmtV(q.Value))
+	case high > c.InHigh+tol:
+		return fmt.Sprintf("%s %s has %s at its input%s, above its %s to %s input range: past its datasheet's limit it may be damaged",
+			q.Kind, d.NameOf(q), fmtV(high), highAt, fmtV(c.InLow), fmtV(c.InHigh))
 	}
 	return ""
-})
+}
 
 // Backfed reports regulators and converters whose output the rest of the
 // circuit holds above their set voltage.
