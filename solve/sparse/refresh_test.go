@@ -26,6 +26,16 @@ func rescaled(a *CSC, seed uint64) *CSC {
 	return b
 }
 
+// denseGalerkin returns Pᵀ·A·P for the dense fine matrix a and the
+// prolongator p, by gonum's dense products (the reference).
+func denseGalerkin(a *mat.Dense, p *CSC) *mat.Dense {
+	pd := denseOf(p)
+	var ap, g mat.Dense
+	ap.Mul(a, pd)
+	g.Mul(pd.T(), &ap)
+	return &g
+}
+
 // A refreshed plain-aggregation hierarchy holds, on every level, the
 // Galerkin product P̂ᵀ·A·P̂ of the new values, computed here densely with
 // gonum from the same prolongators (the reference), and PCG with it solves
@@ -43,12 +53,9 @@ func TestAMGRefreshMatchesDenseGalerkin(t *testing.T) {
 		// As built, and after a refresh for new values.
 		fine := denseOf(a)
 		for l := 0; l+1 < len(m.levels); l++ {
-			p := denseOf(m.levels[l].p)
-			var ap, want mat.Dense
-			ap.Mul(fine, p)
-			want.Mul(p.T(), &ap)
+			want := denseGalerkin(fine, m.levels[l].p)
 			got := denseOf(m.levels[l+1].a)
-			if !mat.EqualApprox(got, &want, 1e-13*mat.Norm(&want, math.Inf(1))) {
+			if !mat.EqualApprox(got, want, 1e-13*mat.Norm(want, math.Inf(1))) {
 				t.Fatalf("seed %d, level %d as built differs from the dense Galerkin product", seed, l+1)
 			}
 			fine = got
@@ -59,13 +66,10 @@ func TestAMGRefreshMatchesDenseGalerkin(t *testing.T) {
 		}
 		fine = denseOf(b)
 		for l := 0; l+1 < len(m.levels); l++ {
-			p := denseOf(m.levels[l].p)
-			var ap, want mat.Dense
-			ap.Mul(fine, p)
-			want.Mul(p.T(), &ap)
+			want := denseGalerkin(fine, m.levels[l].p)
 			got := denseOf(m.levels[l+1].a)
 			r, c := want.Dims()
-			scale := mat.Norm(&want, math.Inf(1))
+			scale := mat.Norm(want, math.Inf(1))
 			for i := 0; i < r; i++ {
 				for j := 0; j < c; j++ {
 					if d := math.Abs(got.At(i, j) - want.At(i, j)); d > 1e-13*scale {
