@@ -69,30 +69,21 @@ func perPart(b *testing.B, parts int) {
 	b.ReportMetric(float64(parts)*float64(b.N)/b.Elapsed().Seconds(), "parts/s")
 }
 
-func BenchmarkParse(b *testing.B) {
-	each(b, func(b *testing.B, kind string, src []byte) {
-		b.SetBytes(int64(len(src)))
-		b.ReportAllocs()
-		var f *grammar.File
-		for b.Loop() {
-			f = grammar.Parse("bench.nodal", src)
-		}
-		if len(f.Errors) > 0 {
-			b.Fatal(f.Errors[0])
-		}
-		perPart(b, len(f.Stmts))
-	})
-}
+func BenchmarkParse(b *testing.B) { benchParse(b, grammar.Parse) }
 
 // BenchmarkParsePlain is the parse the check makes (check.Source):
 // plain part lines kept as records, the file read in pieces on every core.
-func BenchmarkParsePlain(b *testing.B) {
+func BenchmarkParsePlain(b *testing.B) { benchParse(b, grammar.ParsePlain) }
+
+// benchParse times parse on every generated design, failing on a parse
+// error, and reports statements (plain lines included) a second.
+func benchParse(b *testing.B, parse func(name string, src []byte) *grammar.File) {
 	each(b, func(b *testing.B, kind string, src []byte) {
 		b.SetBytes(int64(len(src)))
 		b.ReportAllocs()
 		var f *grammar.File
 		for b.Loop() {
-			f = grammar.ParsePlain("bench.nodal", src)
+			f = parse("bench.nodal", src)
 		}
 		if len(f.Errors) > 0 {
 			b.Fatal(f.Errors[0])
