@@ -203,3 +203,35 @@ resistor RB (vb, gnd) 25 Ω
 		}
 	}
 }
+
+// TestConverterInputRangeAtCorner: a 30 V bus of ±10 % is 33 V at its top
+// (30 × 1.1), past a converter's 8 V to 32 V input range, though 30 V at
+// nominal is inside it: the worst case over the tolerances finds the
+// corner and the finding names it; at ±5 % (31.5 V) nothing fires.
+func TestConverterInputRangeAtCorner(t *testing.T) {
+	for _, c := range []struct {
+		tol   string
+		fires bool
+	}{{"10%", true}, {"5%", false}} {
+		src := "ground gnd\nsource VBUS (vbus, gnd) 30 V tol " + c.tol + "\n" +
+			"converter U1 (vbus, v5, gnd) 5 V efficiency 90% input 8 V to 32 V rated 1 A\n" +
+			"resistor RL (v5, gnd) 10 Ω rated 5 W\n"
+		res, err := Source("t.nodal", []byte(src), nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		found := false
+		for _, dg := range res.Diags {
+			if dg.Rule != "input-range" {
+				continue
+			}
+			found = true
+			if !strings.Contains(dg.Message, "converter U1 has 33.0 V at its input with ") || !strings.Contains(dg.Message, "above its 8.00 V to 32.0 V input range") {
+				t.Errorf("tol %s: %s", c.tol, dg.Message)
+			}
+		}
+		if found != c.fires {
+			t.Errorf("tol %s: input-range fired %v, want %v: %v", c.tol, found, c.fires, res.Diags)
+		}
+	}
+}
